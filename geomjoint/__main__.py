@@ -1,0 +1,3 @@
+from geomjoint.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,84 @@
+"""Plain records of standard data, as the catalog hands them to the rest of the program.
+
+All lengths mm, stresses MPa.  Each record carries the `source` of its numbers.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Thread:
+    """A screw thread size: ISO metric (ISO 261/262/724) or Unified inch (ASME B1.1)."""
+
+    designation: str      # canonical: "M12", "M12x1.25", "1/2-13 UNC", "#10-24 UNC"
+    system: str           # "metric" | "inch"
+    series: str           # "coarse" | "fine" | "UNC" | "UNF"
+    d: float              # nominal (major) diameter, mm
+    pitch: float          # mm (inch: 25.4 / threads per inch)
+    d2: float             # basic pitch diameter, mm
+    d3: float             # minor diameter of the external thread, mm (inch: basic minor of 2A)
+    D1: float             # basic minor diameter of the internal thread, mm
+    stress_area: float    # tensile stress area A_s, mm^2
+    source: str
+
+    @property
+    def threads_per_inch(self) -> float:
+        return 25.4 / self.pitch
+
+
+@dataclass(frozen=True)
+class Grade:
+    """Strength of a bolt property class / grade for one size range."""
+
+    name: str             # "8.8", "10.9", "SAE 5", "A4-80"
+    system: str           # "iso898" | "sae" | "iso3506"
+    proof: float          # proof strength S_p, MPa
+    yield_strength: float  # R_eL / R_p0.2 / S_y (minimum), MPa
+    tensile: float        # R_m / S_ut (minimum), MPa
+    d_min: float          # size range in mm (inclusive)
+    d_max: float
+    source: str
+
+
+@dataclass(frozen=True)
+class Material:
+    """A member (clamped part) material."""
+
+    name: str
+    E: float                        # Young's modulus, MPa
+    poisson: float
+    yield_strength: float | None    # MPa
+    tensile_strength: float | None  # MPa
+    limiting_pressure: float | None  # p_G, limiting surface pressure under head/nut, MPa
+    thermal_expansion: float | None  # 1/K
+    wileman_A: float | None = None  # Wileman, Choudhury & Green (1991) constants
+    wileman_B: float | None = None
+    source: str = ""
+
+
+@dataclass(frozen=True)
+class HeadDims:
+    """Head of a bolt or screw."""
+
+    kind: str             # "hex" | "socket"
+    width: float          # hex: across flats s; socket: head diameter d_k, mm
+    height: float         # k, mm
+    bearing_diameter: float  # d_w (min), mm
+    source: str
+
+
+@dataclass(frozen=True)
+class NutDims:
+    width: float          # across flats s, mm
+    height: float         # m, mm
+    bearing_diameter: float  # d_w, mm
+    source: str
+
+
+@dataclass(frozen=True)
+class WasherDims:
+    inner: float          # d1, mm
+    outer: float          # d2, mm
+    thickness: float      # h, mm
+    source: str

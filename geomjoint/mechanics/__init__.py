@@ -1,0 +1,1 @@
+"""Pure-number joint mechanics (numpy/scipy only; never imports a CAD library)."""

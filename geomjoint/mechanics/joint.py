@@ -1,0 +1,178 @@
+"""The plain data that flows into and out of the joint engine.
+
+A :class:`JointSpec` is pure numbers (N, mm, MPa, N*mm, degC): the job reader or the
+geometry pipeline resolves designations, materials and defaults before the engine
+sees a joint, so the engine never looks anything up by name except standard
+fatigue data.  A :class:`JointResult` mirrors the JSON result document of
+DESIGN.md field for field.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+#: Young's modulus of bolt steel, MPa (Shigley, 10th ed., Table 8-8: 207 GPa)
+BOLT_STEEL_E = 207_000.0
+
+#: the fatigue criteria the engine knows (DESIGN.md job file, result schema)
+CRITERIA = ("goodman", "gerber", "asme-elliptic", "soderberg")
+
+#: member-stiffness methods (DESIGN.md job file)
+STIFFNESS_METHODS = ("frustum", "exponential", "vdi", "cone", "fe")
+
+
+@dataclass(frozen=True)
+class LayerSpec:
+    """One clamped layer, in order from the head side."""
+
+    thickness: float                # mm, > 0
+    E: float                        # MPa
+    poisson: float = 0.3
+    material: str = "steel"
+    part: str | None = None         # part name in the model, None when typed in
+    role: str = "member"            # "member" | "washer" | "tapped"
+    yield_strength: float | None = None    # MPa
+    tensile_strength: float | None = None  # MPa (internal-thread stripping in a tapped part)
+    limiting_pressure: float | None = None  # p_G, MPa
+    thermal_expansion: float | None = None  # 1/K
+    wileman: tuple[float, float] | None = None  # (A, B) of Wileman et al. (1991)
+
+
+@dataclass(frozen=True)
+class FastenerSpec:
+    """The bolt or cap screw, resolved to numbers."""
+
+    designation: str                # "M12", "1/2-13 UNC"
+    system: str                     # "metric" | "inch"
+    d: float                        # nominal diameter, mm
+    pitch: float                    # mm
+    d2: float                       # basic pitch diameter, mm
+    d3: float                       # minor diameter of the external thread, mm
+    D1: float                       # minor diameter of the internal thread, mm
+    stress_area: float              # A_s (A_t), mm^2
+    grade: str                      # "10.9", "SAE 5"
+    proof: float                    # S_p, MPa
+    yield_strength: float           # S_y, MPa
+    tensile: float                  # S_ut, MPa
+    length: float | None = None     # L, mm (None: a stud or unknown)
+    thread_length: float | None = None  # L_T, mm (None: the standard rule)
+    fully_threaded: bool = False
+    threads: str = "rolled"         # "rolled" | "cut"
+    head: str = "hex"               # "hex" | "socket"
+    E: float = BOLT_STEEL_E
+    thermal_expansion: float = 11.5e-6  # 1/K, carbon steel (from memory)
+    rolled_after_heat_treatment: bool = False
+
+
+@dataclass(frozen=True)
+class PreloadSpec:
+    """How the preload is set."""
+
+    mode: str                       # "proof_fraction" | "force" | "torque" | "none"
+    value: float                    # fraction of proof load, N, or N*mm
+    nut_factor: float | None = None  # K in T = K*F*d; None: use the friction pair
+    friction_thread: float | None = None  # mu_G
+    friction_head: float | None = None    # mu_K
+    scatter: float = 1.0            # tightening factor alpha_A = F_max / F_min >= 1
+
+
+@dataclass(frozen=True)
+class FatigueSpec:
+    criterion: str = "goodman"
+    reliability: float = 0.99
+    surface: str = "machined"       # Shigley Table 6-2 finish
+    temperature: float = 20.0       # service temperature, degC (Marin k_d)
+    endurance: str = "auto"         # "auto" (Table 8-17 where it applies) | "table" | "marin"
+    Se: float | None = None         # explicit endurance limit, MPa
+
+
+@dataclass(frozen=True)
+class VdiSpec:
+    """Inputs the VDI 2230-1 chain needs beyond the textbook engine."""
+
+    friction_thread: float = 0.12   # mu_G
+    friction_head: float = 0.12     # mu_K
+    friction_interface: float = 0.15  # mu_T (slip)
+    scatter: float = 1.6            # alpha_A
+    clamp_required: float = 0.0     # F_K,req, N
+    roughness: str = "medium"       # "fine" | "medium" | "coarse"
+    load_introduction: float = 0.5  # n
+    utilisation: float = 0.9        # nu
+    interfaces_shear: int = 1       # q_F
+    temperature_assembly: float = 20.0  # degC
+    temperature_service: float = 20.0   # degC
+
+
+@dataclass(frozen=True)
+class JointSpec:
+    """One bolted joint as pure numbers."""
+
+    id: str
+    fastener: FastenerSpec
+    layers: tuple[LayerSpec, ...]
+    bearing_diameter: float         # d_w on the head side (head or washer), mm
+    hole_diameter: float            # clearance hole d_h, mm
+    far_bearing_diameter: float | None = None  # nut side; None: same as head side
+    tapped: bool = False            # True: the last layer is the threaded one
+    outside_diameter: float | None = None  # D_A' bounding the members, mm
+    member_stiffness: str = "frustum"
+    cone_angle: float = 30.0        # deg
+    members_value: float | None = None  # k_m computed outside (cone / FE), N/mm
+    preload: PreloadSpec = field(default_factory=lambda: PreloadSpec("proof_fraction", 0.75))
+    load_min: float = 0.0           # external axial load per bolt, N
+    load_max: float = 0.0
+    shear: float = 0.0              # transverse load per bolt, N
+    fatigue: FatigueSpec = field(default_factory=FatigueSpec)
+    vdi: VdiSpec | None = None
+    engagement: float | None = None  # engaged thread length (nut height or tapped depth), mm
+    nut_height: float | None = None  # m of the nut, mm (through joints)
+    required: dict[str, float] = field(default_factory=dict)  # check name -> required factor
+    notes: tuple[str, ...] = ()
+
+    @property
+    def grip(self) -> float:
+        """Sum of the layer thicknesses, mm (for a tapped joint the last layer is the tapped depth)."""
+        return float(sum(layer.thickness for layer in self.layers))
+
+    @property
+    def clamped_thickness(self) -> float:
+        """Thickness clamped above the tapped part (all layers for a through joint), mm."""
+        layers = self.layers[:-1] if self.tapped else self.layers
+        return float(sum(layer.thickness for layer in layers))
+
+
+@dataclass(frozen=True)
+class Check:
+    name: str
+    value: float | None
+    required: float | None
+    ok: bool
+    note: str = ""
+
+
+@dataclass
+class JointResult:
+    """What the engine says of one joint; mirrors the result JSON of DESIGN.md."""
+
+    id: str
+    ok: bool
+    verdict: str                    # "pass" | "marginal" | "fail"
+    governing: str                  # name of the check with the least margin
+    spec: JointSpec
+    grip: float                     # mm (as the scan defines it)
+    effective_grip: float           # mm (Shigley Table 8-7 for tapped joints)
+    bolt_stiffness: float           # N/mm
+    member_stiffness: float         # N/mm
+    joint_constant: float           # C
+    stiffness_method: str
+    preload: float                  # F_i used in service, N
+    Se: float                       # MPa
+    sigma_a: float
+    sigma_m: float
+    sigma_i: float
+    n_f: float | None
+    factors: dict[str, float | None]
+    checks: list[Check]
+    tightening: dict[str, float] | None = None
+    notes: list[str] = field(default_factory=list)
+    findings: list[dict] = field(default_factory=list)
+    details: dict = field(default_factory=dict)  # extra numbers for reports (VDI chain, stripping)

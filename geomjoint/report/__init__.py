@@ -1,0 +1,1 @@
+"""Reports: terminal table, JSON document, HTML."""
