@@ -1,0 +1,267 @@
+"""Member (clamped parts) stiffness by closed forms: pressure-cone frusta and the Wileman fit.
+
+Layers are springs in series, each with its own modulus.  Lengths mm, moduli MPa,
+stiffness N/mm, compliance mm/N, angles in degrees.
+"""
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from geomjoint.errors import InputError
+
+#: Wileman, Choudhury & Green (1991) constants (A, B) of k_m = E d A exp(B d / l), as
+#: reprinted in Shigley 10th ed., Table 8-8 (from memory)
+WILEMAN_CONSTANTS = {
+    "steel": (0.78715, 0.62873),
+    "aluminium": (0.79670, 0.63816),
+    "copper": (0.79568, 0.63553),
+    "gray cast iron": (0.77871, 0.61616),
+    "general": (0.78952, 0.62914),
+}
+
+#: below this half-angle (deg) a frustum is treated as a straight cylinder (tan -> 0 limit)
+_CYLINDER_ANGLE = 1e-9
+
+
+def _layer_pairs(layers) -> list[tuple[float, float]]:
+    """(thickness, E) pairs from LayerSpec-like objects or from pairs."""
+    pairs = []
+    for layer in layers:
+        if hasattr(layer, "thickness"):
+            pairs.append((float(layer.thickness), float(layer.E)))
+        else:
+            t, E = layer
+            pairs.append((float(t), float(E)))
+    for t, E in pairs:
+        if t <= 0 or E <= 0:
+            raise InputError(f"layer thickness and modulus must be positive, got t={t}, E={E}")
+    return pairs
+
+
+def frustum_layer_compliance(E: float, thickness: float, d_start: float, d_h: float,
+                             alpha: float = 30.0) -> float:
+    """Compliance of one conical segment of a pressure cone, mm/N.
+
+    The exact integral of d(delta) = dx / (E pi (r(x)^2 - (d_h/2)^2)) over the segment,
+    with r(x) = d_start/2 + x tan(alpha) (the general form of Shigley 10th ed., eq. 8-19):
+
+        delta/P = ln[ (D + 2t tan a - d_h)(D + d_h) / ((D + 2t tan a + d_h)(D - d_h)) ]
+                  / (E pi d_h tan a),
+
+    D = d_start.  Limits: alpha -> 0 gives the hollow cylinder t / (E pi (D^2 - d_h^2)/4);
+    d_h -> 0 gives the solid cone (1/r0 - 1/r1) / (E pi tan a).
+
+    Parameters
+    ----------
+    E : float
+        Young's modulus of the layer, MPa.
+    thickness : float
+        Axial length t of the segment, mm.
+    d_start : float
+        Cone diameter where the segment starts (the narrow end), mm; > d_h.
+    d_h : float
+        Hole diameter, mm.
+    alpha : float
+        Cone half-angle, deg.
+
+    Examples
+    --------
+    >>> c = frustum_layer_compliance(207000.0, 10.0, 18.0, 12.0)
+    >>> round(1.0 / c)       # N/mm, one 10 mm steel frustum under an M12 washer face
+    6027429
+    """
+    if thickness <= 0 or E <= 0:
+        raise InputError(f"segment thickness and modulus must be positive, got t={thickness}, E={E}")
+    if d_start <= d_h:
+        raise InputError(f"bearing diameter {d_start} mm must exceed the hole diameter {d_h} mm")
+    t = float(thickness)
+    if alpha < _CYLINDER_ANGLE:
+        return t / (E * math.pi * (d_start ** 2 - d_h ** 2) / 4.0)
+    tan_a = math.tan(math.radians(alpha))
+    r0 = d_start / 2.0
+    r1 = r0 + t * tan_a
+    if d_h <= 0:
+        return (1.0 / r0 - 1.0 / r1) / (E * math.pi * tan_a)
+    a = d_h / 2.0
+    # log1p form keeps thin slices accurate: ratio - 1 is small when t is small
+    # (r1-a)(r0+a) / ((r1+a)(r0-a)) - 1 = 2a (r1 - r0) / ((r1+a)(r0-a))
+    ratio_minus_one = 2.0 * a * (r1 - r0) / ((r1 + a) * (r0 - a))
+    return math.log1p(ratio_minus_one) / (E * math.pi * d_h * tan_a)
+
+
+def _cone_compliance(pairs: Sequence[tuple[float, float]], d_start: float, d_h: float,
+                     alpha: float) -> float:
+    """Compliance of one cone running through consecutive (thickness, E) segments."""
+    total = 0.0
+    diameter = d_start
+    tan_a = math.tan(math.radians(alpha))
+    for t, E in pairs:
+        total += frustum_layer_compliance(E, t, diameter, d_h, alpha)
+        diameter += 2.0 * t * tan_a
+    return total
+
+
+def _cut(pairs: Sequence[tuple[float, float]], start: float, end: float) -> list[tuple[float, float]]:
+    """The parts of the stacked segments lying between axial positions start and end."""
+    out = []
+    x = 0.0
+    for t, E in pairs:
+        lo, hi = max(x, start), min(x + t, end)
+        if hi - lo > 0:
+            out.append((hi - lo, E))
+        x += t
+    return out
+
+
+def frustum_stiffness(layers, d_w: float, d_w_far: float | None, d_h: float,
+                      alpha: float = 30.0, grip: float | None = None) -> float:
+    """Member stiffness k_m of a layered stack by two pressure cones meeting at mid-grip, N/mm.
+
+    One cone of half-angle ``alpha`` grows from the head-side bearing face (diameter
+    ``d_w``) to mid-grip, the other from the far bearing face (``d_w_far``) back to
+    mid-grip; every layer is split at mid-grip and each segment is integrated exactly
+    (:func:`frustum_layer_compliance`).  Segments in series:
+    1/k_m = sum of the segment compliances (Shigley 10th ed., eqs. 8-19/8-20 generalised
+    to layers, Sec. 8-5).  With unequal bearing diameters the cones still meet at
+    mid-grip (our convention; their diameters there then differ).
+
+    Parameters
+    ----------
+    layers : sequence
+        From the head side: objects with ``thickness`` and ``E`` (LayerSpec) or
+        (thickness mm, E MPa) pairs.
+    d_w : float
+        Bearing diameter on the head side, mm.
+    d_w_far : float or None
+        Bearing diameter on the far side (nut or the cone start in a tapped part), mm;
+        None: same as ``d_w``.
+    d_h : float
+        Hole diameter (every layer), mm.
+    alpha : float
+        Cone half-angle, deg.
+    grip : float or None
+        Length of the stack the cones span, mm; None: the sum of the layers.  A shorter
+        grip cuts the stack there (a tapped part counts up to the effective grip).
+
+    Examples
+    --------
+    >>> round(frustum_stiffness([(16.0, 207000.0), (16.0, 207000.0)], 18.0, None, 13.0))
+    2261739
+    """
+    pairs = _layer_pairs(layers)
+    total = sum(t for t, _ in pairs)
+    if grip is None:
+        grip = total
+    if grip <= 0:
+        raise InputError(f"grip must be positive, got {grip} mm")
+    if grip > total * (1 + 1e-12):
+        raise InputError(f"grip {grip} mm exceeds the stack of layers ({total} mm)")
+    far = d_w if d_w_far is None else d_w_far
+    half = grip / 2.0
+    near_part = _cut(pairs, 0.0, half)
+    far_part = list(reversed(_cut(pairs, half, grip)))
+    compliance = _cone_compliance(near_part, d_w, d_h, alpha) + _cone_compliance(far_part, far, d_h, alpha)
+    return 1.0 / compliance
+
+
+def shigley_frustum_stiffness(E: float, d: float, D: float, t: float, alpha: float = 30.0) -> float:
+    """Stiffness of one frustum, Shigley 10th ed., eq. 8-19 (eq. 8-20 for alpha = 30 deg), N/mm.
+
+        k = pi E d tan(a) / ln[ (2 t tan a + D - d)(D + d) / ((2 t tan a + D + d)(D - d)) ]
+
+    For alpha = 30 deg, tan a = 0.5774 and 2 tan a = 1.155 as printed in eq. 8-20.  The
+    textbook writes d for the bolt diameter standing in for the hole.
+
+    Parameters
+    ----------
+    E : float
+        Young's modulus, MPa.
+    d : float
+        Hole (bolt) diameter, mm.
+    D : float
+        Diameter at the narrow end of the frustum (bearing face), mm.
+    t : float
+        Frustum thickness, mm.
+    alpha : float
+        Half-angle, deg.
+
+    Examples
+    --------
+    >>> round(shigley_frustum_stiffness(207000.0, 12.0, 18.0, 10.0))
+    6027429
+    """
+    tan_a = math.tan(math.radians(alpha))
+    ratio = ((2 * t * tan_a + D - d) * (D + d)) / ((2 * t * tan_a + D + d) * (D - d))
+    return math.pi * E * d * tan_a / math.log(ratio)
+
+
+def shigley_two_frusta_stiffness(E: float, d: float, l: float) -> float:
+    """Member stiffness of two equal 30 deg frusta with D = 1.5 d, Shigley 10th ed., eq. 8-22, N/mm.
+
+        k_m = 0.5774 pi E d / (2 ln[ 5 (0.5774 l + 0.5 d) / (0.5774 l + 2.5 d) ])
+
+    Examples
+    --------
+    >>> round(shigley_two_frusta_stiffness(207000.0, 12.0, 32.0))
+    2432642
+    """
+    tan30 = math.tan(math.radians(30.0))
+    return tan30 * math.pi * E * d / (2.0 * math.log(5.0 * (tan30 * l + 0.5 * d) / (tan30 * l + 2.5 * d)))
+
+
+def wileman_stiffness(E: float, d: float, l: float, A: float, B: float) -> float:
+    """Member stiffness by the Wileman, Choudhury & Green (1991) fit, N/mm.
+
+        k_m = E d A exp(B d / l)
+
+    (J. Mech. Design 113 (1991) 432-437; Shigley 10th ed., eq. 8-23 and Table 8-8.)
+
+    Parameters
+    ----------
+    E : float
+        Young's modulus of the members, MPa.
+    d : float
+        Nominal bolt diameter, mm.
+    l : float
+        Grip (effective grip for a cap screw), mm.
+    A, B : float
+        Material constants, :data:`WILEMAN_CONSTANTS`.
+
+    Examples
+    --------
+    >>> round(wileman_stiffness(207000.0, 12.0, 12.0, *WILEMAN_CONSTANTS["steel"]))
+    3666596
+    """
+    if E <= 0 or d <= 0 or l <= 0:
+        raise InputError(f"E, d and l must be positive, got E={E}, d={d}, l={l}")
+    return E * d * A * math.exp(B * d / l)
+
+
+def wileman_layered_stiffness(layers, d: float, l: float | None = None) -> float:
+    """Wileman fit for a stack of layers of different materials, N/mm (our approximation).
+
+    The fit is for one material.  For a mixed stack each layer gets the share t_i / l of
+    the compliance of a uniform stack of its own material:
+    1/k_m = sum (t_i / l) / (E_i d A_i exp(B_i d / l)).  A uniform stack gives exactly
+    :func:`wileman_stiffness`.  Layers are LayerSpec-like objects with ``thickness``,
+    ``E`` and ``wileman`` (A, B) or None (the "general" constants).
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as L
+    >>> s = L(thickness=12.0, E=207000.0, wileman=WILEMAN_CONSTANTS["steel"])
+    >>> round(wileman_layered_stiffness([s, s], 12.0))
+    2677541
+    """
+    rows = []
+    for layer in layers:
+        A, B = layer.wileman if getattr(layer, "wileman", None) else WILEMAN_CONSTANTS["general"]
+        rows.append((float(layer.thickness), float(layer.E), A, B))
+    total = sum(t for t, *_ in rows)
+    if l is None:
+        l = total
+    compliance = 0.0
+    for t, E, A, B in rows:
+        compliance += (t / total) / wileman_stiffness(E, d, l, A, B)
+    return 1.0 / compliance
