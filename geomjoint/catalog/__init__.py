@@ -1,0 +1,35 @@
+"""Standard data for bolted joints: threads, bolt grades, hardware dimensions, materials.
+
+The numbers live in CSV files under `geomjoint/catalog/data/`, each row with its `source`.
+All lengths are mm and all stresses MPa; records are the frozen dataclasses of
+`geomjoint.catalog.types`.
+
+>>> t = thread("M12")
+>>> round(t.stress_area, 1), grade("8.8", t.d).proof
+(84.3, 580.0)
+"""
+from __future__ import annotations
+
+from geomjoint.catalog.grades import grade, grade_names
+from geomjoint.catalog.hardware import (
+    clearance_hole,
+    head,
+    nominal_from_hole,
+    nut,
+    shortest_length,
+    standard_lengths,
+    thread_length,
+    washer,
+)
+from geomjoint.catalog.materials import WILEMAN_GENERAL, material, material_names
+from geomjoint.catalog.tables import MM_PER_INCH, MPA_PER_KPSI
+from geomjoint.catalog.threads import size_label, tap_drill, thread, thread_sizes
+from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, Thread, WasherDims
+
+__all__ = [
+    "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",
+    "MM_PER_INCH", "MPA_PER_KPSI", "WILEMAN_GENERAL",
+    "clearance_hole", "grade", "grade_names", "head", "material", "material_names",
+    "nominal_from_hole", "nut", "shortest_length", "size_label", "standard_lengths",
+    "tap_drill", "thread", "thread_length", "thread_sizes", "washer",
+]

@@ -1,0 +1,246 @@
+"""Hardware dimensions: bolt heads, nuts, washers, clearance holes, lengths, thread lengths.
+
+Metric: ISO 4014/4017 hex heads, ISO 4762 socket heads, ISO 4032 nuts, ISO 7089 washers,
+ISO 273 clearance holes.  Inch: ASME B18.2.1 hex and heavy hex bolts, ASME B18.3 socket
+head cap screws, ASME B18.2.2 nuts, ASME B18.21.1 type A washers (SAE = narrow, USS =
+wide), ASME B18.2.8 clearance holes.  The tables are keyed by the size of the thread
+("M12", "1/2", "#10"), so a fine-pitch thread gets the hardware of its nominal size.
+"""
+from __future__ import annotations
+
+import functools
+import math
+from typing import Mapping
+
+from geomjoint.catalog.tables import MM_PER_INCH, load_table, number, to_mm
+from geomjoint.catalog.threads import size_label, tap_drill, thread_sizes
+from geomjoint.catalog.types import HeadDims, NutDims, Thread, WasherDims
+from geomjoint.errors import InputError
+
+# --- thread length of bolts (reference dimension b) ---
+#: metric b = 2d + 6 mm for L <= 125 mm, 2d + 12 for 125 < L <= 200, 2d + 25 above:
+#: ISO 4014:2011 Table 1 (b ref, from memory); Budynas & Nisbett eq. (8-14)
+METRIC_THREAD_LENGTH_STEPS = ((125.0, 6.0), (200.0, 12.0), (math.inf, 25.0))
+#: inch L_T = 2D + 1/4 in for L <= 6 in, 2D + 1/2 in above: ASME B18.2.1 (from memory); Budynas & Nisbett eq. (8-13)
+INCH_THREAD_LENGTH_STEPS = ((6.0 * MM_PER_INCH, 0.25 * MM_PER_INCH), (math.inf, 0.5 * MM_PER_INCH))
+
+# --- inch length series (common practice, as stocked) ---
+#: 1/4 in steps up to 6 in
+INCH_LENGTH_STEP_SHORT = 0.25 * MM_PER_INCH
+#: 1/2 in steps above 6 in
+INCH_LENGTH_STEP_LONG = 0.5 * MM_PER_INCH
+INCH_LENGTH_STEP_CHANGE = 6.0 * MM_PER_INCH
+
+#: names of clearance-hole fits; inch (ASME B18.2.8) close/normal/loose map onto ISO 273 fine/medium/coarse
+_FITS = {
+    "fine": "fine", "close": "fine",
+    "medium": "medium", "normal": "medium",
+    "coarse": "coarse", "loose": "coarse",
+}
+
+_TOL = 1e-9
+
+
+@functools.lru_cache(maxsize=None)
+def _by_size(table: str) -> Mapping[tuple[str, str], Mapping[str, str]]:
+    """Rows of a hardware table keyed by (size, style or kind) ('' if the table has neither)."""
+    out: dict[tuple[str, str], Mapping[str, str]] = {}
+    for r in load_table(table):
+        out[(r["size"], r.get("style", r.get("kind", "")))] = r
+    return out
+
+
+def _row(table: str, t: Thread, style: str, what: str) -> Mapping[str, str]:
+    row = _by_size(table).get((size_label(t), style))
+    if row is None:
+        have = {k[0] for k in _by_size(table) if k[1] == style}
+        sizes = list(dict.fromkeys(size_label(x) for x in thread_sizes(t.system) if size_label(x) in have))
+        raise InputError(f"no {what} dimensions for {t.designation} in the catalog (sizes: {', '.join(sizes)})")
+    return row
+
+
+def head(t: Thread, kind: str = "hex") -> HeadDims:
+    """Head dimensions of a bolt or screw with thread `t`.
+
+    kind: "hex" (ISO 4014/4017; ASME B18.2.1 hex bolt), "heavy hex" (ASME B18.2.1, inch only),
+    "socket" (ISO 4762; ASME B18.3).  width is s (hex) or d_k (socket), height k, bearing
+    diameter d_w (min).  For inch hex heads d_w is taken equal to F (common practice).
+
+    >>> head(thread("M12")).width
+    18.0
+    """
+    k = kind.strip().lower().replace("-", " ").replace("_", " ")
+    if k in ("hex", "hex head", "hexagon", "regular"):
+        r = _row("hex_heads", t, "regular", "hex head")
+        return HeadDims("hex", to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
+                        to_mm(number(r, "dw"), r["unit"]), r["source"])
+    if k in ("heavy hex", "heavy"):
+        r = _row("hex_heads", t, "heavy", "heavy hex head")
+        return HeadDims("heavy hex", to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
+                        to_mm(number(r, "dw"), r["unit"]), r["source"])
+    if k in ("socket", "socket head", "cap screw", "shcs"):
+        r = _row("socket_heads", t, "", "socket head")
+        return HeadDims("socket", to_mm(number(r, "dk"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
+                        to_mm(number(r, "dw"), r["unit"]), r["source"])
+    raise InputError(f"unknown head kind {kind!r} (use 'hex', 'heavy hex' or 'socket')")
+
+
+def nut(t: Thread) -> NutDims:
+    """Hex nut for thread `t`: ISO 4032 (s, m max, d_w min) or ASME B18.2.2 (F, H; d_w = F).
+
+    >>> nut(thread("M12")).height
+    10.8
+    """
+    r = _row("nuts", t, "", "nut")
+    u = r["unit"]
+    return NutDims(to_mm(number(r, "s"), u), to_mm(number(r, "m"), u), to_mm(number(r, "dw"), u), r["source"])
+
+
+def washer(t: Thread, kind: str = "standard") -> WasherDims:
+    """Plain washer for thread `t`: ISO 7089 (metric) or ASME B18.21.1 type A (inch).
+
+    kind: "standard" (ISO 7089; inch: SAE = narrow), "sae"/"narrow", "uss"/"wide" (inch only).
+
+    >>> washer(thread("M12")).outer
+    24.0
+    """
+    k = kind.strip().lower()
+    if t.system == "metric":
+        if k not in ("standard", "iso 7089", "normal"):
+            raise InputError(f"unknown washer kind {kind!r} for {t.designation} (metric: 'standard')")
+        style = "standard"
+    else:
+        styles = {"standard": "narrow", "sae": "narrow", "narrow": "narrow", "n": "narrow",
+                  "uss": "wide", "wide": "wide", "w": "wide"}
+        if k not in styles:
+            raise InputError(f"unknown washer kind {kind!r} (use 'sae'/'narrow' or 'uss'/'wide')")
+        style = styles[k]
+    r = _row("washers", t, style, f"{style} washer")
+    u = r["unit"]
+    return WasherDims(to_mm(number(r, "d1"), u), to_mm(number(r, "d2"), u), to_mm(number(r, "h"), u), r["source"])
+
+
+def clearance_hole(t: Thread, fit: str = "medium") -> float:
+    """Clearance hole diameter for thread `t`, mm.
+
+    fit: ISO 273 "fine" | "medium" | "coarse"; the inch names of ASME B18.2.8
+    "close" | "normal" | "loose" are the same three columns.
+
+    >>> clearance_hole(thread("M12"))
+    13.5
+    """
+    col = _FITS.get(fit.strip().lower())
+    if col is None:
+        raise InputError(f"unknown clearance fit {fit!r} (use fine/medium/coarse or close/normal/loose)")
+    r = _row("clearance_holes", t, "", "clearance hole")
+    return to_mm(number(r, col), r["unit"])
+
+
+#: order of preference when two matches fit a hole equally well
+_LABEL_RANK = {"medium": 0, "fine": 1, "coarse": 2, "tap drill": 3, "nominal": 4}
+
+
+def nominal_from_hole(diameter: float, system: str | None = None, tol: float = 0.05) -> list[tuple[Thread, str]]:
+    """Threads whose clearance hole, tap drill or nominal diameter is within `tol` [mm] of `diameter`.
+
+    Each match is (thread, label) with label "fine" | "medium" | "coarse" (clearance-hole
+    fits; inch close/normal/loose are reported under these names), "tap drill" (the tap
+    drill of `tap_drill` or the basic minor diameter D1) or "nominal" (the major diameter).
+    Best match first: smallest difference, then medium before fine before coarse before
+    tap drill before nominal, then coarse/UNC before fine/UNF.
+
+    >>> t, label = nominal_from_hole(13.5)[0]
+    >>> t.designation, label
+    ('M12', 'medium')
+    """
+    found: list[tuple[float, int, int, int, Thread, str]] = []
+    for i, t in enumerate(thread_sizes(system)):
+        cands: list[tuple[float, str]] = []
+        try:
+            r = _row("clearance_holes", t, "", "clearance hole")
+            for col in ("fine", "medium", "coarse"):
+                cands.append((to_mm(number(r, col), r["unit"]), col))
+        except InputError:
+            pass  # no clearance data for this size: tap drill and nominal still apply
+        cands += [(tap_drill(t), "tap drill"), (t.D1, "tap drill"), (t.d, "nominal")]
+        best: dict[str, float] = {}
+        for value, label in cands:
+            err = abs(value - diameter)
+            if err <= tol + _TOL and err < best.get(label, math.inf):
+                best[label] = err
+        fine_series = 1 if t.series in ("fine", "UNF") else 0
+        for label, err in best.items():
+            found.append((round(err, 9), _LABEL_RANK[label], fine_series, i, t, label))
+    found.sort(key=lambda x: x[:4])
+    return [(t, label) for *_, t, label in found]
+
+
+def thread_length(t: Thread, length: float) -> float:
+    """Thread length L_T of a bolt of nominal length `length` [mm] by the standard rule, mm.
+
+    metric: L_T = 2d + 6 (L <= 125), 2d + 12 (125 < L <= 200), 2d + 25 (L > 200);
+    inch:   L_T = 2D + 1/4 in (L <= 6 in), 2D + 1/2 in (L > 6 in).
+    A bolt shorter than the rule's L_T is threaded to the head: L_T = min(rule, L).
+    Sources: ISO 4014:2011 b ref; ASME B18.2.1; Budynas & Nisbett eqs. (8-13), (8-14).
+
+    >>> thread_length(thread("M12"), 50.0)
+    30.0
+    """
+    if length <= 0:
+        raise InputError(f"bolt length must be positive, got {length:g} mm")
+    steps = METRIC_THREAD_LENGTH_STEPS if t.system == "metric" else INCH_THREAD_LENGTH_STEPS
+    for limit, extra in steps:
+        if length <= limit + _TOL:
+            return min(2.0 * t.d + extra, length)
+    raise AssertionError("unreachable: the last step has no limit")
+
+
+def _kind_key(kind: str) -> str:
+    k = kind.strip().lower().replace("-", " ")
+    if k in ("hex", "heavy hex", "hex head", "heavy", "regular"):
+        return "hex"
+    if k in ("socket", "socket head", "cap screw", "shcs"):
+        return "socket"
+    raise InputError(f"unknown bolt kind {kind!r} (use 'hex' or 'socket')")
+
+
+def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:
+    """Standard nominal lengths [mm] of bolts/screws with thread `t`, ascending.
+
+    Metric: the ISO 4014/4017 (hex) or ISO 4762 (socket) preferred lengths within the
+    commercial range of the size.  Inch: 1/4 in steps up to 6 in, 1/2 in above, within
+    the stock range of the size (common practice).
+
+    >>> standard_lengths(thread("M12"))[:4]
+    [25.0, 30.0, 35.0, 40.0]
+    """
+    key = _kind_key(kind)
+    r = _by_size("lengths").get((size_label(t), key))
+    if r is None:
+        raise InputError(f"no standard {key} lengths for {t.designation} in the catalog")
+    lo, hi = to_mm(number(r, "l_min"), r["unit"]), to_mm(number(r, "l_max"), r["unit"])
+    if t.system == "metric":
+        series = sorted(float(s["length"]) for s in load_table("length_series") if s["kind"] == key)
+        return [x for x in series if lo - _TOL <= x <= hi + _TOL]
+    out: list[float] = []
+    x = lo
+    while x <= hi + 1e-6:
+        out.append(round(x, 6))
+        x += INCH_LENGTH_STEP_SHORT if x < INCH_LENGTH_STEP_CHANGE - 1e-6 else INCH_LENGTH_STEP_LONG
+    return out
+
+
+def shortest_length(t: Thread, needed: float, kind: str = "hex") -> float:
+    """Smallest standard length [mm] >= `needed` [mm]; InputError if the size has none that long.
+
+    >>> shortest_length(thread("M12"), 41.0)
+    45.0
+    """
+    lengths = standard_lengths(t, kind)
+    for x in lengths:
+        if x >= needed - 1e-6:
+            return x
+    raise InputError(
+        f"no standard {_kind_key(kind)} length of {t.designation} reaches {needed:g} mm "
+        f"(longest {lengths[-1]:g} mm)" if lengths else f"no standard lengths for {t.designation}"
+    )

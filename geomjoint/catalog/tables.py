@@ -1,0 +1,74 @@
+"""Loading the catalog's CSV data files (geomjoint/catalog/data/*.csv).
+
+Every data file has a `source` column naming the standard or handbook each row comes
+from.  Files are read once per process (`functools.lru_cache`) and handed out as tuples
+of read-only mappings, so no caller can change the cached data by accident.
+"""
+from __future__ import annotations
+
+import csv
+import functools
+from pathlib import Path
+from types import MappingProxyType
+from typing import Mapping
+
+from geomjoint.errors import InputError
+
+#: folder of the standard-data CSV files
+DATA_DIR = Path(__file__).resolve().parent / "data"
+
+#: inch to millimetre, exact by definition (international inch, 1959)
+MM_PER_INCH = 25.4
+
+#: kpsi to MPa: 1 lbf/in^2 = 4.4482216152605 N / 645.16 mm^2 = 6.894757 kPa (exact definitions of lbf and inch)
+MPA_PER_KPSI = 6.894757293168361
+
+
+@functools.lru_cache(maxsize=None)
+def load_table(name: str) -> tuple[Mapping[str, str], ...]:
+    """Rows of the data file `name` (e.g. "threads_metric"), as read-only dicts of strings.
+
+    Raises InputError if the file is missing or has no `source` column (a broken
+    installation, named so it can be fixed).
+
+    >>> load_table("threads_metric")[0]["series"]
+    'coarse'
+    """
+    path = DATA_DIR / f"{name}.csv"
+    if not path.is_file():
+        raise InputError(f"catalog data file {path.name} not found in {DATA_DIR}")
+    with path.open(newline="", encoding="utf-8") as handle:
+        reader = csv.DictReader(handle)
+        if reader.fieldnames is None or "source" not in reader.fieldnames:
+            raise InputError(f"catalog data file {path.name} has no 'source' column")
+        rows = []
+        for row in reader:
+            if None in row or None in row.values():
+                # a stray comma (extra field) or a short line would shift every column
+                raise InputError(f"catalog data file {path.name} line {reader.line_num}: wrong number of fields")
+            rows.append(MappingProxyType({k: v.strip() for k, v in row.items()}))
+    return tuple(rows)
+
+
+def number(row: Mapping[str, str], key: str) -> float | None:
+    """The float in column `key` of `row`, or None for an empty cell."""
+    text = row.get(key, "")
+    return float(text) if text else None
+
+
+def to_mm(value: float, unit: str) -> float:
+    """A length given in the data file's unit ("mm" or "in") in millimetres."""
+    if unit == "mm":
+        return value
+    if unit == "in":
+        return value * MM_PER_INCH
+    raise InputError(f"catalog data: unknown length unit {unit!r}")
+
+
+def to_mpa(value: float, unit: str) -> float:
+    """A stress given in the data file's unit ("MPa" or "kpsi") in MPa."""
+    if unit == "MPa":
+        return value
+    if unit == "kpsi":
+        return value * MPA_PER_KPSI
+    raise InputError(f"catalog data: unknown stress unit {unit!r}")
