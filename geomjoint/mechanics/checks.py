@@ -1,0 +1,297 @@
+"""The textbook joint engine: one :class:`JointSpec` in, one :class:`JointResult` out.
+
+Composes bolt and member stiffness, preload, the static factors and the fatigue factor
+of Budynas & Nisbett, *Shigley's Mechanical Engineering Design*, 10th ed., ch. 8
+(equation numbers from memory), with the conventions pinned in issue 2:
+
+- no preload: C is reported but unused, the bolt carries the whole load, the separation
+  factor is 0 (its check fails) and yield/load factors use C = 1;
+- a factor that is unbounded (no external load) is None;
+- tapped joints: members over the effective grip l' (Table 8-7), the far cone starts at
+  l' with the head-side bearing diameter, the hole diameter applies to every layer;
+- static factors use P = P_max.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+
+from geomjoint.mechanics import bolt as B
+from geomjoint.mechanics import fatigue as FT
+from geomjoint.mechanics import members as M
+from geomjoint.mechanics import preload as PL
+from geomjoint.mechanics.joint import Check, JointResult, JointSpec
+
+#: a joint whose smallest factor/required ratio lies below this is "marginal" rather than
+#: "pass" (our own choice: 10 % over the requirement)
+MARGINAL_BAND = 1.10
+
+#: nut factor used to report a torque when the job gives neither K nor a friction pair:
+#: K = 0.2 for plain steel threads (Shigley 10th ed., Sec. 8-8; common practice)
+DEFAULT_NUT_FACTOR = 0.2
+
+#: the checks whose values are factors against a required value
+FACTOR_CHECKS = ("yield", "load", "separation", "fatigue")
+
+
+# ---------------------------------------------------------------- static factors
+
+def yield_factor(proof: float, stress_area: float, C: float, load: float, preload: float) -> float | None:
+    """Yield (proof) factor n_p = S_p A_t / (C P + F_i) (Shigley 10th ed., eq. 8-28).
+
+    None when the bolt force is not positive.
+
+    >>> round(yield_factor(830.0, 84.3, 0.25, 10000.0, 52477.0), 4)
+    1.2727
+    """
+    force = C * load + preload
+    return None if force <= 0 else proof * stress_area / force
+
+
+def load_factor(proof: float, stress_area: float, C: float, load: float, preload: float) -> float | None:
+    """Load factor n_L = (S_p A_t - F_i) / (C P) (Shigley 10th ed., eq. 8-29); None for P <= 0.
+
+    >>> round(load_factor(830.0, 84.3, 0.25, 10000.0, 52477.0), 4)
+    6.9968
+    """
+    return None if load <= 0 or C <= 0 else (proof * stress_area - preload) / (C * load)
+
+
+def separation_factor(C: float, load: float, preload: float) -> float | None:
+    """Joint-separation factor n_0 = F_i / ((1 - C) P) (Shigley 10th ed., eq. 8-30); None for P <= 0.
+
+    No preload gives 0 (issue 2 convention, even without load).
+
+    >>> round(separation_factor(0.25, 10000.0, 52477.0), 4)
+    6.9968
+    """
+    if preload <= 0:
+        return 0.0
+    return None if load <= 0 else preload / ((1.0 - C) * load)
+
+
+def joint_constant(k_b: float, k_m: float) -> float:
+    """Joint constant C = k_b / (k_b + k_m) (Shigley 10th ed., eq. 8-24 text).
+
+    >>> joint_constant(1.0, 3.0)
+    0.25
+    """
+    return k_b / (k_b + k_m)
+
+
+# ---------------------------------------------------------------- stiffness
+
+@dataclass(frozen=True)
+class BoltSide:
+    stiffness: float        # k_b, N/mm
+    thread_length: float | None  # L_T, mm (None: length unknown)
+    shank: float            # L - L_T (>= 0), mm, before cutting at the grip
+    l_d: float              # unthreaded length in the grip, mm
+    l_t: float              # threaded length in the grip, mm
+    notes: tuple[str, ...] = ()
+
+
+def effective_grip_of(spec: JointSpec) -> float:
+    """Grip the stiffness models use: l for through joints, l' of Shigley Table 8-7 when tapped."""
+    if spec.tapped:
+        return B.effective_grip(spec.clamped_thickness, spec.layers[-1].thickness, spec.fastener.d)
+    return spec.grip
+
+
+def bolt_side(spec: JointSpec, grip: float) -> BoltSide:
+    """Bolt stiffness over the (effective) grip, with its thread and shank lengths."""
+    f = spec.fastener
+    notes = []
+    if f.length is None:
+        L_T, shank = None, 0.0
+        notes.append("bolt length unknown: taken as threaded over the grip")
+    else:
+        L_T = f.thread_length if f.thread_length is not None else B.thread_length_rule(f.d, f.length, f.system)
+        shank = B.unthreaded_length(f.length, L_T, f.fully_threaded)
+    l_d, l_t = B.grip_lengths(grip, shank)
+    k_b = B.bolt_stiffness(B.shank_area(f.d), f.stress_area, f.E, l_d, l_t)
+    return BoltSide(k_b, L_T, shank, l_d, l_t, tuple(notes))
+
+
+def _layers_over(spec: JointSpec, grip: float):
+    """The layers cut at the grip (a tapped part counts up to l' - h)."""
+    out, x = [], 0.0
+    for layer in spec.layers:
+        t = min(layer.thickness, grip - x)
+        if t <= 0:
+            break
+        out.append(layer if t == layer.thickness else replace(layer, thickness=t))
+        x += t
+    return out
+
+
+def member_side(spec: JointSpec, grip: float) -> tuple[float, str, list[str]]:
+    """Member stiffness k_m (N/mm), the method name, notes."""
+    method = spec.member_stiffness
+    if spec.members_value is not None:
+        if spec.members_value <= 0:
+            raise ValueError(f"members_value must be positive, got {spec.members_value}")
+        return float(spec.members_value), method, []
+    layers = _layers_over(spec, grip)
+    notes = []
+    if method == "frustum":
+        far = spec.bearing_diameter if spec.tapped else spec.far_bearing_diameter
+        k_m = M.frustum_stiffness(layers, spec.bearing_diameter, far, spec.hole_diameter,
+                                  spec.cone_angle, grip)
+    elif method == "exponential":
+        if len({(layer.E, layer.wileman) for layer in layers}) > 1:
+            notes.append("exponential (Wileman) member stiffness is a one-material fit; the layers differ "
+                         "in material, so each layer is weighted by its thickness (approximation)")
+        if any(layer.wileman is None for layer in layers):
+            notes.append("Wileman constants missing for a layer material: the general constants used")
+        k_m = M.wileman_layered_stiffness(layers, spec.fastener.d, grip)
+    else:
+        raise ValueError(f"member stiffness {method!r} needs members_value computed outside the textbook engine")
+    return k_m, method, notes
+
+
+# ---------------------------------------------------------------- preload
+
+def _turned_bearing(spec: JointSpec) -> float:
+    """Bearing diameter under the turned part: the nut of a through bolt (common practice), else the head."""
+    if not spec.tapped and spec.far_bearing_diameter is not None:
+        return spec.far_bearing_diameter
+    return spec.bearing_diameter
+
+
+def service_preload(spec: JointSpec) -> tuple[float, dict[str, float] | None, list[str]]:
+    """Preload F_i (N), the tightening numbers (torque N*mm, preload_min/max N), notes."""
+    p, f = spec.preload, spec.fastener
+    notes: list[str] = []
+    friction = p.friction_thread is not None and p.friction_head is not None
+    d_w = _turned_bearing(spec)
+
+    def torque_for(force: float) -> float:
+        if p.nut_factor is None and friction:
+            return PL.torque_friction(force, f.d2, f.pitch, d_w, spec.hole_diameter, p.friction_thread, p.friction_head)
+        return PL.torque_nut_factor(force, f.d, p.nut_factor or DEFAULT_NUT_FACTOR)
+
+    if p.mode == "none":
+        return 0.0, None, notes
+    if p.mode == "proof_fraction":
+        F_i = PL.preload_from_proof(p.value, f.stress_area, f.proof)
+    elif p.mode == "force":
+        F_i = float(p.value)
+    elif p.mode == "torque":
+        if p.nut_factor is None and friction:
+            F_i = PL.preload_for_torque_friction(p.value, f.d2, f.pitch, d_w, spec.hole_diameter,
+                                                 p.friction_thread, p.friction_head)
+        else:
+            F_i = PL.preload_for_torque_nut_factor(p.value, f.d, p.nut_factor or DEFAULT_NUT_FACTOR)
+    else:
+        raise ValueError(f"unknown preload mode {p.mode!r}")
+    if p.nut_factor is None and not friction:
+        notes.append(f"tightening torque by the nut factor K = {DEFAULT_NUT_FACTOR} (assumed)")
+    torque = float(p.value) if p.mode == "torque" else torque_for(F_i)
+    lo, hi = PL.preload_scatter(F_i, p.scatter)
+    tightening = {"torque": torque, "preload": F_i, "preload_min": lo, "preload_max": hi,
+                  "nut_factor": torque / (F_i * f.d) if F_i > 0 else float(p.nut_factor or DEFAULT_NUT_FACTOR)}
+    if F_i > f.proof * f.stress_area:
+        notes.append("preload exceeds the proof load")
+    return F_i, tightening, notes
+
+
+# ---------------------------------------------------------------- checks and verdict
+
+def length_check(spec: JointSpec, side: BoltSide) -> Check:
+    """Can the bolt clamp?  Fails when the unthreaded shank is longer than the grip (the nut or
+    the tapped thread would meet the shank) or the bolt does not reach through the stack."""
+    f = spec.fastener
+    if f.length is None:
+        return Check("length", None, None, True, "bolt length unknown: not checked")
+    clamped = spec.clamped_thickness
+    if side.shank > clamped + 1e-9:
+        return Check("length", None, None, False,
+                     f"unthreaded shank {side.shank:.1f} mm is longer than the grip {clamped:.1f} mm: cannot clamp")
+    if f.length <= clamped + 1e-9:
+        return Check("length", None, None, False,
+                     f"bolt length {f.length:.1f} mm does not reach through the grip {clamped:.1f} mm")
+    if not spec.tapped and spec.nut_height and f.length < clamped + spec.nut_height - 1e-9:
+        return Check("length", None, None, False,
+                     f"bolt length {f.length:.1f} mm is shorter than grip + nut height "
+                     f"{clamped + spec.nut_height:.1f} mm: nut not fully engaged")
+    return Check("length", None, None, True, "")
+
+
+def factor_check(name: str, value: float | None, required: float, note: str = "") -> Check:
+    """A factor against its required value; an unbounded factor (None) passes."""
+    if value is None:
+        return Check(name, None, required, True, note or "unbounded (no external load)")
+    return Check(name, float(value), required, bool(value >= required), note)
+
+
+def rate(checks: list[Check]) -> tuple[str, str]:
+    """Verdict ("pass" | "marginal" | "fail") and the governing check (least value/required).
+
+    A failed check without a value (length) governs before any ratio.
+    """
+    def key(c: Check) -> float:
+        if c.value is None or not c.required:
+            return -math.inf if not c.ok else math.inf
+        return c.value / c.required
+
+    governing = min(checks, key=key)
+    smallest = key(governing)
+    if any(not c.ok for c in checks):
+        verdict = "fail"
+    elif smallest < MARGINAL_BAND:
+        verdict = "marginal"
+    else:
+        verdict = "pass"
+    return verdict, governing.name
+
+
+def evaluate(spec: JointSpec) -> JointResult:
+    """Check one joint by the textbook engine (Shigley ch. 8) and return its result."""
+    f, fat = spec.fastener, spec.fatigue
+    notes = list(spec.notes)
+    grip = effective_grip_of(spec)
+    bolt = bolt_side(spec, grip)
+    k_m, method, member_notes = member_side(spec, grip)
+    C = joint_constant(bolt.stiffness, k_m)
+    F_i, tightening, preload_notes = service_preload(spec)
+    notes += list(bolt.notes) + member_notes + preload_notes
+
+    P = spec.load_max
+    share = C if F_i > 0 else 1.0          # no preload: the bolt takes the whole load
+    if F_i <= 0:
+        notes.append("no preload: the bolt carries the whole external load (C not used)")
+    factors = {
+        "yield": yield_factor(f.proof, f.stress_area, share, P, F_i),
+        "load": load_factor(f.proof, f.stress_area, share, P, F_i),
+        "separation": separation_factor(C, P, F_i),
+    }
+    endurance = FT.bolt_endurance(f.grade, f.d, f.tensile, f.threads, endurance=fat.endurance,
+                                  surface=fat.surface, temperature=fat.temperature,
+                                  reliability=fat.reliability, Se=fat.Se)
+    notes += list(endurance.notes)
+    sigma_i, sigma_a, sigma_m = FT.bolt_stresses(F_i, C, spec.load_min, spec.load_max, f.stress_area)
+    n_f = FT.fatigue_factor(fat.criterion, endurance.Se, sigma_i, sigma_a, sigma_m,
+                            f.tensile, f.proof, f.yield_strength)
+    factors["fatigue"] = n_f
+
+    req = {name: float(spec.required.get(name, 1.0)) for name in FACTOR_CHECKS}
+    checks = [factor_check(name, factors[name], req[name]) for name in FACTOR_CHECKS]
+    if F_i <= 0:
+        checks[2] = Check("separation", 0.0, req["separation"], False, "no preload: the joint is not clamped")
+    checks.append(length_check(spec, bolt))
+    verdict, governing = rate(checks)
+
+    details = {
+        "thread_length": bolt.thread_length, "l_d": bolt.l_d, "l_t": bolt.l_t, "shank": bolt.shank,
+        "bolt_force": share * P + F_i, "member_force": (1.0 - share) * P - F_i,
+        "endurance_method": endurance.method, "endurance_factors": dict(endurance.factors),
+        "load_line_slope": (sigma_m - sigma_i) / sigma_a if sigma_a > 0 else None,
+    }
+    return JointResult(
+        id=spec.id, ok=verdict != "fail", verdict=verdict, governing=governing, spec=spec,
+        grip=spec.clamped_thickness if spec.tapped else spec.grip, effective_grip=grip,
+        bolt_stiffness=bolt.stiffness, member_stiffness=k_m, joint_constant=C, stiffness_method=method,
+        preload=F_i, Se=endurance.Se, sigma_a=sigma_a, sigma_m=sigma_m, sigma_i=sigma_i, n_f=n_f,
+        factors=factors, checks=checks, tightening=tightening, notes=notes, details=details,
+    )
