@@ -63,7 +63,7 @@ def separation_factor(C: float, load: float, preload: float) -> float | None:
     No preload gives 0 (issue 2 convention, even without load).
 
     >>> round(separation_factor(0.25, 10000.0, 52477.0), 4)
-    6.9968
+    6.9969
     """
     if preload <= 0:
         return 0.0
