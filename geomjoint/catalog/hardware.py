@@ -156,12 +156,10 @@ def nominal_from_hole(diameter: float, system: str | None = None, tol: float = 0
     found: list[tuple[float, int, int, int, Thread, str]] = []
     for i, t in enumerate(thread_sizes(system)):
         cands: list[tuple[float, str]] = []
-        try:
-            r = _row("clearance_holes", t, "", "clearance hole")
+        r = _by_size("clearance_holes").get((size_label(t), ""))
+        if r is not None:  # without clearance data for a size, tap drill and nominal still apply
             for col in ("fine", "medium", "coarse"):
                 cands.append((to_mm(number(r, col), r["unit"]), col))
-        except InputError:
-            pass  # no clearance data for this size: tap drill and nominal still apply
         cands += [(tap_drill(t), "tap drill"), (t.D1, "tap drill"), (t.d, "nominal")]
         best: dict[str, float] = {}
         for value, label in cands:

@@ -230,7 +230,8 @@ def thread(designation: str) -> Thread:
     """
     if not isinstance(designation, str) or not designation.strip():
         raise InputError(f"empty thread designation {designation!r}")
-    text = " ".join(designation.strip().upper().split())
+    # a decimal comma ("M12x1,25") is common in European drawings
+    text = " ".join(designation.strip().upper().replace(",", ".").split())
     threads = _all_threads()
     m = _METRIC_RE.match(text)
     if m:
