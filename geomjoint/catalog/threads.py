@@ -31,6 +31,11 @@ UNIFIED_QUARTER_PI = 0.7854
 UNIFIED_NUMBER_BASE_IN = 0.060
 UNIFIED_NUMBER_STEP_IN = 0.013
 
+#: tap drill = D - 0.01299 * percent / n (inch); 0.01299 = 1.299/100, twice the 0.6495 p thread depth (common practice)
+INCH_TAP_DRILL_PER_PERCENT = 0.01299
+#: thread depth percentage aimed at by the usual inch tap drills (common practice)
+INCH_TAP_DRILL_PERCENT = 75.0
+
 
 def iso_pitch_diameter(d: float, pitch: float) -> float:
     """Basic pitch diameter of an ISO metric thread.
@@ -281,8 +286,3 @@ def tap_drill(t: Thread) -> float:
         return t.d - t.pitch
     return t.d - INCH_TAP_DRILL_PER_PERCENT * INCH_TAP_DRILL_PERCENT * t.pitch
 
-
-#: tap drill = D - 0.01299 * percent / n (inch); 0.01299 = 1.299/100, twice the 0.6495 p thread depth (common practice)
-INCH_TAP_DRILL_PER_PERCENT = 0.01299
-#: thread depth percentage aimed at by the usual inch tap drills (common practice)
-INCH_TAP_DRILL_PERCENT = 75.0
