@@ -1,0 +1,286 @@
+"""Reading a CAD model into plain parts: name, located solid, colour, material hint.
+
+A STEP file (AP203 / AP214 / AP242) is read through OCP's XCAF reader, so part
+names, instance placements and colours survive; the same part placed twice is two
+instances ("foot", "foot#2").  The document's length unit is set to millimetres
+before the transfer, so a file written in inches or metres comes back in mm.
+An in-memory cadquery Assembly, Workplane or Shape goes through the same path
+(an Assembly is converted to an XCAF document first).
+"""
+from __future__ import annotations
+
+import os
+import re
+from dataclasses import dataclass, field
+from typing import Any
+
+from OCP.BRep import BRep_Builder
+from OCP.IFSelect import IFSelect_RetDone
+from OCP.Quantity import Quantity_Color
+from OCP.STEPCAFControl import STEPCAFControl_Reader
+from OCP.TCollection import TCollection_ExtendedString
+from OCP.TDataStd import TDataStd_Name
+from OCP.TDF import TDF_Label, TDF_LabelSequence
+from OCP.TDocStd import TDocStd_Document
+from OCP.TopAbs import TopAbs_SOLID
+from OCP.TopExp import TopExp_Explorer
+from OCP.TopLoc import TopLoc_Location
+from OCP.TopoDS import TopoDS, TopoDS_Shape
+from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
+from OCP.XCAFDoc import (
+    XCAFDoc_ColorGen,
+    XCAFDoc_ColorSurf,
+    XCAFDoc_ColorTool,
+    XCAFDoc_DocumentTool,
+    XCAFDoc_ShapeTool,
+)
+
+from geomjoint.errors import InputError
+
+#: words in a part or colour name that hint at a material (common practice in part naming);
+#: order matters: the first match wins, so "cast iron" is tested before "iron"
+MATERIAL_WORDS: tuple[tuple[str, str], ...] = (
+    ("stainless", "stainless steel"),
+    ("inox", "stainless steel"),
+    ("cast_alu", "cast aluminium"),
+    ("castalu", "cast aluminium"),
+    ("alum", "aluminium"),
+    ("alu", "aluminium"),
+    ("cast_iron", "gray cast iron"),
+    ("castiron", "gray cast iron"),
+    ("ductile", "ductile iron"),
+    ("housing_cast", "gray cast iron"),
+    ("titanium", "titanium"),
+    ("bronze", "bronze"),
+    ("brass", "copper alloy"),
+    ("copper", "copper alloy"),
+    ("steel", "steel"),
+)
+
+
+@dataclass
+class Part:
+    """One placed solid of the model (an instance; mm, model coordinates)."""
+
+    name: str                           # unique per instance: "foot", "foot#2"
+    solid: TopoDS_Shape = field(repr=False, compare=False)  # located solid
+    colour: tuple[float, float, float] | None = None          # sRGB 0..1
+    colour_name: str | None = None      # OCCT's nearest named colour, e.g. "GRAY"
+    material_hint: str | None = None    # from the name or the colour name
+    product: str | None = None          # name of the part definition (shared by instances)
+
+
+@dataclass
+class Model:
+    """The parts of a model, in file order."""
+
+    source: str                          # file path or "<memory>"
+    parts: list[Part]
+
+    def part(self, name: str) -> Part:
+        for p in self.parts:
+            if p.name == name:
+                return p
+        raise InputError(f"no part named {name!r} in the model", where=self.source)
+
+
+def material_hint(*names: str | None) -> str | None:
+    """A material name hinted at by a part or colour name ("adapter_plate_alu" -> "aluminium")."""
+    for n in names:
+        if not n:
+            continue
+        low = re.sub(r"[\s\-]+", "_", n.lower())
+        for word, mat in MATERIAL_WORDS:
+            if word in low:
+                return mat
+    return None
+
+
+def _label_name(label: TDF_Label) -> str | None:
+    attr = TDataStd_Name()
+    if label.FindAttribute(TDataStd_Name.GetID_s(), attr):
+        text = attr.Get().ToExtString().strip()
+        return text or None
+    return None
+
+
+def _label_colour(*labels: TDF_Label) -> Quantity_Color | None:
+    for lab in labels:
+        for kind in (XCAFDoc_ColorSurf, XCAFDoc_ColorGen):
+            col = Quantity_Color()
+            if XCAFDoc_ColorTool.GetColor_s(lab, kind, col):
+                return col
+    return None
+
+
+def _shape_colour(tool: XCAFDoc_ColorTool, shape: TopoDS_Shape) -> Quantity_Color | None:
+    for kind in (XCAFDoc_ColorSurf, XCAFDoc_ColorGen):
+        col = Quantity_Color()
+        if tool.GetColor(shape, kind, col):
+            return col
+    return None
+
+
+def _solids(shape: TopoDS_Shape) -> list[TopoDS_Shape]:
+    out = []
+    exp = TopExp_Explorer(shape, TopAbs_SOLID)
+    while exp.More():
+        out.append(TopoDS.Solid_s(exp.Current()))
+        exp.Next()
+    return out
+
+
+class _Collector:
+    """Walks an XCAF document and collects located solids with names and colours."""
+
+    def __init__(self, doc: TDocStd_Document):
+        self.doc = doc
+        self.colours = XCAFDoc_DocumentTool.ColorTool_s(doc.Main())
+        self.raw: list[tuple[str, TopoDS_Shape, Quantity_Color | None, str | None]] = []
+
+    def run(self) -> None:
+        shapes = XCAFDoc_DocumentTool.ShapeTool_s(self.doc.Main())
+        free = TDF_LabelSequence()
+        shapes.GetFreeShapes(free)
+        for i in range(1, free.Length() + 1):
+            lab = free.Value(i)
+            self._walk(lab, TopLoc_Location(), _label_name(lab) or "part", None)
+
+    def _walk(self, label: TDF_Label, loc: TopLoc_Location, name: str,
+              colour: Quantity_Color | None) -> None:
+        if XCAFDoc_ShapeTool.IsAssembly_s(label):
+            comps = TDF_LabelSequence()
+            XCAFDoc_ShapeTool.GetComponents_s(label, comps)
+            for i in range(1, comps.Length() + 1):
+                comp = comps.Value(i)
+                ref = TDF_Label()
+                if not XCAFDoc_ShapeTool.GetReferredShape_s(comp, ref):
+                    ref = comp
+                cname = _label_name(comp) or _label_name(ref) or name
+                ccol = _label_colour(comp, ref) or colour
+                self._walk(ref, loc.Multiplied(XCAFDoc_ShapeTool.GetLocation_s(comp)), cname, ccol)
+            return
+        shape = XCAFDoc_ShapeTool.GetShape_s(label)
+        product = _label_name(label)
+        col = _label_colour(label) or colour
+        for solid in _solids(shape):
+            scol = _shape_colour(self.colours, solid) or col
+            located = solid.Moved(loc) if not loc.IsIdentity() else solid
+            self.raw.append((name, located, scol, product))
+
+
+def _unique_parts(raw) -> list[Part]:
+    seen: dict[str, int] = {}
+    parts = []
+    for name, solid, col, product in raw:
+        seen[name] = seen.get(name, 0) + 1
+        uname = name if seen[name] == 1 else f"{name}#{seen[name]}"
+        rgb = cname = None
+        if col is not None:
+            rgb = (round(col.Red(), 4), round(col.Green(), 4), round(col.Blue(), 4))
+            cname = Quantity_Color.StringName_s(col.Name())
+        parts.append(Part(name=uname, solid=solid, colour=rgb, colour_name=cname,
+                          material_hint=material_hint(name, product, cname), product=product))
+    # a later duplicate may collide with an earlier literal "x#2": make names unique anyway
+    names: set[str] = set()
+    for p in parts:
+        base, k = p.name, 2
+        while p.name in names:
+            p.name = f"{base}~{k}"
+            k += 1
+        names.add(p.name)
+    return parts
+
+
+def _new_doc() -> TDocStd_Document:
+    doc = TDocStd_Document(TCollection_ExtendedString("XmlOcaf"))
+    # the reader scales the file's length unit to the document's unit: ask for mm
+    XCAFDoc_DocumentTool.SetLengthUnit_s(doc, 1.0, UnitsMethods_LengthUnit_Millimeter)
+    return doc
+
+
+def _check_step_file(path: str) -> None:
+    if not os.path.exists(path):
+        raise InputError("file not found", where=path)
+    if os.path.isdir(path):
+        raise InputError("is a directory, not a STEP file", where=path)
+    size = os.path.getsize(path)
+    if size == 0:
+        raise InputError("empty file, not a STEP model", where=path)
+    with open(path, "rb") as fh:
+        head = fh.read(4096)
+        fh.seek(max(0, size - 4096))
+        tail = fh.read()
+    if b"ISO-10303-21" not in head[:200]:
+        raise InputError("not a STEP file (no ISO-10303-21 header)", where=path)
+    if b"END-ISO-10303-21" not in tail:
+        raise InputError("truncated STEP file (no END-ISO-10303-21 trailer)", where=path)
+
+
+def _read_step(path: str) -> list[Part]:
+    _check_step_file(path)
+    reader = STEPCAFControl_Reader()
+    reader.SetNameMode(True)
+    reader.SetColorMode(True)
+    reader.SetLayerMode(False)
+    if reader.ReadFile(path) != IFSelect_RetDone:
+        raise InputError("unreadable STEP file (the reader rejected it)", where=path)
+    doc = _new_doc()
+    if not reader.Transfer(doc):
+        raise InputError("STEP file could not be transferred to shapes", where=path)
+    col = _Collector(doc)
+    col.run()
+    return _unique_parts(col.raw)
+
+
+def _from_memory(obj: Any) -> list[Part]:
+    import cadquery as cq
+    from cadquery.occ_impl.assembly import toCAF
+
+    if isinstance(obj, cq.Assembly):
+        _, doc = toCAF(obj)
+        col = _Collector(doc)
+        col.run()
+        return _unique_parts(col.raw)
+    if isinstance(obj, cq.Workplane):
+        shapes = [v.wrapped for v in obj.vals() if isinstance(v, cq.Shape)]
+    elif isinstance(obj, cq.Shape):
+        shapes = [obj.wrapped]
+    elif isinstance(obj, TopoDS_Shape):
+        shapes = [obj]
+    else:
+        raise InputError(f"cannot read a model from a {type(obj).__name__}", where="<memory>")
+    raw = []
+    for s in shapes:
+        for solid in _solids(s):
+            raw.append(("solid", solid, None, None))
+    return _unique_parts(raw)
+
+
+def load_model(source: Any) -> Model:
+    """Read a STEP file (path) or an in-memory cadquery Assembly / Workplane / Shape.
+
+    Lengths come back in mm whatever the file's unit.  Raises InputError naming the
+    file when it is missing, empty, not STEP, truncated, or has no solids.
+    """
+    if isinstance(source, (str, os.PathLike)):
+        where = os.fspath(source)
+        parts = _read_step(where)
+    else:
+        where = "<memory>"
+        parts = _from_memory(source)
+    if not parts:
+        raise InputError("the model has no solids", where=where)
+    return Model(source=where, parts=parts)
+
+
+def compound(shapes: list[TopoDS_Shape]) -> TopoDS_Shape:
+    """A compound of shapes (used by tests and the benchmark)."""
+    from OCP.TopoDS import TopoDS_Compound
+
+    comp = TopoDS_Compound()
+    builder = BRep_Builder()
+    builder.MakeCompound(comp)
+    for s in shapes:
+        builder.Add(comp, s)
+    return comp

@@ -1,0 +1,309 @@
+"""Scan a model: every bolted joint, its stack-up, the modelled hardware and findings.
+
+``scan_model(source)`` runs model -> holes -> hardware -> stacks and adds the
+stack-up findings; ``scan_to_json`` gives the scan document of DESIGN.md and
+``scan_table`` a readable table.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+from geomjoint import catalog
+from geomjoint.errors import InputError
+from geomjoint.geometry.hardware import Bolt, Nut, Washer, recognise, thread_for_diameter
+from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
+from geomjoint.geometry.model import Model, load_model
+from geomjoint.geometry.stacks import Finding, Joint, find_joints
+
+#: thread protrusion past the nut: at least this many pitches (common practice: one full
+#: thread beyond the nut, so the chamfered end does not sit in the nut)
+MIN_PROTRUSION_PITCHES = 1.0
+#: protrusion allowed for when sizing a bolt (common practice: two pitches)
+SIZING_PROTRUSION_PITCHES = 2.0
+#: protrusion past the nut beyond which the bolt is reported long, in bolt diameters
+#: (a stated limit of ours; common practice keeps it to a few threads)
+MAX_PROTRUSION_DIAMETERS = 1.0
+#: minimum thread engagement in a tapped hole, in nominal diameters, by the tapped
+#: part's material (common practice: steel 1.0 d, cast iron 1.25 d, aluminium 2.0 d)
+ENGAGEMENT_FACTORS = {"steel": 1.0, "stainless steel": 1.0, "gray cast iron": 1.25,
+                      "ductile iron": 1.25, "aluminium": 2.0, "cast aluminium": 2.0,
+                      "copper alloy": 1.5, "bronze": 1.5, "titanium": 1.0}
+DEFAULT_ENGAGEMENT_FACTOR = 1.0
+#: a hole matches a standard clearance when within this tolerance, mm (ISO 273 holes are H13;
+#: 0.05 mm keeps the fine / medium / coarse series apart)
+CLEARANCE_MATCH_TOL = 0.05
+
+
+@dataclass
+class ScanResult:
+    """The outcome of a scan (mm, model coordinates)."""
+
+    source: str
+    model: Model = field(repr=False)
+    joints: list[Joint]
+    bolts: list[Bolt] = field(default_factory=list)
+    nuts: list[Nut] = field(default_factory=list)
+    washers: list[Washer] = field(default_factory=list)
+    hole_count: int = 0
+
+    @property
+    def failed(self) -> bool:
+        return any(f.severity == "fail" for j in self.joints for f in j.findings)
+
+
+def scan_model(source: Any) -> ScanResult:
+    """Find every bolted joint of a STEP file or an in-memory cadquery model."""
+    model = source if isinstance(source, Model) else load_model(source)
+    holes, bolts, nuts, washers = [], [], [], []
+    hints = {}
+    for part in model.parts:
+        faces = analyse_faces(part.solid)
+        part_holes = find_holes(part.solid, part.name, faces)
+        hw = recognise(part.name, faces, part_holes, part.solid)
+        hints[part.name] = part.material_hint
+        if isinstance(hw, Bolt):
+            bolts.append(hw)
+        elif isinstance(hw, Nut):
+            nuts.append(hw)
+        elif isinstance(hw, Washer):
+            washers.append(hw)
+        else:
+            holes.extend(part_holes)
+    joints = find_joints(holes, bolts, nuts, washers, hints)
+    for j in joints:
+        add_findings(j)
+    return ScanResult(source=model.source, model=model, joints=joints, bolts=bolts, nuts=nuts,
+                      washers=washers, hole_count=len(holes))
+
+
+def _system_hint(j: Joint) -> str | None:
+    for name in [l.part for l in j.layers] + ([j.bolt.part] if j.bolt else []):
+        low = name.lower()
+        if "unc" in low or "unf" in low or "inch" in low:
+            return "inch"
+    return None
+
+
+def _resolve_nominal(j: Joint):
+    """The thread of the joint: modelled bolt (name hint cross-checked), nut, or holes."""
+    if j.bolt is not None:
+        b = j.bolt
+        hint = b.hint
+        if hint is not None and abs(hint.d - b.d) <= 0.03 * hint.d:
+            j.nominal_source = "bolt"
+            return catalog.thread(hint.designation)
+        t = thread_for_diameter(b.d, "inch" if (hint and "-" in hint.designation) else _system_hint(j))
+        if t is None:
+            t = thread_for_diameter(b.d)
+        if hint is not None and t is not None and abs(hint.d - b.d) > 0.03 * hint.d:
+            j.findings.append(Finding("warn", "name-mismatch",
+                                      f"{b.part}: name says {hint.designation} but the shank is "
+                                      f"{b.d:.2f} mm ({t.designation})"))
+        j.nominal_source = "bolt"
+        return t
+    system = _system_hint(j)
+    if j.nut is not None:
+        for t, how in catalog.nominal_from_hole(j.nut.d, system):
+            if how in ("nominal", "tap drill") and t.series in ("coarse", "UNC"):
+                j.nominal_source = "nut"
+                return t
+    tapped = [l for l in j.layers if l.role == "tapped"]
+    clear = [l for l in j.layers if l.role != "tapped"]
+    if clear:
+        for t, how in catalog.nominal_from_hole(j.hole_diameter, system):
+            if how in ("fine", "medium", "coarse", "close", "normal", "loose") and t.series in ("coarse", "UNC"):
+                j.nominal_source = "clearance hole"
+                return t
+    if tapped:
+        for t, how in catalog.nominal_from_hole(tapped[0].hole_diameter, system):
+            if how in ("nominal", "tap drill") and t.series in ("coarse", "UNC"):
+                j.nominal_source = "tapped hole"
+                return t
+    return None
+
+
+def add_findings(j: Joint) -> None:
+    """Stack-up findings of one joint (appended to j.findings), nominal and bolt length."""
+    t = _resolve_nominal(j)
+    j.nominal = t.designation if t else None
+    d = t.d if t else (j.bolt.d if j.bolt else None)
+    add = j.findings.append
+    if j.bolt is None:
+        if t is not None:
+            add(Finding("info", "no-hardware",
+                        f"no bolt modelled; size {t.designation} inferred from the {j.nominal_source} "
+                        f"({_hole_for(j):.2f} mm)"))
+        else:
+            add(Finding("warn", "no-hardware",
+                        f"no bolt modelled and hole {j.hole_diameter:.2f} mm matches no standard size"))
+    # misalignment: pairwise offset beyond the sum of the radial clearances
+    if d is not None:
+        worst = None
+        for i, a in enumerate(j.layers):
+            for b in j.layers[i + 1:]:
+                ca = 0.0 if a.role == "tapped" else max(0.0, (a.hole_diameter - d) / 2)
+                cb = 0.0 if b.role == "tapped" else max(0.0, (b.hole_diameter - d) / 2)
+                off = math.dist(a.position, b.position)
+                if off > ca + cb + LINEAR_TOL and (worst is None or off - ca - cb > worst[0]):
+                    worst = (off - ca - cb, a, b, off, ca + cb)
+        if worst:
+            _, a, b, off, allowed = worst
+            add(Finding("fail", "misaligned",
+                        f"holes of {a.part} and {b.part} are {off:.3f} mm off axis; "
+                        f"the bolt passes {allowed:.3f} mm"))
+    if t is None:
+        return
+    pitch = t.pitch
+    kind = j.bolt.head_kind if j.bolt else ("socket" if any(l.counterbore for l in j.layers[:1]) else "hex")
+    # interference: bolt wider than a clearance hole
+    if j.bolt is not None:
+        for l in j.layers:
+            if l.role != "tapped" and j.bolt.d > l.hole_diameter + LINEAR_TOL:
+                add(Finding("fail", "interference",
+                            f"{j.bolt.part} ({j.bolt.d:.2f} mm) does not pass the {l.hole_diameter:.2f} mm hole of {l.part}"))
+    # non-standard clearance holes
+    std = {}
+    for fit in ("fine", "medium", "coarse"):
+        try:
+            std[fit] = catalog.clearance_hole(t, fit)
+        except InputError:
+            pass
+    for l in j.layers:
+        if l.role == "member" and std and not any(abs(l.hole_diameter - v) <= CLEARANCE_MATCH_TOL for v in std.values()):
+            series = ", ".join(f"{k} {v:g}" for k, v in std.items())
+            add(Finding("warn", "hole-not-standard",
+                        f"{l.part}: hole {l.hole_diameter:.2f} mm is not a standard clearance for {t.designation} ({series})"))
+    # counterbore / spot face seat too small for the head (or washer) under it
+    first = j.layers[0]
+    seat_layer = next((l for l in j.layers if l.counterbore), None)
+    if seat_layer is not None:
+        if first.role == "washer" and j.washers:
+            need, what = j.washers[0].outer, f"washer {j.washers[0].part}"
+        elif j.bolt is not None:
+            w = j.bolt.head_width
+            need = w / math.cos(math.radians(30)) if j.bolt.head_kind == "hex" else w
+            what = f"head of {j.bolt.part}"
+        else:
+            hd = catalog.head(t, kind)
+            need = hd.width / math.cos(math.radians(30)) if kind == "hex" else hd.width
+            what = f"{kind} head of {t.designation} ({hd.source.split(';')[0]})"
+        if need > seat_layer.counterbore + LINEAR_TOL:
+            add(Finding("fail", "seat-too-small",
+                        f"{what} needs {need:.2f} mm but the counterbore of {seat_layer.part} is "
+                        f"{seat_layer.counterbore:.2f} mm"))
+    # bolt length: protrusion, engagement, shank reaching the nut, bottoming
+    nut_h = j.nut.height if j.nut else catalog.nut(t).height
+    if j.kind == "tapped":
+        tl = j.layers[-1]
+        factor = ENGAGEMENT_FACTORS.get(tl.material_hint or "", DEFAULT_ENGAGEMENT_FACTOR)
+        need_eng = factor * t.d
+        needed = j.grip + need_eng
+        if j.bolt is not None:
+            eng = j.bolt.length - tl.start
+            if eng < need_eng - LINEAR_TOL:
+                add(Finding("fail", "bolt-short",
+                            f"{j.bolt.part}: thread engagement {eng:.2f} mm in {tl.part}, "
+                            f"needs {need_eng:.2f} mm ({factor:g} d, {tl.material_hint or 'steel'})"))
+            if not tl.through and j.bolt.length > tl.end + LINEAR_TOL:
+                add(Finding("fail", "bolt-long",
+                            f"{j.bolt.part} bottoms in the blind hole of {tl.part}: "
+                            f"{j.bolt.length - tl.end:.2f} mm too long"))
+    else:
+        needed = j.grip + nut_h + SIZING_PROTRUSION_PITCHES * pitch
+        if j.bolt is not None:
+            nut_end = (j.layers[-1].end + nut_h) if j.nut is None else _nut_end(j)
+            protr = j.bolt.length - nut_end
+            if protr < MIN_PROTRUSION_PITCHES * pitch - LINEAR_TOL:
+                add(Finding("fail", "bolt-short",
+                            f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut, needs at least "
+                            f"{MIN_PROTRUSION_PITCHES * pitch:.2f} mm (one pitch)"))
+            elif protr > MAX_PROTRUSION_DIAMETERS * t.d + LINEAR_TOL:
+                add(Finding("warn", "bolt-long",
+                            f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut (limit {MAX_PROTRUSION_DIAMETERS:g} d = "
+                            f"{MAX_PROTRUSION_DIAMETERS * t.d:.2f} mm)"))
+    if j.bolt is not None:
+        b = catalog.thread_length(t, j.bolt.length)
+        shank = j.bolt.length - b
+        if shank > j.grip + LINEAR_TOL and j.kind != "blind":
+            where = "the nut" if j.kind == "through" else f"the tapped hole of {j.layers[-1].part}"
+            add(Finding("fail", "shank-in-nut" if j.kind == "through" else "shank-in-thread",
+                        f"{j.bolt.part}: unthreaded shank {shank:.2f} mm (thread {b:.2f} mm by the standard rule) "
+                        f"is longer than the grip {j.grip:.2f} mm and reaches {where}"))
+    try:
+        j.shortest_length = catalog.shortest_length(t, needed, kind)
+        what = (f"shortest standard {t.designation} {kind} length {j.shortest_length:g} mm "
+                f"(needs {needed:.2f} mm: grip" + (f" + nut {nut_h:.2f} + {SIZING_PROTRUSION_PITCHES:g} pitches)"
+                                                    if j.kind != "tapped" else " + engagement)"))
+    except InputError as exc:
+        what = f"no standard {t.designation} length fits {needed:.2f} mm ({exc})"
+    add(Finding("info", "grip", f"grip {j.grip:.3f} mm; {what}"))
+
+
+def _hole_for(j: Joint) -> float:
+    if j.nominal_source == "tapped hole":
+        return next(l.hole_diameter for l in j.layers if l.role == "tapped")
+    if j.nominal_source == "nut" and j.nut:
+        return j.nut.d
+    return j.hole_diameter
+
+
+def _nut_end(j: Joint) -> float:
+    """End of the nut (away from the bearing face) along the joint axis, from the head bearing face."""
+    import numpy as np
+
+    e = np.array(j.direction)
+    p0 = np.array(j.point)
+    a = float(np.dot(j.nut.ref + j.nut.t0 * j.nut.direction - p0, e))
+    b = float(np.dot(j.nut.ref + j.nut.t1 * j.nut.direction - p0, e))
+    return max(a, b)
+
+
+def _r(x: float, nd: int = 6) -> float:
+    v = round(float(x), nd)
+    return 0.0 if v == 0 else v
+
+
+def scan_to_json(result: ScanResult) -> dict:
+    """The scan document of DESIGN.md (validates against schemas/scan.schema.json)."""
+    joints = []
+    for j in result.joints:
+        joints.append({
+            "id": j.id,
+            "kind": j.kind,
+            "axis": {"point": [_r(c) for c in j.point], "direction": [_r(c, 9) for c in j.direction]},
+            "hole_diameter": _r(j.hole_diameter),
+            "nominal": j.nominal,
+            "grip": _r(max(j.grip, 0.0)),
+            "layers": [{"part": l.part, "role": l.role, "thickness": _r(l.thickness),
+                        "start": _r(l.start), "end": _r(l.end)} for l in j.layers if l.thickness > 0],
+            "gaps": [{"between": list(g.between), "size": _r(g.size)} for g in j.gaps],
+            "hardware": {
+                "bolt": ({"part": j.bolt.part, "d": _r(j.bolt.d), "length": _r(j.bolt.length)}
+                         if j.bolt else None),
+                "nut": j.nut.part if j.nut else None,
+                "washers": [w.part for w in j.washers],
+            },
+            "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in j.findings],
+        })
+    return {"joints": joints}
+
+
+def scan_table(result: ScanResult) -> str:
+    """A readable table: one block per joint (id, kind, size, grip, layers, findings)."""
+    lines = [f"{result.source}: {len(result.model.parts)} parts, {len(result.joints)} joints"]
+    head = f"{'id':<4} {'kind':<8} {'size':<12} {'hole':>7} {'grip':>8}  layers"
+    lines += [head, "-" * len(head)]
+    for j in result.joints:
+        layers = " | ".join(f"{l.part} {l.thickness:.2f}" + ("" if l.role == "member" else f" ({l.role})")
+                            for l in j.layers)
+        size = j.nominal or "?"
+        if j.bolt:
+            size += f"x{j.bolt.length:g}"
+        lines.append(f"{j.id:<4} {j.kind:<8} {size:<12} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
+        for f in j.findings:
+            lines.append(f"{'':<4} {f.severity:<5} {f.code:<18} {f.message}")
+    fails = sum(f.severity == "fail" for j in result.joints for f in j.findings)
+    lines.append(f"{fails} failing finding(s)")
+    return "\n".join(lines)
