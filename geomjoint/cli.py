@@ -1,0 +1,164 @@
+"""Command line: `geomjoint scan | check | init | demo`.
+
+Exit status (DESIGN.md): 0 every joint passes; 1 a check fails; 2 bad input (one line);
+3 an internal error (one line; the traceback only with --debug).
+"""
+from __future__ import annotations
+
+import argparse
+import sys
+import traceback
+from pathlib import Path
+
+from geomjoint.errors import InputError
+
+EXIT_OK, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+
+EXAMPLES = {
+    "scan": "example: geomjoint scan samples/conveyor_bracket.step --json",
+    "check": "example: geomjoint check samples/conveyor_drive.toml --out results/",
+    "init": "example: geomjoint init samples/conveyor_bracket.step",
+    "demo": "example: geomjoint demo --out demo-results/",
+}
+
+
+def version() -> str:
+    from importlib.metadata import PackageNotFoundError, version as dist_version
+
+    try:
+        return dist_version("geomjoint")
+    except PackageNotFoundError:  # running from a source tree
+        return "0.0.0+source"
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="geomjoint",
+        description="Find the bolted joints of a STEP assembly and check preload, static strength and fatigue.",
+        epilog="Results are engineering estimates for qualified review.",
+    )
+    parser.add_argument("--version", action="version", version=f"geomjoint {version()}")
+    parser.add_argument("--debug", action="store_true", help="show the traceback of an internal error")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    def add(name: str, help_text: str) -> argparse.ArgumentParser:
+        p = sub.add_parser(name, help=help_text, description=help_text, epilog=EXAMPLES[name],
+                           formatter_class=argparse.RawDescriptionHelpFormatter)
+        p.add_argument("--debug", action="store_true", help="show the traceback of an internal error")
+        return p
+
+    p = add("scan", "find the joints and stack-ups of a STEP model (no loads needed)")
+    p.add_argument("model", type=Path, help="STEP file")
+    p.add_argument("--json", action="store_true", help="print the scan JSON document on stdout")
+
+    p = add("check", "analyse every joint of one or more job files")
+    p.add_argument("jobs", type=Path, nargs="+", metavar="JOB.toml", help="job file(s)")
+    p.add_argument("--out", type=Path, help="output folder (default: a new folder beside the job)")
+    p.add_argument("--json", action="store_true", help="print the result JSON document on stdout")
+    p.add_argument("--workers", type=int, default=0, help="processes for model joints (default: all cores)")
+
+    p = add("init", "write a starter job file for a model")
+    p.add_argument("model", type=Path, help="STEP file")
+
+    p = add("demo", "run check on the bundled sample job")
+    p.add_argument("--out", type=Path, help="output folder (default: a new folder in the current directory)")
+    p.add_argument("--json", action="store_true", help="print the result JSON document on stdout")
+    return parser
+
+
+def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None) -> int:
+    from geomjoint.analysis import analyze
+    from geomjoint.job import load_job
+    from geomjoint.outputs import new_output_folder, prepare_output_folder, write_atomic
+    from geomjoint.report.json_doc import dumps, result_document
+    from geomjoint.report.text import result_table
+
+    job = load_job(job_path)
+    results = analyze(job)
+    inputs = [job.path] + ([job.model] if job.model else [])
+    if out is None:
+        folder = new_output_folder(beside or job.path.parent, job.path.stem)
+    else:
+        folder = prepare_output_folder(out, inputs)
+    doc = result_document(results, version())
+    text = dumps(doc)
+    write_atomic(folder / "results.json", text, protect=inputs)
+    table = result_table(results)
+    write_atomic(folder / "report.txt", table, protect=inputs)
+    if as_json:
+        sys.stdout.write(text)
+    else:
+        sys.stdout.write(table)
+        sys.stdout.write(f"outputs: {folder}\n")
+    return EXIT_FAIL if any(not r.ok for r in results) else EXIT_OK
+
+
+def _scan(model: Path, as_json: bool) -> int:
+    from geomjoint.geometry.scan import scan_model, scan_table, scan_to_json
+    from geomjoint.report.json_doc import dumps
+
+    result = scan_model(model)
+    doc = scan_to_json(result)
+    if as_json:
+        sys.stdout.write(dumps(doc))
+    else:
+        sys.stdout.write(scan_table(result))
+    failing = any(f["severity"] == "fail" for j in doc["joints"] for f in j["findings"])
+    return EXIT_FAIL if failing else EXIT_OK
+
+
+def sample_job() -> Path:
+    """The bundled demo job: samples/ of the source tree (the README installs it editable)."""
+    path = Path(__file__).resolve().parent.parent / "samples" / "conveyor_drive.toml"
+    if not path.exists():
+        raise InputError("the sample job is not there; install geomjoint from its source tree "
+                         "(pip install -e .) to run the demo", where=str(path))
+    return path
+
+
+def _dispatch(args: argparse.Namespace) -> int:
+    if args.command == "scan":
+        return _scan(args.model, args.json)
+    if args.command == "check":
+        worst = EXIT_OK
+        for job in args.jobs:
+            out = args.out / job.stem if (args.out and len(args.jobs) > 1) else args.out
+            worst = max(worst, _run_check(job, out, args.json, args.workers))
+        return worst
+    if args.command == "demo":
+        # The demo shows failing and marginal joints on purpose; it exits 0 when it ran.
+        _run_check(sample_job(), args.out, args.json, 0, beside=Path.cwd())
+        return EXIT_OK
+    if args.command == "init":
+        from geomjoint.starter import write_starter_job
+
+        path = write_starter_job(args.model)
+        print(f"wrote {path}")
+        return EXIT_OK
+    raise AssertionError(args.command)
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = _parser()
+    args = parser.parse_args(argv)
+    if args.command is None:
+        parser.print_help()
+        return EXIT_INPUT
+    try:
+        return _dispatch(args)
+    except InputError as exc:
+        print(f"geomjoint: error: {exc}", file=sys.stderr)
+        return EXIT_INPUT
+    except KeyboardInterrupt:
+        print("geomjoint: interrupted", file=sys.stderr)
+        return EXIT_INTERNAL
+    except Exception as exc:  # a crash must never look like a failed joint
+        if args.debug:
+            traceback.print_exc()
+        print(f"geomjoint: internal error ({type(exc).__name__}: {exc}); run with --debug for the traceback",
+              file=sys.stderr)
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

@@ -1,0 +1,617 @@
+"""Job file (TOML) → :class:`Job` → one :class:`~geomjoint.mechanics.joint.JointSpec` per joint.
+
+The keys are the contract of DESIGN.md ("Job file") plus the optional keys of the
+engine and VDI issues.  Every key is checked against the tables below, so an unknown
+key is an error with the nearest valid one, and every quantity needs its unit.
+"""
+from __future__ import annotations
+
+import fnmatch
+import math
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+from typing import Any
+
+try:  # Python 3.11+
+    import tomllib
+except ModuleNotFoundError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
+
+from geomjoint import catalog
+from geomjoint.errors import InputError, did_you_mean
+from geomjoint.mechanics.joint import (
+    CRITERIA,
+    STIFFNESS_METHODS,
+    FastenerSpec,
+    FatigueSpec,
+    JointSpec,
+    LayerSpec,
+    PreloadSpec,
+    VdiSpec,
+)
+from geomjoint.units import parse_percent, parse_quantity
+
+# Keys that may appear in [defaults] and, as overrides, in each [[joint]] / [[fasteners]].
+JOINT_SETTING_KEYS = {
+    "fastener", "grade", "threads", "preload", "torque", "nut_factor", "friction", "scatter",
+    "reliability", "criterion", "member_stiffness", "cone_angle", "surface", "temperature",
+    "endurance", "Se", "fully_threaded", "required", "bearing_diameter", "hole_diameter",
+    "outside_diameter", "head", "clamp_required", "roughness", "load_introduction", "method",
+    "rolled_after_heat_treatment", "length", "thread_length", "hole_fit", "fe_bearing",
+    "compare_stiffness",
+}
+TOP_KEYS = {"model", "defaults", "materials", "default_material", "joint", "load", "group",
+            "fasteners", "units", "title"}
+JOINT_KEYS = JOINT_SETTING_KEYS | {"id", "layers", "tapped", "load", "engagement", "nut"}
+LAYER_KEYS = {"material", "thickness", "part", "role"}
+LOAD_KEYS = {"joints", "axial", "shear"}
+JOINT_LOAD_KEYS = {"min", "max", "shear"}
+MINMAX_KEYS = {"min", "max"}
+FRICTION_KEYS = {"thread", "head", "interface"}
+TEMPERATURE_KEYS = {"assembly", "service"}
+REQUIRED_KEYS = {"yield", "load", "separation", "fatigue", "length", "assembly_preload",
+                 "working_stress", "bearing_pressure", "slip", "stripping"}
+INLINE_MATERIAL_KEYS = {"E", "poisson", "yield", "tensile", "limiting_pressure",
+                        "thermal_expansion", "name"}
+FASTENER_RULE_KEYS = JOINT_SETTING_KEYS | {"joints"}
+
+THREAD_KINDS = ("rolled", "cut")
+HEAD_KINDS = ("hex", "socket")
+ENDURANCE_MODES = ("auto", "table", "marin")
+METHODS = ("textbook", "vdi")
+ROUGHNESS = ("fine", "medium", "coarse")
+SURFACES = ("ground", "machined", "cold-drawn", "hot-rolled", "as-forged")
+LAYER_ROLES = ("member", "washer", "tapped")
+REPORT_UNITS = ("SI", "inch")
+
+#: range of friction coefficients accepted (VDI 2230-1 Table A5 spans about 0.04-0.5; wider is a typo)
+FRICTION_RANGE = (0.02, 0.6)
+
+#: default required factors for the checks (1.0: the check passes at exactly its limit)
+DEFAULT_REQUIRED = {"yield": 1.0, "load": 1.0, "separation": 1.0, "fatigue": 1.0, "length": 1.0}
+
+#: thread protrusion beyond the nut when the bolt length is chosen: two pitches (common practice)
+PROTRUSION_PITCHES = 2.0
+
+#: preload when the job gives neither preload nor torque: 75 % of the proof load, the usual
+#: figure for reusable joints (Shigley 10th ed., eq. 8-31; common practice)
+DEFAULT_PRELOAD = "75%"
+
+DEFAULT_SETTINGS: dict[str, Any] = {
+    "grade": "8.8",
+    "threads": "rolled",
+    "reliability": 0.99,
+    "criterion": "goodman",
+    "member_stiffness": "frustum",
+    "cone_angle": "30 deg",
+    "surface": "machined",
+    "endurance": "auto",
+    "fully_threaded": False,
+    "head": "hex",
+    "method": "textbook",
+    "hole_fit": "medium",
+}
+
+
+@dataclass
+class LoadRule:
+    joints: str
+    axial_min: float | None
+    axial_max: float | None
+    shear: float | None
+    where: str
+
+
+@dataclass
+class Job:
+    path: Path
+    model: Path | None
+    defaults: dict[str, Any]
+    materials: dict[str, Any]
+    default_material: Any
+    joints: list[dict[str, Any]]          # raw [[joint]] tables (checked keys)
+    loads: list[LoadRule]
+    groups: list[dict[str, Any]]
+    fastener_rules: list[dict[str, Any]]
+    units: str = "SI"
+    title: str = ""
+    raw: dict[str, Any] = field(default_factory=dict)
+
+    def where(self, key: str) -> str:
+        return f"{self.path.name}: {key}"
+
+
+# ----------------------------------------------------------------------------- reading
+
+def _check_keys(table: Any, allowed: set[str], where: str) -> dict[str, Any]:
+    if not isinstance(table, dict):
+        raise InputError(f"expected a table, got {type(table).__name__}", where=where)
+    for key in table:
+        if key not in allowed:
+            raise InputError(f"unknown key {key!r}{did_you_mean(key, sorted(allowed))}", where=where)
+    return table
+
+
+def load_job(path: str | Path) -> Job:
+    """Read and check a job file; raises :class:`InputError` naming the file and key."""
+    path = Path(path)
+    if not path.exists():
+        raise InputError("job file does not exist", where=str(path))
+    if path.is_dir():
+        raise InputError("is a folder, not a job file", where=str(path))
+    try:
+        text = path.read_bytes().decode("utf-8")
+    except UnicodeDecodeError:
+        raise InputError("is not a UTF-8 text file", where=str(path)) from None
+    try:
+        raw = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"TOML syntax error: {exc}", where=str(path)) from None
+    name = path.name
+    _check_keys(raw, TOP_KEYS, name)
+
+    model = None
+    if "model" in raw:
+        if not isinstance(raw["model"], str) or not raw["model"].strip():
+            raise InputError("expected a file path string", where=f"{name}: model")
+        model = (path.parent / raw["model"]).resolve()
+        if not model.exists():
+            raise InputError(f"model file {raw['model']!r} does not exist", where=f"{name}: model")
+        if model.is_dir():
+            raise InputError(f"model {raw['model']!r} is a folder, not a STEP file", where=f"{name}: model")
+
+    defaults = _check_keys(raw.get("defaults", {}), JOINT_SETTING_KEYS, f"{name}: [defaults]")
+    materials = raw.get("materials", {})
+    if not isinstance(materials, dict):
+        raise InputError("expected a table of part-name globs", where=f"{name}: [materials]")
+
+    joints = raw.get("joint", [])
+    if not isinstance(joints, list):
+        raise InputError("use [[joint]] (an array of tables)", where=f"{name}: joint")
+    seen: set[str] = set()
+    for i, joint in enumerate(joints):
+        where = f"{name}: joint[{i}]"
+        _check_keys(joint, JOINT_KEYS, where)
+        jid = joint.get("id")
+        if not isinstance(jid, str) or not jid.strip():
+            raise InputError("every [[joint]] needs an 'id' string", where=where)
+        if jid in seen:
+            raise InputError(f"joint id {jid!r} is used twice", where=where)
+        seen.add(jid)
+
+    loads = [_read_load_rule(rule, f"{name}: load[{i}]") for i, rule in enumerate(raw.get("load", []))]
+    groups = raw.get("group", [])
+    fastener_rules = raw.get("fasteners", [])
+    for i, rule in enumerate(fastener_rules):
+        _check_keys(rule, FASTENER_RULE_KEYS, f"{name}: fasteners[{i}]")
+        if not isinstance(rule.get("joints"), str):
+            raise InputError("needs 'joints' (an id or glob)", where=f"{name}: fasteners[{i}]")
+    units = raw.get("units", "SI")
+    if units not in REPORT_UNITS:
+        raise InputError(f"must be one of {', '.join(REPORT_UNITS)}", where=f"{name}: units")
+    if not joints and model is None:
+        raise InputError("no [[joint]] and no model: nothing to check", where=name)
+    job = Job(path=path, model=model, defaults=defaults, materials=materials,
+              default_material=raw.get("default_material"), joints=joints, loads=loads,
+              groups=groups, fastener_rules=fastener_rules, units=units,
+              title=str(raw.get("title", "")), raw=raw)
+    # Resolve every typed-in joint now, so all bad input is reported before any work starts.
+    for joint in joints:
+        joint_spec(job, joint)
+    return job
+
+
+def _read_load_rule(rule: Any, where: str) -> LoadRule:
+    _check_keys(rule, LOAD_KEYS, where)
+    joints = rule.get("joints")
+    if not isinstance(joints, str):
+        raise InputError("needs 'joints' (an id or glob such as \"*\")", where=where)
+    lo = hi = shear = None
+    if "axial" in rule:
+        lo, hi = _min_max(rule["axial"], f"{where}.axial")
+    if "shear" in rule:
+        shear = _force(rule["shear"], f"{where}.shear")
+    return LoadRule(joints, lo, hi, shear, where)
+
+
+# ----------------------------------------------------------------------------- values
+
+def _force(value: Any, where: str) -> float:
+    return parse_quantity(value, "force", where=where)
+
+
+def _length(value: Any, where: str, positive: bool = True) -> float:
+    result = parse_quantity(value, "length", where=where)
+    if positive and result <= 0:
+        raise InputError(f"must be greater than zero, got {value!r}", where=where)
+    return result
+
+
+def _min_max(value: Any, where: str) -> tuple[float, float]:
+    table = _check_keys(value, MINMAX_KEYS, where)
+    if "max" not in table:
+        raise InputError("needs 'max' (and optionally 'min')", where=where)
+    hi = _force(table["max"], f"{where}.max")
+    lo = _force(table.get("min", "0 N"), f"{where}.min")
+    if hi < lo:
+        raise InputError(f"max ({table['max']}) is less than min ({table.get('min')})", where=where)
+    return lo, hi
+
+
+def _number(value: Any, where: str, lo: float | None = None, hi: float | None = None,
+            open_interval: bool = False) -> float:
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise InputError(f"expected a number, got {value!r}", where=where)
+    x = float(value)
+    if not math.isfinite(x):
+        raise InputError("must be a finite number", where=where)
+    if open_interval:
+        if (lo is not None and x <= lo) or (hi is not None and x >= hi):
+            raise InputError(f"must lie strictly between {lo:g} and {hi:g}, got {value!r}", where=where)
+    elif (lo is not None and x < lo) or (hi is not None and x > hi):
+        bounds = f"between {lo:g} and {hi:g}" if hi is not None else f"at least {lo:g}"
+        raise InputError(f"must be {bounds}, got {value!r}", where=where)
+    return x
+
+
+def _choice(value: Any, choices: tuple[str, ...], where: str) -> str:
+    if not isinstance(value, str) or value not in choices:
+        raise InputError(f"{value!r} is not one of {', '.join(choices)}{did_you_mean(str(value), choices)}",
+                         where=where)
+    return value
+
+
+def _bool(value: Any, where: str) -> bool:
+    if not isinstance(value, bool):
+        raise InputError(f"expected true or false, got {value!r}", where=where)
+    return value
+
+
+def _friction(value: Any, where: str) -> float:
+    return _number(value, where, *FRICTION_RANGE)
+
+
+# ----------------------------------------------------------------------------- materials
+
+def material_layer_fields(value: Any, where: str) -> dict[str, Any]:
+    """A catalog material name or an inline ``{ E = "71 GPa", poisson = 0.33 }`` → LayerSpec fields."""
+    if isinstance(value, str):
+        try:
+            m = catalog.material(value)
+        except InputError as exc:
+            raise InputError(str(exc), where=where) from None
+        return dict(E=m.E, poisson=m.poisson, material=m.name, yield_strength=m.yield_strength,
+                    tensile_strength=m.tensile_strength, limiting_pressure=m.limiting_pressure,
+                    thermal_expansion=m.thermal_expansion,
+                    wileman=(m.wileman_A, m.wileman_B) if m.wileman_A is not None else None)
+    table = _check_keys(value, INLINE_MATERIAL_KEYS, where)
+    if "E" not in table:
+        raise InputError("an inline material needs E, e.g. { E = \"71 GPa\" }", where=where)
+    E = parse_quantity(table["E"], "stress", where=f"{where}.E")
+    if E <= 0:
+        raise InputError("E must be greater than zero", where=f"{where}.E")
+    fields = dict(E=E, poisson=_number(table.get("poisson", 0.3), f"{where}.poisson", -0.99, 0.5),
+                  material=str(table.get("name", f"E={E / 1000:g} GPa")))
+    for key, target in (("yield", "yield_strength"), ("tensile", "tensile_strength"),
+                        ("limiting_pressure", "limiting_pressure")):
+        if key in table:
+            fields[target] = parse_quantity(table[key], "stress", where=f"{where}.{key}")
+    if "thermal_expansion" in table:
+        fields["thermal_expansion"] = _number(table["thermal_expansion"], f"{where}.thermal_expansion", 0, 1e-3)
+    return fields
+
+
+def material_for_part(job: Job, part: str) -> Any:
+    """The material entry whose glob matches ``part`` (the last matching glob wins)."""
+    found = None
+    for pattern, value in job.materials.items():
+        if fnmatch.fnmatchcase(part, pattern) or fnmatch.fnmatchcase(part.lower(), pattern.lower()):
+            found = value
+    if found is None:
+        found = job.default_material
+    if found is None:
+        raise InputError(f"part {part!r} matches no entry of [materials] (add one, or set default_material)",
+                         where=job.where("[materials]"))
+    return found
+
+
+# ----------------------------------------------------------------------------- settings
+
+def settings_for(job: Job, joint_id: str, joint: dict[str, Any] | None = None) -> dict[str, Any]:
+    """Built-in defaults ← [defaults] ← matching [[fasteners]] rules ← the joint's own keys."""
+    settings = dict(DEFAULT_SETTINGS)
+    levels = [("[defaults]", job.defaults)]
+    levels += [(f"fasteners[{i}]", {k: v for k, v in rule.items() if k != "joints"})
+               for i, rule in enumerate(job.fastener_rules) if fnmatch.fnmatchcase(joint_id, rule["joints"])]
+    if joint:
+        levels.append((f"joint {joint_id}", {k: v for k, v in joint.items() if k in JOINT_SETTING_KEYS}))
+    for level, table in levels:
+        if "preload" in table and "torque" in table:
+            raise InputError("give either 'preload' or 'torque', not both", where=job.where(level))
+        # a preload set at a narrower level replaces a torque set above it, and vice versa
+        for key, other in (("preload", "torque"), ("torque", "preload")):
+            if key in table:
+                settings.pop(other, None)
+        settings.update(table)
+    if "torque" not in settings:
+        settings.setdefault("preload", DEFAULT_PRELOAD)
+    return settings
+
+
+def _preload_spec(s: dict[str, Any], where: str, friction: dict[str, float]) -> PreloadSpec:
+    scatter = _number(s.get("scatter", 1.0), f"{where}.scatter", 1.0, None)
+    nut_factor = None
+    if "nut_factor" in s:
+        nut_factor = _number(s["nut_factor"], f"{where}.nut_factor", 0.05, 0.5)
+    common = dict(nut_factor=nut_factor, friction_thread=friction.get("thread"),
+                  friction_head=friction.get("head"), scatter=scatter)
+    if "torque" in s:
+        torque = parse_quantity(s["torque"], "torque", where=f"{where}.torque")
+        if torque <= 0:
+            raise InputError("must be greater than zero", where=f"{where}.torque")
+        if nut_factor is None and ("thread" not in friction or "head" not in friction):
+            raise InputError("a torque needs 'nut_factor' or friction = { thread, head }", where=f"{where}.torque")
+        return PreloadSpec("torque", torque, **common)
+    value = s["preload"]
+    key = f"{where}.preload"
+    if isinstance(value, str) and value.strip().lower() in ("none", "0", "0%"):
+        return PreloadSpec("none", 0.0, **common)
+    if isinstance(value, str) and value.strip().endswith("%"):
+        fraction = parse_percent(value, where=key)
+        if not 0 <= fraction <= 1.2:
+            raise InputError(f"{value!r} is outside 0-120 % of the proof load", where=key)
+        return PreloadSpec("proof_fraction" if fraction > 0 else "none", fraction, **common)
+    force = _force(value, key)
+    if force < 0:
+        raise InputError("must not be negative", where=key)
+    return PreloadSpec("force" if force > 0 else "none", force, **common)
+
+
+def _friction_table(s: dict[str, Any], where: str) -> dict[str, float]:
+    if "friction" not in s:
+        return {}
+    table = _check_keys(s["friction"], FRICTION_KEYS, f"{where}.friction")
+    return {k: _friction(v, f"{where}.friction.{k}") for k, v in table.items()}
+
+
+def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
+    """(assembly, service) in degC; a single value is the service temperature."""
+    value = s.get("temperature")
+    if value is None:
+        return 20.0, 20.0
+    if isinstance(value, dict):
+        table = _check_keys(value, TEMPERATURE_KEYS, f"{where}.temperature")
+        assembly = parse_quantity(table.get("assembly", "20 degC"), "temperature", where=f"{where}.temperature.assembly")
+        service = parse_quantity(table.get("service", "20 degC"), "temperature", where=f"{where}.temperature.service")
+        return assembly, service
+    return 20.0, parse_quantity(value, "temperature", where=f"{where}.temperature")
+
+
+def _required(s: dict[str, Any], where: str) -> dict[str, float]:
+    required = dict(DEFAULT_REQUIRED)
+    if "required" in s:
+        table = _check_keys(s["required"], REQUIRED_KEYS, f"{where}.required")
+        for k, v in table.items():
+            required[k] = _number(v, f"{where}.required.{k}", 0.0, None)
+    return required
+
+
+@dataclass(frozen=True)
+class ResolvedFastener:
+    spec: FastenerSpec
+    thread: Any
+    head: Any
+
+
+def fastener_for(s: dict[str, Any], where: str) -> ResolvedFastener:
+    """Resolve fastener designation and grade to a FastenerSpec (length left to the caller)."""
+    if "fastener" not in s:
+        raise InputError("no fastener given (set it in [defaults] or on the joint)", where=f"{where}.fastener")
+    try:
+        thread = catalog.thread(s["fastener"])
+    except InputError as exc:
+        raise InputError(str(exc), where=f"{where}.fastener") from None
+    try:
+        grade = catalog.grade(s["grade"], thread.d)
+    except InputError as exc:
+        raise InputError(str(exc), where=f"{where}.grade") from None
+    head_kind = _choice(s["head"], HEAD_KINDS, f"{where}.head")
+    head = catalog.head(thread, head_kind)
+    spec = FastenerSpec(
+        designation=thread.designation, system=thread.system, d=thread.d, pitch=thread.pitch,
+        d2=thread.d2, d3=thread.d3, D1=thread.D1, stress_area=thread.stress_area,
+        grade=grade.name, proof=grade.proof, yield_strength=grade.yield_strength, tensile=grade.tensile,
+        fully_threaded=_bool(s["fully_threaded"], f"{where}.fully_threaded"),
+        threads=_choice(s["threads"], THREAD_KINDS, f"{where}.threads"), head=head_kind,
+        rolled_after_heat_treatment=_bool(s.get("rolled_after_heat_treatment", False),
+                                          f"{where}.rolled_after_heat_treatment"),
+    )
+    if "thread_length" in s:
+        spec = replace(spec, thread_length=_length(s["thread_length"], f"{where}.thread_length"))
+    return ResolvedFastener(spec, thread, head)
+
+
+def build_spec(
+    job: Job,
+    joint_id: str,
+    settings: dict[str, Any],
+    layers: list[LayerSpec],
+    *,
+    tapped: bool,
+    load: tuple[float, float, float],
+    where: str,
+    with_nut: bool = True,
+    engagement: float | None = None,
+    geometry: dict[str, float] | None = None,
+    notes: tuple[str, ...] = (),
+) -> JointSpec:
+    """Everything but the layers and load → JointSpec. Shared by typed-in and model joints.
+
+    ``geometry`` may carry numbers the model measured (bearing_diameter, far_bearing_diameter,
+    hole_diameter, length, nut_height); job keys still override them.
+    """
+    s = settings
+    geometry = geometry or {}
+    fastener = fastener_for(s, where)
+    thread = fastener.thread
+    notes = list(notes)
+
+    method = _choice(s["method"], METHODS, f"{where}.method")
+    stiffness = s.get("member_stiffness", "vdi" if method == "vdi" else "frustum")
+    if method == "vdi" and "member_stiffness" not in job.defaults and "member_stiffness" not in s:
+        stiffness = "vdi"
+    stiffness = _choice(stiffness, STIFFNESS_METHODS, f"{where}.member_stiffness")
+    criterion = s["criterion"]
+    criterion = _choice(criterion, CRITERIA, f"{where}.criterion")
+    cone_angle = parse_quantity(s["cone_angle"], "angle", where=f"{where}.cone_angle")
+    if not 1.0 <= cone_angle <= 60.0:
+        raise InputError(f"{s['cone_angle']!r} is outside 1-60 deg", where=f"{where}.cone_angle")
+
+    # bearing diameters: washer outside diameter if a washer is clamped, else head / nut d_w
+    head_dw = fastener.head.bearing_diameter
+    washer_dims = catalog.washer(thread)
+    nut_dims = catalog.nut(thread)
+    bearing = geometry.get("bearing_diameter")
+    if bearing is None:
+        bearing = washer_dims.outer if layers[0].role == "washer" else head_dw
+    far = geometry.get("far_bearing_diameter")
+    if tapped:
+        far = None
+    elif far is None:
+        far = washer_dims.outer if layers[-1].role == "washer" else nut_dims.bearing_diameter
+    if "bearing_diameter" in s:
+        bearing = _length(s["bearing_diameter"], f"{where}.bearing_diameter")
+    fit = _choice(s["hole_fit"], ("fine", "medium", "coarse"), f"{where}.hole_fit")
+    hole = geometry.get("hole_diameter") or catalog.clearance_hole(thread, fit)
+    if "hole_diameter" in s:
+        hole = _length(s["hole_diameter"], f"{where}.hole_diameter")
+    if hole < thread.d and not tapped:
+        raise InputError(f"hole diameter {hole:g} mm is smaller than the bolt ({thread.d:g} mm)",
+                         where=f"{where}.hole_diameter")
+    if bearing <= hole:
+        raise InputError(f"bearing diameter {bearing:g} mm is not larger than the hole ({hole:g} mm)",
+                         where=f"{where}.bearing_diameter")
+    outside = None
+    if "outside_diameter" in s:
+        outside = _length(s["outside_diameter"], f"{where}.outside_diameter")
+        if outside <= bearing:
+            raise InputError("must be larger than the bearing diameter", where=f"{where}.outside_diameter")
+
+    grip = sum(layer.thickness for layer in layers)
+    nut_height = None if tapped else geometry.get("nut_height", nut_dims.height)
+    length = geometry.get("length")
+    if "length" in s:
+        length = _length(s["length"], f"{where}.length")
+    if length is None:
+        if tapped:
+            clamped = grip - layers[-1].thickness
+            needed = clamped + min(layers[-1].thickness, thread.d)
+        else:
+            needed = grip + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
+        length = catalog.shortest_length(thread, needed, fastener.spec.head)
+        notes.append(f"bolt length {length:g} mm chosen: shortest standard length >= {needed:.1f} mm")
+    if engagement is None:
+        if tapped:
+            engagement = max(0.0, min(length - (grip - layers[-1].thickness), layers[-1].thickness))
+        else:
+            engagement = nut_height
+
+    friction = _friction_table(s, where)
+    preload = _preload_spec(s, where, friction)
+    assembly_t, service_t = _temperatures(s, where)
+    fatigue = FatigueSpec(
+        criterion=criterion,
+        reliability=_number(s["reliability"], f"{where}.reliability", 0.0, 1.0, open_interval=True),
+        surface=_choice(s["surface"], SURFACES, f"{where}.surface"),
+        temperature=service_t,
+        endurance=_choice(s["endurance"], ENDURANCE_MODES, f"{where}.endurance"),
+        Se=parse_quantity(s["Se"], "stress", where=f"{where}.Se") if "Se" in s else None,
+    )
+    if fatigue.Se is not None and fatigue.Se <= 0:
+        raise InputError("must be greater than zero", where=f"{where}.Se")
+    vdi = None
+    if method == "vdi" or stiffness == "vdi":
+        vdi = VdiSpec(
+            friction_thread=friction.get("thread", VdiSpec.friction_thread),
+            friction_head=friction.get("head", VdiSpec.friction_head),
+            friction_interface=friction.get("interface", VdiSpec.friction_interface),
+            scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
+            clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
+            roughness=_choice(s.get("roughness", "medium"), ROUGHNESS, f"{where}.roughness"),
+            load_introduction=_number(s.get("load_introduction", 0.5), f"{where}.load_introduction", 0.0, 1.0),
+            temperature_assembly=assembly_t, temperature_service=service_t,
+        )
+    lo, hi, shear = load
+    return JointSpec(
+        id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
+        bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
+        outside_diameter=outside, member_stiffness=stiffness, cone_angle=cone_angle,
+        preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
+        engagement=engagement, nut_height=nut_height, required=_required(s, where), notes=tuple(notes),
+    )
+
+
+def _typed_layers(joint: dict[str, Any], where: str, tapped: bool) -> list[LayerSpec]:
+    layers_raw = joint.get("layers")
+    if not isinstance(layers_raw, list) or not layers_raw:
+        raise InputError("needs 'layers', a list of { material, thickness }", where=f"{where}.layers")
+    layers = []
+    for i, layer in enumerate(layers_raw):
+        lw = f"{where}.layers[{i}]"
+        _check_keys(layer, LAYER_KEYS, lw)
+        if "thickness" not in layer:
+            raise InputError("needs 'thickness'", where=lw)
+        if "material" not in layer:
+            raise InputError("needs 'material'", where=lw)
+        role = _choice(layer.get("role", "member"), LAYER_ROLES, f"{lw}.role")
+        if tapped and i == len(layers_raw) - 1:
+            role = "tapped"
+        elif role == "tapped":
+            raise InputError("only the last layer of a tapped joint can be 'tapped'", where=f"{lw}.role")
+        layers.append(LayerSpec(thickness=_length(layer["thickness"], f"{lw}.thickness"), role=role,
+                                part=layer.get("part"),
+                                **material_layer_fields(layer["material"], f"{lw}.material")))
+    if tapped and len(layers) < 2:
+        raise InputError("a tapped joint needs at least one clamped layer above the tapped part", where=f"{where}.layers")
+    return layers
+
+
+def joint_load(job: Job, joint_id: str, own: Any, where: str) -> tuple[float, float, float]:
+    """(min, max, shear) for a joint: [[load]] rules in order, then the joint's own `load`."""
+    lo = hi = shear = 0.0
+    for rule in job.loads:
+        if fnmatch.fnmatchcase(joint_id, rule.joints):
+            if rule.axial_max is not None:
+                lo, hi = rule.axial_min, rule.axial_max
+            if rule.shear is not None:
+                shear = rule.shear
+    if own is not None:
+        table = _check_keys(own, JOINT_LOAD_KEYS, f"{where}.load")
+        if "max" in table:
+            lo, hi = _min_max({k: v for k, v in table.items() if k in MINMAX_KEYS}, f"{where}.load")
+        if "shear" in table:
+            shear = _force(table["shear"], f"{where}.load.shear")
+    if lo < 0 or hi < 0:
+        raise InputError("compressive external loads are not supported; give tension as positive",
+                         where=f"{where}.load")
+    if shear < 0:
+        raise InputError("shear is a magnitude and must not be negative", where=f"{where}.load.shear")
+    return lo, hi, shear
+
+
+def joint_spec(job: Job, joint: dict[str, Any]) -> JointSpec:
+    """A typed-in [[joint]] table → JointSpec."""
+    jid = joint["id"]
+    index = job.joints.index(joint) if joint in job.joints else 0
+    where = f"{job.path.name}: joint[{index}] ({jid})"
+    tapped = _bool(joint.get("tapped", False), f"{where}.tapped")
+    layers = _typed_layers(joint, where, tapped)
+    engagement = _length(joint["engagement"], f"{where}.engagement") if "engagement" in joint else None
+    settings = settings_for(job, jid, joint)
+    return build_spec(job, jid, settings, layers, tapped=tapped,
+                      load=joint_load(job, jid, joint.get("load"), where), where=where,
+                      engagement=engagement)
+
+
+def typed_joint_specs(job: Job) -> list[JointSpec]:
+    return [joint_spec(job, joint) for joint in job.joints]

@@ -1,0 +1,106 @@
+"""The command-line contract of DESIGN.md: exit codes, --json on stdout only, outputs in a new folder."""
+import hashlib
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import jsonschema
+import pytest
+
+from conftest import load_schema
+from geomjoint.cli import main
+
+SAMPLES = Path(__file__).resolve().parents[1] / "samples"
+
+PASSING = """
+[defaults]
+fastener = "M12"
+grade = "10.9"
+preload = "75%"
+
+[[joint]]
+id = "P1"
+layers = [ { material = "steel", thickness = "20 mm" }, { material = "steel", thickness = "20 mm" } ]
+load = { min = "0 kN", max = "5 kN" }
+"""
+
+
+def result_schema():
+    return load_schema("result.schema.json")
+
+
+def digest(path: Path) -> str:
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def test_check_passing_job_exit_0(tmp_path, capsys):
+    job = tmp_path / "pass.toml"
+    job.write_text(PASSING)
+    before = digest(job)
+    code = main(["check", str(job), "--json", "--out", str(tmp_path / "out")])
+    out = capsys.readouterr().out
+    doc = json.loads(out)                      # stdout holds the JSON document and nothing else
+    jsonschema.validate(doc, result_schema())
+    assert code == 0, doc
+    assert doc["summary"] == {**doc["summary"], "joints": 1, "failed": 0}
+    assert json.loads((tmp_path / "out" / "results.json").read_text()) == doc
+    assert digest(job) == before               # the input is never modified
+
+
+def test_check_failing_joint_exit_1(tmp_path, capsys):
+    job = tmp_path / "fail.toml"
+    job.write_text(PASSING.replace('max = "5 kN"', 'max = "80 kN"'))
+    code = main(["check", str(job), "--out", str(tmp_path / "o")])
+    assert code == 1
+    assert "fail" in capsys.readouterr().out.lower()
+
+
+def test_default_output_folder_is_new_and_beside_job(tmp_path, capsys):
+    job = tmp_path / "pass.toml"
+    job.write_text(PASSING)
+    assert main(["check", str(job)]) == 0
+    assert main(["check", str(job)]) == 0
+    folders = sorted(p for p in tmp_path.iterdir() if p.is_dir())
+    assert len(folders) == 2 and all((f / "results.json").exists() for f in folders)
+
+
+def test_bad_input_exit_2_one_line(tmp_path, capsys):
+    job = tmp_path / "bad.toml"
+    job.write_text(PASSING.replace('grade = "10.9"', 'grade = "11.9"'))
+    assert main(["check", str(job)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "bad.toml" in err and "grade" in err
+    assert "Traceback" not in err
+
+
+def test_internal_error_exit_3(tmp_path, capsys, monkeypatch):
+    import geomjoint.analysis as analysis
+
+    def boom(job):
+        raise ZeroDivisionError("simulated")
+
+    monkeypatch.setattr(analysis, "analyze", boom)
+    job = tmp_path / "pass.toml"
+    job.write_text(PASSING)
+    assert main(["check", str(job)]) == 3
+    err = capsys.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "internal error" in err
+
+
+def test_sample_job_every_criterion_and_system(tmp_path, capsys):
+    code = main(["check", str(SAMPLES / "conveyor_drive.toml"), "--json", "--out", str(tmp_path)])
+    doc = json.loads(capsys.readouterr().out)
+    jsonschema.validate(doc, result_schema())
+    assert code in (0, 1)
+    assert {j["id"] for j in doc["joints"]} == {"motor-foot", "bearing-block", "take-up-bracket", "guard-hinge"}
+
+
+def test_module_entry_point_version():
+    run = subprocess.run([sys.executable, "-m", "geomjoint", "--version"], capture_output=True, text=True)
+    assert run.returncode == 0 and run.stdout.startswith("geomjoint ")
+
+
+def test_console_script_help_has_example():
+    run = subprocess.run([sys.executable, "-m", "geomjoint", "check", "--help"], capture_output=True, text=True)
+    assert run.returncode == 0 and "example:" in run.stdout
