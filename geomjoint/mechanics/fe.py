@@ -94,7 +94,7 @@ def lame_parameters(E, nu):
 
 def axisymmetric_strain(w, r):
     """(eps_rr, eps_zz, eps_tt, gamma_rz) of a displacement field w = (u_r, u_z) at radius r."""
-    return (w.grad[0][0], w.grad[1][1], w.value[0] / r, w.grad[0][1] + w.grad[1][0])
+    return (w.grad[0][0], w.grad[1][1], w[0] / r, w.grad[0][1] + w.grad[1][0])
 
 
 @BilinearForm
@@ -113,7 +113,7 @@ def axisymmetric_elasticity(u, v, w):
 @LinearForm
 def surface_traction(v, w):
     """l(v) = integral of (t_r v_r + t_z v_z) 2 pi r ds over the loaded facets."""
-    return 2.0 * np.pi * w.x[0] * (w.t_r * v.value[0] + w.t_z * v.value[1])
+    return 2.0 * np.pi * w.x[0] * (w.t_r * v[0] + w.t_z * v[1])
 
 
 # --------------------------------------------------------------------------- model
@@ -356,13 +356,16 @@ def _interface_pairs(model: AxisymmetricModel, sm: StackMesh):
 
 
 def solve_member_stack(g: _Geometry, r_out: float, level: int = 0,
-                       contact_guess: Sequence[float] | None = None) -> StackSolution:
+                       contact_guess: Sequence[float] | None = None,
+                       z_grids: Sequence[np.ndarray] | None = None) -> StackSolution:
     """Solve the stack for unit load at one outer radius and mesh level (see the module text).
 
     ``contact_guess``: contact diameters per interface from an earlier solve, used as the
     starting active set (the iteration then only corrects it); None starts bonded.
+    ``z_grids``: node heights per layer (from its bottom face) replacing the automatic ones.
     """
-    r_grid, z_grids = _grids(g, r_out, level)
+    r_grid, auto_z = _grids(g, r_out, level)
+    z_grids = auto_z if z_grids is None else z_grids
     inner = [g.r_h] * len(g.layers)
     if g.tapped:
         inner[-1] = g.r_t
@@ -508,8 +511,8 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     r_min = max(g.r_w, g.r_w2, g.r_t)
     if outer_diameter is not None:
         r_out = _check("outer_diameter", outer_diameter) / 2
-        if r_out <= r_min * (1 + 1e-9):
-            raise InputError("FE member stiffness: outer_diameter must exceed the bearing diameters")
+        if r_out < r_min * (1 - 1e-9):
+            raise InputError("FE member stiffness: outer_diameter must not be smaller than the bearing diameters")
         sol = solve_member_stack(g, r_out, 0)
     else:
         # start beyond the 30 deg cone's reach at mid-grip, then double
