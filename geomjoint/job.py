@@ -510,12 +510,6 @@ def build_spec(
             needed = grip + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
         length = catalog.shortest_length(thread, needed, fastener.spec.head)
         notes.append(f"bolt length {length:g} mm chosen: shortest standard length >= {needed:.1f} mm")
-    if engagement is None:
-        if tapped:
-            engagement = max(0.0, min(length - (grip - layers[-1].thickness), layers[-1].thickness))
-        else:
-            engagement = nut_height
-
     friction = _friction_table(s, where)
     preload = _preload_spec(s, where, friction)
     assembly_t, service_t = _temperatures(s, where)
@@ -529,23 +523,21 @@ def build_spec(
     )
     if fatigue.Se is not None and fatigue.Se <= 0:
         raise InputError("must be greater than zero", where=f"{where}.Se")
-    vdi = None
-    if method == "vdi" or stiffness == "vdi":
-        vdi = VdiSpec(
-            friction_thread=friction.get("thread", VdiSpec.friction_thread),
-            friction_head=friction.get("head", VdiSpec.friction_head),
-            friction_interface=friction.get("interface", VdiSpec.friction_interface),
-            scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
-            clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
-            roughness=_choice(s.get("roughness", "medium"), ROUGHNESS, f"{where}.roughness"),
-            load_introduction=_number(s.get("load_introduction", 0.5), f"{where}.load_introduction", 0.0, 1.0),
-            temperature_assembly=assembly_t, temperature_service=service_t,
-        )
+    vdi = VdiSpec(
+        friction_thread=friction.get("thread", VdiSpec.friction_thread),
+        friction_head=friction.get("head", VdiSpec.friction_head),
+        friction_interface=friction.get("interface", VdiSpec.friction_interface),
+        scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
+        clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
+        roughness=_choice(s.get("roughness", "medium"), ROUGHNESS, f"{where}.roughness"),
+        load_introduction=_number(s.get("load_introduction", 0.5), f"{where}.load_introduction", 0.0, 1.0),
+        temperature_assembly=assembly_t, temperature_service=service_t,
+    )
     lo, hi, shear = load
     return JointSpec(
         id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
         bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
-        outside_diameter=outside, member_stiffness=stiffness, cone_angle=cone_angle,
+        outside_diameter=outside, method=method, member_stiffness=stiffness, cone_angle=cone_angle,
         preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
         engagement=engagement, nut_height=nut_height, required=_required(s, where), notes=tuple(notes),
     )

@@ -114,6 +114,7 @@ class JointSpec:
     far_bearing_diameter: float | None = None  # nut side; None: same as head side
     tapped: bool = False            # True: the last layer is the threaded one
     outside_diameter: float | None = None  # D_A' bounding the members, mm
+    method: str = "textbook"        # "textbook" (Shigley ch. 8) | "vdi" (VDI 2230-1 chain)
     member_stiffness: str = "frustum"
     cone_angle: float = 30.0        # deg
     members_value: float | None = None  # k_m computed outside (cone / FE), N/mm
