@@ -104,7 +104,8 @@ def test_sample_job_loads():
 
     job = load_job(Path(__file__).parents[1] / "samples" / "conveyor_drive.toml")
     specs = typed_joint_specs(job)
-    assert [s.id for s in specs] == ["motor-foot", "bearing-block", "take-up-bracket", "guard-hinge"]
+    assert [s.id for s in specs] == ["motor-foot", "bearing-block", "take-up-bracket", "guard-hinge", "gearbox-flange"]
+    assert specs[4].method == "vdi" and specs[4].member_stiffness == "vdi"
     inch = specs[2]
     assert inch.fastener.system == "inch"
     assert inch.layers[0].thickness == pytest.approx(9.525)   # 0.375 in

@@ -97,6 +97,9 @@ def material_hint(*names: str | None) -> str | None:
 
 
 def _label_name(label: TDF_Label) -> str | None:
+    # check first: FindAttribute on a label without the attribute crashes the binding
+    if label.IsNull() or not label.IsAttribute(TDataStd_Name.GetID_s()):
+        return None
     attr = TDataStd_Name()
     if label.FindAttribute(TDataStd_Name.GetID_s(), attr):
         text = attr.Get().ToExtString().strip()
@@ -156,7 +159,9 @@ class _Collector:
                 ref = TDF_Label()
                 if not XCAFDoc_ShapeTool.GetReferredShape_s(comp, ref):
                     ref = comp
-                cname = _label_name(comp) or _label_name(ref) or name
+                cname = _label_name(comp)
+                if not cname or cname.isdigit():      # some writers name instances by number
+                    cname = _label_name(ref) or name
                 ccol = _label_colour(comp, ref) or colour
                 self._walk(ref, loc.Multiplied(XCAFDoc_ShapeTool.GetLocation_s(comp)), cname, ccol)
             return

@@ -99,9 +99,9 @@ def axisymmetric_strain(w, r):
 
 @BilinearForm
 def axisymmetric_elasticity(u, v, w):
-    """a(u, v) = integral of sigma(u) : eps(v) 2 pi r dr dz (isotropic, per-element E and nu)."""
+    """a(u, v) = integral of sigma(u) : eps(v) 2 pi r dr dz, isotropic with Lamé's lam and mu per element."""
     r = w.x[0]
-    lam, mu = lame_parameters(w.E, w.nu)
+    lam, mu = w.lam, w.mu
     err, ezz, ett, grz = axisymmetric_strain(u, r)
     vrr, vzz, vtt, vrz = axisymmetric_strain(v, r)
     work = (lam * (err + ezz + ett) * (vrr + vzz + vtt)
@@ -131,8 +131,9 @@ class AxisymmetricModel:
         b0 = self.basis.with_element(ElementQuad0())
         E_el = np.broadcast_to(np.asarray(E, float), (nel,))
         nu_el = np.broadcast_to(np.asarray(nu, float), (nel,))
+        lam, mu = lame_parameters(E_el, nu_el)
         self.K = asm(axisymmetric_elasticity, self.basis,
-                     E=b0.interpolate(E_el), nu=b0.interpolate(nu_el)).tocsr()
+                     lam=b0.interpolate(lam), mu=b0.interpolate(mu)).tocsr()
         self.N = self.basis.N
         comp = np.zeros(self.N, dtype=int)
         for dofs in (self.basis.nodal_dofs, self.basis.facet_dofs, self.basis.interior_dofs):
