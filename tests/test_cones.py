@@ -1,0 +1,331 @@
+"""Clipped pressure cones against closed forms and independent numerical integration.
+
+Parts are built with cadquery in the tests.  The head bearing face of every joint lies
+on the top face of the upper plate, the axis points down (−z), so height z along the
+axis is (z_top − global z).
+"""
+from __future__ import annotations
+
+import math
+
+import cadquery as cq
+import pytest
+from scipy import integrate
+from shapely.geometry import Point, box as shapely_box
+from shapely.ops import unary_union
+
+from OCP.BRepGProp import BRepGProp
+from OCP.GProp import GProp_GProps
+
+from geomjoint.geometry.cones import (
+    ConeJoint,
+    ConeLayer,
+    clipped_cone_stiffness,
+    cone_area,
+    cone_solids,
+    disc_polygon_area,
+)
+
+ALPHA = math.radians(30.0)   # Shigley 10th ed. §8-5, recommended cone half-angle
+TAN = math.tan(ALPHA)
+E_STEEL = 207_000.0          # MPa, Shigley 10th ed. Table 8-8 (steel 207 GPa)
+E_ALU = 71_000.0             # MPa, Shigley 10th ed. Table 8-8 (aluminium 71 GPa)
+E_IRON = 100_000.0           # MPa, Shigley 10th ed. Table 8-8 (gray cast iron 100 GPa)
+HOLE = 13.0                  # mm, hole = "d" of eq. (8-20) generalised
+DW = 18.0                    # mm, bearing diameter (1.5·d for d = 12, Shigley §8-5)
+
+
+def slab(x0, x1, y0, y1, z0, z1, holes=(), hole=HOLE):
+    """A box with vertical through holes at (x, y)."""
+    solid = cq.Solid.makeBox(x1 - x0, y1 - y0, z1 - z0, pnt=cq.Vector(x0, y0, z0))
+    for x, y in holes:
+        cyl = cq.Solid.makeCylinder(hole / 2, z1 - z0 + 2, pnt=cq.Vector(x, y, z0 - 1))
+        solid = solid.cut(cyl)
+    return solid
+
+
+def volume(shape) -> float:
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(shape, props)
+    return props.Mass()
+
+
+def joint_on(plates, at=(0.0, 0.0), z_top=None, dw=DW, dfar=DW, jid="J", tapped=False, lprime=None):
+    """A joint through `plates` = [(solid, thickness, E, name)], top to bottom."""
+    z_top = z_top if z_top is not None else sum(p[1] for p in plates)
+    layers, z = [], 0.0
+    for solid, t, E, name in plates:
+        layers.append(ConeLayer(solid.wrapped, z, z + t, E, name, HOLE))
+        z += t
+    return ConeJoint(jid, (at[0], at[1], z_top), (0.0, 0.0, -1.0), layers, dw, dfar,
+                     tapped=tapped, effective_grip=lprime)
+
+
+# ---------------------------------------------------------------- independent closed form
+
+def eq_8_20_k(E, d, D, t):
+    """Shigley 10th ed. eq. (8-20): frustum of thickness t, small-end diameter D, hole d."""
+    return math.pi * E * d * TAN / math.log(
+        (2 * t * TAN + D - d) * (D + d) / ((2 * t * TAN + D + d) * (D - d)))
+
+
+def closed_form_compliance(layers, dw, dfar, L, d=HOLE):
+    """Σ over the frustum pieces of each layer (split at L/2) of 1/k from eq. (8-20)."""
+    delta = 0.0
+    for z0, z1, E in layers:
+        z0, z1 = max(z0, 0.0), min(z1, L)
+        # head cone on [0, L/2]: diameter dw + 2 z tanα
+        a, b = z0, min(z1, L / 2)
+        if b > a:
+            delta += 1.0 / eq_8_20_k(E, d, dw + 2 * a * TAN, b - a)
+        # far cone on [L/2, L]: diameter dfar + 2 (L − z) tanα, small end at the larger z
+        a, b = max(z0, L / 2), z1
+        if b > a:
+            delta += 1.0 / eq_8_20_k(E, d, dfar + 2 * (L - b) * TAN, b - a)
+    return delta
+
+
+def test_disc_polygon_area_identities():
+    import numpy as np
+    sq = [(-1, -1), (1, -1), (1, 1), (-1, 1), (-1, -1)]
+    a = np.array(sq[:-1], float)
+    b = np.array(sq[1:], float)
+    # circle inscribed in the square: π r² (mathematics)
+    assert disc_polygon_area(a, b, 1.0)[0] == pytest.approx(math.pi, rel=1e-14)
+    # circumscribed circle covers the square: area 4 (mathematics)
+    assert disc_polygon_area(a, b, math.sqrt(2.0))[0] == pytest.approx(4.0, rel=1e-14)
+    # in between: compare with a fine shapely disc (polygon error ~1e-8 at 2**14 segments)
+    r = 1.2
+    ref = Point(0, 0).buffer(r, quad_segs=2 ** 14).intersection(shapely_box(-1, -1, 1, 1)).area
+    assert disc_polygon_area(a, b, r)[0] == pytest.approx(ref, rel=1e-7)
+
+
+def test_unclipped_cone_equals_closed_form_frustum_three_layers():
+    # plates far wider than the cone (cone radius ≤ 9 + 20·tan30° ≈ 20.5 mm)
+    t = (10.0, 8.0, 22.0)
+    plates = []
+    z = sum(t)
+    for ti, E, name in zip(t, (E_STEEL, E_ALU, E_IRON), ("cover", "spacer", "housing")):
+        plates.append((slab(-150, 150, -150, 150, z - ti, z, holes=[(0, 0)]), ti, E, name))
+        z -= ti
+    joint = joint_on(plates, dw=DW, dfar=20.0)
+    res = clipped_cone_stiffness(joint)
+    L = sum(t)
+    layers = [(0, 10, E_STEEL), (10, 18, E_ALU), (18, 40, E_IRON)]
+    expected = 1.0 / closed_form_compliance(layers, DW, 20.0, L)
+    # Shigley 10th ed. eq. (8-20), generalised to pieces: exact integral of dx/(E π (r² − r_h²))
+    assert res.stiffness == pytest.approx(expected, rel=1e-6)
+    assert res.ideal_stiffness == pytest.approx(expected, rel=1e-9)
+    assert res.area_fraction_mid_grip == pytest.approx(1.0, abs=1e-9)
+    assert res.lost_to_edges == pytest.approx(0.0, abs=1e-9)
+    # splitting into layers: per-layer compliances sum to the total (identity)
+    assert sum(c for _, c in res.per_layer) == pytest.approx(1.0 / res.stiffness, rel=1e-12)
+    assert all(prismatic for *_, prismatic in res.prismatic)
+
+
+def test_unclipped_tapped_joint_uses_effective_grip():
+    # cover 10 mm over a tapped housing; l' = h + d/2 for t2 ≥ d (Shigley 10th ed. Table 8-7)
+    h, d = 10.0, 12.0
+    lprime = h + d / 2
+    cover = slab(-100, 100, -100, 100, 30.0, 40.0, holes=[(0, 0)])
+    housing = slab(-100, 100, -100, 100, 0.0, 30.0, holes=[(0, 0)])
+    joint = joint_on([(cover, 10.0, E_STEEL, "cover"), (housing, 30.0, E_IRON, "housing")],
+                     tapped=True, lprime=lprime)
+    res = clipped_cone_stiffness(joint)
+    layers = [(0, 10, E_STEEL), (10, 40, E_IRON)]
+    expected = 1.0 / closed_form_compliance(layers, DW, DW, lprime)
+    # Shigley 10th ed. eq. (8-20) with the cones meeting at l'/2
+    assert res.stiffness == pytest.approx(expected, rel=1e-6)
+    assert res.z_mid == pytest.approx(lprime / 2)
+
+
+# ---------------------------------------------------------------- clipped by plate edges
+
+def segment_area(r, e):
+    """Area of the circular segment of a circle of radius r beyond a chord at distance e."""
+    if e >= r:
+        return 0.0
+    return r * r * math.acos(e / r) - e * math.sqrt(r * r - e * e)
+
+
+def test_narrow_plate_matches_independent_integration_of_strip_area():
+    # both plates span x ∈ [−14, 11]: edges 14 and 11 mm from the axis, cone radius up to 14.8
+    e1, e2, t = 11.0, 14.0, 10.0
+    top = slab(-e2, e1, -120, 120, t, 2 * t, holes=[(0, 0)])
+    bot = slab(-e2, e1, -120, 120, 0.0, t, holes=[(0, 0)])
+    joint = joint_on([(top, t, E_STEEL, "top"), (bot, t, E_STEEL, "bottom")])
+    res = clipped_cone_stiffness(joint)
+
+    L, rh = 2 * t, HOLE / 2
+
+    def r_of(z):
+        return DW / 2 + min(z, L - z) * TAN
+
+    def area(z):  # exact: disc minus two segments minus the hole (mathematics)
+        r = r_of(z)
+        return math.pi * r * r - segment_area(r, e1) - segment_area(r, e2) - math.pi * rh * rh
+
+    z_hits = sorted({(e - DW / 2) / TAN for e in (e1, e2)} | {L - (e - DW / 2) / TAN for e in (e1, e2)})
+    delta, _ = integrate.quad(lambda z: 1.0 / (E_STEEL * area(z)), 0.0, L,
+                              points=z_hits + [L / 2], epsabs=0.0, epsrel=1e-12, limit=200)
+    # independent numerical integration (scipy quad) of the exact circle–strip area
+    assert res.stiffness == pytest.approx(1.0 / delta, rel=1e-7)
+    assert res.stiffness < res.ideal_stiffness
+    # mid-grip: what the edges take, from the same exact area formula
+    r = r_of(L / 2)
+    ideal = math.pi * (r * r - rh * rh)
+    assert res.lost_to_edges == pytest.approx((segment_area(r, e1) + segment_area(r, e2)) / ideal, rel=1e-9)
+    assert res.lost_to_neighbours == pytest.approx(0.0, abs=1e-12)
+
+
+# ---------------------------------------------------------------- neighbouring bolts
+
+def _two_bolt_model(s):
+    holes = [(0.0, 0.0), (s, 0.0)]
+    top = slab(-120, 120 + s, -120, 120, 10.0, 20.0, holes=holes)
+    bot = slab(-120, 120 + s, -120, 120, 0.0, 10.0, holes=holes)
+    plates = [(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")]
+    return joint_on(plates, at=holes[0], jid="A"), joint_on(plates, at=holes[1], jid="B")
+
+
+def test_two_close_bolts_each_lose_stiffness_and_shares_stay_physical():
+    s = 24.0  # pitch below the mid-grip cone diameter 2·(9 + 10·tan30°) ≈ 29.5 mm
+    a, b = _two_bolt_model(s)
+    alone = clipped_cone_stiffness(a)
+    ra = clipped_cone_stiffness(a, neighbours=[a, b])
+    rb = clipped_cone_stiffness(b, neighbours=[a, b])
+    assert ra.stiffness < alone.stiffness
+    assert rb.stiffness < alone.stiffness
+    assert ra.stiffness == pytest.approx(rb.stiffness, rel=1e-9)  # mirror symmetry
+    assert ra.lost_to_neighbours > 0.0
+
+    # the two shares at mid-grip never exceed the union of the two discs in the plate;
+    # with equal radii the bisector splits the union exactly (mathematics)
+    r = DW / 2 + 10.0 * TAN
+    discs = unary_union([Point(0, 0).buffer(r, quad_segs=2 ** 13), Point(s, 0).buffer(r, quad_segs=2 ** 13)])
+    union = discs.area - 2 * math.pi * (HOLE / 2) ** 2
+    assert ra.area_mid_grip + rb.area_mid_grip <= union * (1 + 1e-7)
+    assert ra.area_mid_grip + rb.area_mid_grip == pytest.approx(union, rel=1e-6)
+
+    # independent integration: disc cut by the bisector x = s/2 (exact segment formula)
+    rh = HOLE / 2
+
+    def area(z):
+        rz = DW / 2 + min(z, 20.0 - z) * TAN
+        return math.pi * rz * rz - segment_area(rz, s / 2) - math.pi * rh * rh
+
+    zh = (s / 2 - DW / 2) / TAN
+    delta, _ = integrate.quad(lambda z: 1.0 / (E_STEEL * area(z)), 0, 20.0,
+                              points=[zh, 10.0, 20.0 - zh], epsabs=0.0, epsrel=1e-12, limit=200)
+    assert ra.stiffness == pytest.approx(1.0 / delta, rel=1e-7)
+
+
+def test_distant_neighbour_changes_nothing():
+    a, b = _two_bolt_model(60.0)  # pitch beyond twice the largest cone radius
+    assert clipped_cone_stiffness(a, [b]).stiffness == pytest.approx(
+        clipped_cone_stiffness(a).stiffness, rel=1e-12)
+
+
+# ---------------------------------------------------------------- pockets, chamfers
+
+def test_pocket_under_the_head_lowers_stiffness_by_the_pocket_area():
+    # a 4 mm deep pocket x ∈ [11, 30], |y| ≤ 10 milled into the top face beside the head
+    depth = 4.0
+    plain = slab(-100, 100, -100, 100, 10.0, 20.0, holes=[(0, 0)])
+    pocket = cq.Solid.makeBox(19.0, 20.0, depth + 1, pnt=cq.Vector(11.0, -10.0, 20.0 - depth))
+    pocketed = plain.cut(pocket)
+    bot = slab(-100, 100, -100, 100, 0.0, 10.0, holes=[(0, 0)])
+    j_plain = joint_on([(plain, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")])
+    j_pocket = joint_on([(pocketed, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")])
+    k_plain = clipped_cone_stiffness(j_plain).stiffness
+    res = clipped_cone_stiffness(j_pocket)
+    assert res.stiffness < k_plain
+    # the layer was split at the pocket floor, both pieces sectioned once (prismatic)
+    cuts = [(a, b) for part, a, b, _ in res.prismatic if part == "top"]
+    assert any(abs(b - depth) < 1e-6 for a, b in cuts)
+
+    # independent: the pocket removes disc ∩ rectangle on z ∈ [0, depth]
+    rect = shapely_box(11.0, -10.0, 30.0, 10.0)
+    rh = HOLE / 2
+
+    def area(z):
+        r = DW / 2 + min(z, 20.0 - z) * TAN
+        lost = Point(0, 0).buffer(r, quad_segs=2 ** 12).intersection(rect).area if z < depth else 0.0
+        return math.pi * (r * r - rh * rh) - lost
+
+    zh = (11.0 - DW / 2) / TAN
+    delta, _ = integrate.quad(lambda z: 1.0 / (E_STEEL * area(z)), 0, 20.0,
+                              points=[zh, depth, 10.0], epsabs=0.0, epsrel=1e-10, limit=200)
+    assert res.stiffness == pytest.approx(1.0 / delta, rel=1e-6)
+
+
+def _chamfered_plate(e, c):
+    """Top plate (z 10..20) with its edge at x = e and a 45° chamfer of size c on the
+    bottom edge (the interface side, where the head cone is widest)."""
+    top = slab(-100, e, -100, 100, 10.0, 20.0, holes=[(0, 0)])
+    wp = cq.Workplane(obj=top).edges(cq.selectors.NearestToPointSelector((e, 0, 10.0))).chamfer(c)
+    return wp.val()
+
+
+def test_chamfer_is_sectioned_per_point_and_matches_exact_area():
+    e, c = 14.0, 4.0
+    top = _chamfered_plate(e, c)
+    square = slab(-100, e, -100, 100, 10.0, 20.0, holes=[(0, 0)])
+    bot = slab(-100, 100, -100, 100, 0.0, 10.0, holes=[(0, 0)])
+    joint = joint_on([(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")])
+    res = clipped_cone_stiffness(joint)
+    # the chamfer band z ∈ [6, 10] is not prismatic, the rest of the layer is
+    flags = [(a, b, prismatic) for part, a, b, prismatic in res.prismatic if part == "top"]
+    assert any(not p and a == pytest.approx(10.0 - c, abs=1e-5) for a, b, p in flags)
+    assert any(p for a, b, p in flags)
+
+    rh = HOLE / 2
+
+    def area(z):  # edge at x = e − (z − (10 − c)) in the chamfer band (mathematics)
+        r = DW / 2 + min(z, 20.0 - z) * TAN
+        if z >= 10.0:
+            return math.pi * (r * r - rh * rh)
+        edge = e - (z - (10.0 - c)) if z > 10.0 - c else e
+        return math.pi * (r * r - rh * rh) - segment_area(r, edge)
+
+    z_edge = (e - DW / 2) / TAN           # disc reaches the vertical edge
+    # disc meets the chamfer: 9 + z·tanα = e + 10 − c − z
+    z_ch = (e + 10.0 - c - DW / 2) / (1 + TAN)
+    delta, _ = integrate.quad(lambda z: 1.0 / (E_STEEL * area(z)), 0, 20.0,
+                              points=sorted([z_edge, z_ch, 10.0 - c, 10.0]),
+                              epsabs=0.0, epsrel=1e-11, limit=200)
+    # per-point sections with fixed Gauss rules: agreement to about 1e-5 expected
+    assert res.stiffness == pytest.approx(1.0 / delta, rel=1e-5)
+    k_square = clipped_cone_stiffness(
+        joint_on([(square, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")])).stiffness
+    assert res.stiffness < k_square * (1 - 1e-3)
+
+
+# ---------------------------------------------------------------- B-rep cone volumes
+
+def test_cone_solid_volumes_equal_integral_of_area():
+    s = 24.0
+    holes = [(0.0, 0.0), (s, 0.0)]
+    top = slab(-14, 100, -100, 100, 10.0, 20.0, holes=holes)
+    top = top.cut(cq.Solid.makeBox(10.0, 30.0, 4.0, pnt=cq.Vector(-5.0, 10.0, 16.0)))  # a pocket
+    bot = slab(-14, 100, -100, 100, 0.0, 10.0, holes=holes)
+    plates = [(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_ALU, "bottom")]
+    a = joint_on(plates, at=holes[0], jid="A")
+    b = joint_on(plates, at=holes[1], jid="B")
+    solids = cone_solids(a, [b])
+    assert [name for name, _ in solids] == ["A:top:head", "A:bottom:far"]
+    # heights where A(z) has a kink: disc meets the pocket (r = 10), its corners
+    # (r = √(5² + 10²)), the pocket floor, the bisector x = 12, the plate edge x = −14
+    kinks = sorted({(10.0 - DW / 2) / TAN, (math.hypot(5.0, 10.0) - DW / 2) / TAN, 4.0,
+                    (s / 2 - DW / 2) / TAN, (14.0 - DW / 2) / TAN,
+                    20.0 - (s / 2 - DW / 2) / TAN, 20.0 - (14.0 - DW / 2) / TAN})
+    for (name, shape), (z0, z1) in zip(solids, [(0.0, 10.0), (10.0, 20.0)]):
+        edges = [z0, *[k for k in kinks if z0 < k < z1], z1]
+        v_int = sum(integrate.fixed_quad(lambda zs: [cone_area(a, z, [b]) for z in zs], lo, hi, n=6)[0]
+                    for lo, hi in zip(edges[:-1], edges[1:]))
+        # B-rep volume (OCC mass properties) vs ∫ A(z) dz of true plane sections (Gauss)
+        assert volume(shape) == pytest.approx(v_int, rel=1e-3), name
+    # and the stiffness samples use the same areas: cone_area at a sample height agrees
+    res = clipped_cone_stiffness(a, [b])
+    z, A, E = res.samples[len(res.samples) // 3]
+    assert cone_area(a, z, [b]) == pytest.approx(A, rel=1e-4)
