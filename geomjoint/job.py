@@ -457,10 +457,11 @@ def build_spec(
     notes = list(notes)
 
     method = _choice(s["method"], METHODS, f"{where}.method")
-    stiffness = s.get("member_stiffness", "vdi" if method == "vdi" else "frustum")
-    if method == "vdi" and "member_stiffness" not in job.defaults and "member_stiffness" not in s:
+    stiffness = _choice(s.get("member_stiffness", "frustum"), STIFFNESS_METHODS, f"{where}.member_stiffness")
+    if method == "vdi" and stiffness != "vdi":
+        # the VDI 2230-1 chain is built on its own substitute deformation body
+        notes.append(f"method vdi: member stiffness by the VDI substitute deformation body, not {stiffness}")
         stiffness = "vdi"
-    stiffness = _choice(stiffness, STIFFNESS_METHODS, f"{where}.member_stiffness")
     criterion = s["criterion"]
     criterion = _choice(criterion, CRITERIA, f"{where}.criterion")
     cone_angle = parse_quantity(s["cone_angle"], "angle", where=f"{where}.cone_angle")
