@@ -3,6 +3,7 @@ import doctest
 import math
 
 import pytest
+from hypothesis import given, settings, strategies as st
 from scipy.integrate import quad
 
 from geomjoint.errors import InputError
@@ -141,3 +142,16 @@ def test_wileman_layered_uniform_and_mixed():
     mixed = wileman_layered_stiffness([steel, al], d)
     assert wileman_stiffness(71000.0, d, 20.0, *WILEMAN_CONSTANTS["aluminium"]) < mixed
     assert mixed < wileman_stiffness(207000.0, d, 20.0, *WILEMAN_CONSTANTS["steel"])
+
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.lists(st.tuples(st.floats(0.5, 40.0), st.sampled_from([71000.0, 100000.0, 207000.0])),
+                min_size=1, max_size=4),
+       st.integers(2, 5), st.floats(0.0, 8.0))
+def test_slicing_invariance_property(stack, n, extra_far):
+    # identity for any stack: slicing every layer into n equal parts leaves k_m unchanged
+    sliced = [(t / n, E) for t, E in stack for _ in range(n)]
+    a = frustum_stiffness(stack, 18.0, 18.0 + extra_far, 13.0, 30.0)
+    b = frustum_stiffness(sliced, 18.0, 18.0 + extra_far, 13.0, 30.0)
+    assert a == pytest.approx(b, rel=1e-10)

@@ -134,6 +134,8 @@ def member_side(spec: JointSpec, grip: float) -> tuple[float, str, list[str]]:
         return float(spec.members_value), method, []
     layers = _layers_over(spec, grip)
     notes = []
+    if spec.outside_diameter is not None:
+        notes.append(f"outside diameter not used by the {method} member model (unbounded cones)")
     if method == "frustum":
         far = spec.bearing_diameter if spec.tapped else spec.far_bearing_diameter
         k_m = M.frustum_stiffness(layers, spec.bearing_diameter, far, spec.hole_diameter,
@@ -160,7 +162,13 @@ def _turned_bearing(spec: JointSpec) -> float:
 
 
 def service_preload(spec: JointSpec) -> tuple[float, dict[str, float] | None, list[str]]:
-    """Preload F_i (N), the tightening numbers (torque N*mm, preload_min/max N), notes."""
+    """Preload F_i (N), the tightening numbers (torque N*mm, preload_min/max N), notes.
+
+    Torque <-> preload: the nut factor when ``nut_factor`` is given (T = K F d, eq. 8-27);
+    else the thread/head friction formula when both coefficients are given; else
+    K = :data:`DEFAULT_NUT_FACTOR`.  The preload is the mean of the scatter band
+    (:func:`geomjoint.mechanics.preload.preload_scatter`).
+    """
     p, f = spec.preload, spec.fastener
     notes: list[str] = []
     friction = p.friction_thread is not None and p.friction_head is not None
