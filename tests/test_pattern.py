@@ -124,3 +124,13 @@ def test_bad_groups(positions):
 def test_moment_without_point_is_an_error():
     with pytest.raises(InputError, match="load.point"):
         BoltPattern(SQUARE).share(force=(0, 0, 100.0), moment=(10.0, 0.0, 0.0))
+
+
+def test_share_range_orders_min_and_max_per_bolt():
+    # own example: a moment that reverses sign between the two cases swaps the bolts' roles
+    p = BoltPattern([(0.0, 0.0), (100.0, 0.0)])
+    rows = p.share_range(force_min=(0, 0, 0.0), force_max=(0, 0, 2000.0),
+                         moment_min=(0.0, 5000.0, 0.0), moment_max=(0.0, -5000.0, 0.0), point=(50.0, 0.0, 0.0))
+    # case min: axial = (+50, -50); case max: 1000 + (-50, +50)
+    assert rows[0][:2] == pytest.approx((50.0, 950.0))
+    assert rows[1][:2] == pytest.approx((-50.0, 1050.0))

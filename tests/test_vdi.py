@@ -163,6 +163,20 @@ def test_layered_body_two_moduli_against_quadrature():
     assert got == pytest.approx(ref, rel=1e-9)
 
 
+def test_layered_body_unequal_bearing_diameters_against_quadrature():
+    # independent quadrature: head cone from 16 mm, nut cone from 22 mm, meeting where equal
+    d_W, d_far, d_h, t, l_K = 16.0, 22.0, 11.0, 0.5, 30.0
+
+    def integrand(z):
+        D = min(d_W + 2 * t * z, d_far + 2 * t * (l_K - z))
+        return 1.0 / (E_STEEL * math.pi / 4.0 * (D**2 - d_h**2))
+
+    z_meet = 0.5 * (l_K + (d_far - d_W) / (2 * t))
+    ref, _ = quad(integrand, 0, l_K, points=[z_meet], epsrel=1e-12, epsabs=0)
+    got = vdi.member_resilience_layers([(l_K, E_STEEL)], d_W, d_h, t, False, None, d_far)
+    assert got == pytest.approx(ref, rel=1e-9)
+
+
 def test_cone_tangents_hand_values():
     # VDI 2230-1:2015 Section 5.1.2.2 formulas (from memory), hand arithmetic:
     # 0.362 + 0.032 ln 1 + 0.153 ln 3 = 0.53009

@@ -184,6 +184,23 @@ class BoltPattern:
         return BoltShares(axial=axial, shear=np.linalg.norm(shear_vectors, axis=1),
                           shear_vectors=shear_vectors)
 
+    def share_range(self, force_min=(0.0, 0.0, 0.0), force_max=(0.0, 0.0, 0.0), moment_min=None,
+                    moment_max=None, point=None, heel=None) -> list[tuple[float, float, float]]:
+        """Per-bolt (axial_min, axial_max, shear_max) of a load fluctuating between two cases, N.
+
+        The share is linear in the load, so each case is one call of :meth:`share`; a bolt's
+        min/max axial force are the smaller/larger of its two values (a bolt of a bending
+        pattern can see its minimum under the "maximum" case), the shear the larger magnitude.
+
+        >>> p = BoltPattern([(0, 0), (100, 0)])
+        >>> p.share_range(force_min=(0, 0, 1000.0), force_max=(0, 0, 3000.0))
+        [(500.0, 1500.0, 0.0), (500.0, 1500.0, 0.0)]
+        """
+        lo = self.share(force_min, moment_min, point, heel)
+        hi = self.share(force_max, moment_max, point, heel)
+        return [(float(min(a, b)), float(max(a, b)), float(max(c, d)))
+                for a, b, c, d in zip(lo.axial, hi.axial, lo.shear, hi.shear)]
+
     def _heel_axial(self, F, M, p, heel) -> np.ndarray:
         try:
             h_point, h_dir = heel

@@ -24,7 +24,7 @@ import math
 from dataclasses import dataclass, field
 
 from geomjoint.errors import InputError
-from geomjoint.mechanics.joint import Check, JointSpec
+from geomjoint.mechanics.joint import Check, JointSpec, VdiSpec
 
 # --------------------------------------------------------------------------------------
 # constants of the guideline
@@ -919,9 +919,7 @@ class VdiResult:
         }
 
 
-def _vdi_inputs(spec: JointSpec):
-    from geomjoint.mechanics.joint import VdiSpec
-
+def _vdi_inputs(spec: JointSpec) -> VdiSpec:
     v = spec.vdi if spec.vdi is not None else VdiSpec()
     check_friction(v.friction_thread, "friction.thread")
     check_friction(v.friction_head, "friction.head")
@@ -1139,8 +1137,7 @@ def vdi_member_stiffness(spec: JointSpec) -> float:
 
     For ``member_stiffness = "vdi"`` in the engine.
     """
-    v = _vdi_inputs(spec)   # validates; the cone does not depend on friction
-    del v
+    _vdi_inputs(spec)   # validates the VDI inputs; the cone itself does not depend on them
     layers = _clamped_layers(spec)
     l_K = float(sum(layer.thickness for layer in layers))
     d_W_head = float(spec.bearing_diameter)
