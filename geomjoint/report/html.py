@@ -1,0 +1,383 @@
+"""The self-contained HTML report: one file, no network at view time.
+
+Everything the page needs is inside it: the CSS, the drawings as inline SVG (see
+:mod:`geomjoint.report.plots`) and a few lines of JavaScript that sort the joints
+table.  The numbers are the ones of results.json (:mod:`geomjoint.report.json_doc`),
+converted to the units the job asked for with :func:`geomjoint.units.convert`; every
+number cell of the joints table also carries the internal value (N, mm, MPa) in a
+``data-value`` attribute, which is what the table sorts on.
+"""
+from __future__ import annotations
+
+import html
+import math
+import re
+
+from geomjoint.mechanics.joint import JointResult
+from geomjoint.report import plots
+from geomjoint.report.plots import VERDICT_COLOURS, VERDICT_TEXT, ReportUnits, report_units
+from geomjoint.report.text import CAUTION
+
+#: where each member-stiffness method comes from, for the numbers table
+STIFFNESS_SOURCES = {
+    "frustum": "frustum, Shigley 10th ed., eq. 8-20 (layered: cones meeting at mid-grip)",
+    "exponential": "Wileman, Choudhury & Green (1991), Shigley 10th ed., eq. 8-23",
+    "vdi": "VDI 2230-1 (2015), substitute deformation body",
+    "cone": "pressure cone clipped by the part geometry (numerical)",
+    "fe": "axisymmetric finite elements",
+}
+
+#: the fatigue equation of each criterion along the load line from the preload stress
+FATIGUE_SOURCES = {
+    "goodman": "Goodman line, Shigley 10th ed., eq. 8-38 (load line from σ_i)",
+    "gerber": "Gerber parabola, Shigley 10th ed., eq. 8-39 (load line from σ_i)",
+    "asme-elliptic": "ASME ellipse, Shigley 10th ed., eq. 8-40 (load line from σ_i)",
+    "soderberg": "Soderberg line, Shigley 10th ed., Sec. 8-11 (load line from σ_i)",
+}
+
+_VERDICTS = ("pass", "marginal", "fail")
+
+
+def _e(x) -> str:
+    return html.escape(str(x), quote=True)
+
+
+def _fmt(x: float | None, spec: str | None = None) -> str:
+    """A number for people: None is unbounded, a few significant digits otherwise."""
+    if x is None:
+        return "unbounded"
+    x = float(x)
+    if math.isinf(x):
+        return "unbounded"
+    if math.isnan(x):
+        return "n/a"
+    if spec is not None:
+        return format(x, spec)
+    a = abs(x)
+    if a >= 1000:
+        return f"{x:,.0f}".replace(",", "\u202f")   # narrow no-break space groups thousands
+    if a >= 100:
+        return f"{x:.1f}"
+    if a >= 1:
+        return f"{x:.3g}" if a < 10 else f"{x:.2f}"
+    if a == 0:
+        return "0"
+    return f"{x:.3g}"
+
+
+def _raw(x: float | None) -> str:
+    """The full-precision value for a data attribute (JSON-like: null when unbounded)."""
+    if x is None or not math.isfinite(float(x)):
+        return ""
+    return repr(float(x))
+
+
+def _anchor(index: int, joint_id: str) -> str:
+    return f"joint-{index}-" + re.sub(r"[^A-Za-z0-9_-]+", "_", joint_id)[:60]
+
+
+def _badge(verdict: str) -> str:
+    v = verdict if verdict in _VERDICTS else "fail"
+    return f'<span class="verdict v-{v}">{_e(verdict.upper())}</span>'
+
+
+def _size_shown(r: JointResult, u: ReportUnits) -> str:
+    return plots.fastener_label(r)
+
+
+def _governing(r: JointResult) -> str:
+    for c in r.checks:
+        if c.name == r.governing:
+            return f"{r.governing} ({_fmt(c.value)} against {_fmt(c.required)} required)"
+    return r.governing
+
+
+_CSS = f"""
+:root {{ --pass: {VERDICT_COLOURS['pass']}; --marginal: {VERDICT_COLOURS['marginal']};
+        --fail: {VERDICT_COLOURS['fail']}; --ink: #1a1a1a; --muted: #555; --rule: #c8c8c8; }}
+* {{ box-sizing: border-box; }}
+body {{ font-family: system-ui, -apple-system, "Segoe UI", Roboto, "DejaVu Sans", sans-serif; color: var(--ink);
+       margin: 0 auto; max-width: 1150px; padding: 1rem 1.5rem 3rem; line-height: 1.4; background: #fff; }}
+h1 {{ font-size: 1.6rem; margin: .5rem 0; }}
+h2 {{ font-size: 1.25rem; margin-top: 2.2rem; border-bottom: 2px solid var(--rule); padding-bottom: .2rem; }}
+h3 {{ font-size: 1rem; margin: 1.2rem 0 .4rem; }}
+.caution {{ border: 2px solid var(--ink); background: #fff7e0; padding: .6rem .9rem; font-weight: 600; }}
+.counts {{ display: flex; gap: .8rem; flex-wrap: wrap; margin: .6rem 0; }}
+.count {{ border: 1px solid var(--rule); padding: .4rem .8rem; min-width: 7rem; }}
+.count b {{ font-size: 1.4rem; display: block; }}
+.verdict {{ display: inline-block; padding: .05rem .45rem; border-radius: 3px; font-weight: 700;
+           font-size: .85em; letter-spacing: .03em; border: 1px solid #000; }}
+.v-pass {{ background: var(--pass); color: {VERDICT_TEXT['pass']}; }}
+.v-marginal {{ background: var(--marginal); color: {VERDICT_TEXT['marginal']}; }}
+.v-fail {{ background: var(--fail); color: {VERDICT_TEXT['fail']}; }}
+table {{ border-collapse: collapse; margin: .4rem 0 1rem; font-size: .9rem; }}
+th, td {{ border-bottom: 1px solid var(--rule); padding: .25rem .6rem; text-align: left; vertical-align: top; }}
+td.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
+th button {{ font: inherit; font-weight: 700; background: none; border: 0; padding: 0; cursor: pointer; color: inherit; }}
+th button::after {{ content: " \\2195"; color: var(--muted); }}
+th[aria-sort="ascending"] button::after {{ content: " \\2191"; }}
+th[aria-sort="descending"] button::after {{ content: " \\2193"; }}
+.figs {{ display: flex; flex-wrap: wrap; gap: .8rem; }}
+.figs figure {{ margin: 0; flex: 1 1 460px; max-width: 560px; }}
+.figs svg, .overview svg {{ width: 100%; height: auto; }}
+figcaption {{ font-size: .8rem; color: var(--muted); }}
+.src {{ color: var(--muted); font-size: .82rem; }}
+.bad {{ font-weight: 700; }}
+ul.findings li {{ margin: .15rem 0; }}
+footer {{ margin-top: 3rem; }}
+"""
+
+# Sorting the joints table: a click on a column header sorts by that column, numbers by
+# their data-value (internal units) and text otherwise; a second click reverses.
+_JS = """
+document.querySelectorAll("table.sortable").forEach(function (table) {
+  table.querySelectorAll("th button").forEach(function (button, col) {
+    button.addEventListener("click", function () {
+      var th = button.parentNode, asc = th.getAttribute("aria-sort") !== "ascending";
+      table.querySelectorAll("th").forEach(function (h) { h.removeAttribute("aria-sort"); });
+      th.setAttribute("aria-sort", asc ? "ascending" : "descending");
+      var body = table.tBodies[0], rows = Array.prototype.slice.call(body.rows);
+      function key(row) {
+        var cell = row.cells[col], v = cell.getAttribute("data-value");
+        if (v !== null) { return v === "" ? Infinity : parseFloat(v); }
+        return cell.textContent.trim().toLowerCase();
+      }
+      rows.sort(function (a, b) {
+        var x = key(a), y = key(b), c = (typeof x === "number" && typeof y === "number") ? x - y
+          : String(x).localeCompare(String(y));
+        return asc ? c : -c;
+      });
+      rows.forEach(function (row) { body.appendChild(row); });
+    });
+  });
+});
+"""
+
+
+def _summary(results: list[JointResult]) -> str:
+    counts = {v: sum(1 for r in results if r.verdict == v) for v in _VERDICTS}
+    parts = [f'<div class="count"><b id="count-joints">{len(results)}</b>joints</div>']
+    for v in _VERDICTS:
+        parts.append(f'<div class="count"><b id="count-{v}">{counts[v]}</b>{_badge(v)}</div>')
+    items = "".join(
+        f'<li><a href="#{_anchor(i, r.id)}">{_e(r.id)}</a> {_badge(r.verdict)} governing: {_e(_governing(r))}</li>'
+        for i, r in enumerate(results))
+    return (f'<section id="summary"><h2>Summary</h2><div class="counts">{"".join(parts)}</div>'
+            f'<h3>Governing check of each joint</h3><ul class="governing">{items}</ul></section>')
+
+
+def _joints_table(results: list[JointResult], u: ReportUnits) -> str:
+    heads = ["joint", "fastener", f"grip [{u.length}]", "C", f"preload [{u.force_plot}]", "n yield", "n load",
+             "n separation", "n fatigue", "verdict", "governing"]
+    head_html = "".join(f'<th scope="col"><button type="button">{_e(h)}</button></th>' for h in heads)
+    rows = []
+    for i, r in enumerate(results):
+        def num(internal: float | None, shown: float | None, spec: str | None = None) -> str:
+            return f'<td class="num" data-value="{_raw(internal)}">{_e(_fmt(shown, spec))}</td>'
+
+        cells = [
+            f'<td><a href="#{_anchor(i, r.id)}">{_e(r.id)}</a></td>',
+            f"<td>{_e(_size_shown(r, u))}</td>",
+            num(r.grip, u.len(r.grip), ".3g" if u.system == "inch" else ".1f"),
+            num(r.joint_constant, r.joint_constant, ".3f"),
+            num(r.preload, u.fp(r.preload), ".2f"),
+        ]
+        for key in ("yield", "load", "separation", "fatigue"):
+            v = r.factors.get(key)
+            cells.append(num(v, v, ".2f" if v is not None and math.isfinite(v) else None))
+        order = _VERDICTS.index(r.verdict) if r.verdict in _VERDICTS else len(_VERDICTS)
+        cells.append(f'<td data-value="{order}">{_badge(r.verdict)}</td>')
+        cells.append(f"<td>{_e(r.governing)}</td>")
+        rows.append(f'<tr data-joint="{_e(r.id)}">{"".join(cells)}</tr>')
+    return (f'<section id="joints"><h2>Joints</h2><p class="src">Click a column heading to sort.</p>'
+            f'<table class="sortable" id="joints-table"><thead><tr>{head_html}</tr></thead>'
+            f'<tbody>{"".join(rows)}</tbody></table></section>')
+
+
+def _preload_source(r: JointResult, u: ReportUnits) -> str:
+    p = r.spec.preload
+    if p.mode == "proof_fraction":
+        return f"{p.value * 100:g}% of the proof load A_t·S_p (Shigley 10th ed., Sec. 8-9)"
+    if p.mode == "force":
+        return "given in the job"
+    if p.mode == "torque":
+        if p.nut_factor is not None:
+            return (f"from the torque {_fmt(u.t(p.value))} {u.torque} with nut factor K = {p.nut_factor:g}, "
+                    f"T = K·F_i·d (Shigley 10th ed., Sec. 8-8)")
+        return (f"from the torque {_fmt(u.t(p.value))} {u.torque} with thread and head friction "
+                f"(VDI 2230-1 (2015), tightening torque)")
+    return "no preload"
+
+
+_ENDURANCE_SOURCES = {
+    "table": "fully corrected, Shigley 10th ed., Table 8-17",
+    "marin": "Marin factors, Shigley 10th ed., ch. 6, with K_f of Table 8-16",
+    "given": "given in the job",
+}
+
+
+def _endurance_source(r: JointResult) -> str:
+    method = r.details.get("endurance_method")
+    if method in _ENDURANCE_SOURCES:
+        return _ENDURANCE_SOURCES[method]
+    return "Shigley 10th ed., Table 8-17, or Marin factors (ch. 6)"
+
+
+def _numbers(r: JointResult, u: ReportUnits) -> str:
+    spec, f = r.spec, r.spec.fastener
+    crit = plots.criterion_of(r)
+    area_unit = f"{u.length}²"
+    area = convert_area(f.stress_area, u)
+    rows: list[tuple[str, str, str, str]] = [
+        ("grip", _fmt(u.len(r.grip), ".4g"), u.length, "sum of the clamped layers (as the scan defines it)"),
+        ("effective grip l′", _fmt(u.len(r.effective_grip), ".4g"), u.length, "Shigley 10th ed., Table 8-7"),
+        ("stress area A_t", _fmt(area, ".4g"), area_unit,
+         "ISO 898-1 / ASME B1.1 tensile stress area" if f.system != "inch" else "ASME B1.1 tensile stress area"),
+        ("proof strength S_p", _fmt(u.s(f.proof)), u.stress, f"grade {f.grade} (ISO 898-1 / SAE J429)"),
+        ("yield strength S_y", _fmt(u.s(f.yield_strength)), u.stress, f"grade {f.grade}"),
+        ("tensile strength S_ut", _fmt(u.s(f.tensile)), u.stress, f"grade {f.grade}"),
+        ("bolt stiffness k_b", _fmt(u.k(r.bolt_stiffness)), u.stiffness,
+         "shank and thread in series, Shigley 10th ed., eq. 8-17"),
+        ("member stiffness k_m", _fmt(u.k(r.member_stiffness)), u.stiffness,
+         STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)),
+        ("joint constant C", _fmt(r.joint_constant, ".4f"), "–", "C = k_b/(k_b + k_m), Shigley 10th ed., Sec. 8-7"),
+        ("preload F_i", _fmt(u.f(r.preload)), u.force, _preload_source(r, u)),
+        ("external load P_min", _fmt(u.f(spec.load_min)), u.force, "job (per bolt)"),
+        ("external load P_max", _fmt(u.f(spec.load_max)), u.force, "job (per bolt)"),
+    ]
+    if spec.shear:
+        rows.append(("transverse load", _fmt(u.f(spec.shear)), u.force, "job (per bolt)"))
+    t = r.tightening or {}
+    if "torque" in t:
+        rows.append(("tightening torque", _fmt(u.t(t["torque"])), u.torque, "for the nominal preload"))
+    if "preload_min" in t:
+        rows.append(("preload, least", _fmt(u.f(t["preload_min"])), u.force,
+                     f"tightening scatter α_A = {spec.preload.scatter:g} (VDI 2230-1 definition)"))
+    if "preload_max" in t:
+        rows.append(("preload, greatest", _fmt(u.f(t["preload_max"])), u.force,
+                     f"tightening scatter α_A = {spec.preload.scatter:g} (VDI 2230-1 definition)"))
+    if "preload_permissible" in t:
+        rows.append(("permissible assembly preload", _fmt(u.f(t["preload_permissible"])), u.force,
+                     "VDI 2230-1 (2015)"))
+    rows += [
+        ("endurance strength S_e", _fmt(u.s(r.Se)), u.stress,
+         _endurance_source(r)),
+        ("preload stress σ_i", _fmt(u.s(r.sigma_i)), u.stress, "F_i/A_t"),
+        ("alternating stress σ_a", _fmt(u.s(r.sigma_a)), u.stress, "C(P_max − P_min)/(2A_t), Shigley 10th ed., eq. 8-35"),
+        ("mean stress σ_m", _fmt(u.s(r.sigma_m)), u.stress, "σ_i + C(P_max + P_min)/(2A_t), Shigley 10th ed., eq. 8-36"),
+        ("yield factor", _fmt(r.factors.get("yield"), ".3f" if r.factors.get("yield") else None), "–",
+         "proof load / bolt force, Shigley 10th ed., eq. 8-28 form"),
+        ("load factor", _fmt(r.factors.get("load"), ".3f" if r.factors.get("load") else None), "–",
+         "(S_p·A_t − F_i)/(C·P), Shigley 10th ed., eq. 8-29"),
+        ("separation factor", _fmt(r.factors.get("separation"), ".3f" if r.factors.get("separation") else None), "–",
+         "F_i/((1 − C)·P), Shigley 10th ed., eq. 8-30"),
+        ("fatigue factor n_f", _fmt(r.n_f, ".3f" if r.n_f is not None and math.isfinite(r.n_f) else None), "–",
+         FATIGUE_SOURCES.get(crit, crit)),
+    ]
+    body = "".join(f'<tr><th scope="row">{_e(q)}</th><td class="num">{_e(v)}</td><td>{_e(un)}</td>'
+                   f'<td class="src">{_e(src)}</td></tr>'
+                   for q, v, un, src in rows)
+    return ('<table class="numbers"><thead><tr><th>quantity</th><th>value</th><th>unit</th><th>source</th></tr>'
+            f"</thead><tbody>{body}</tbody></table>")
+
+
+def convert_area(area_mm2: float, u: ReportUnits) -> float:
+    """An area, mm² to the report's length unit squared."""
+    return area_mm2 * u.len(1.0) ** 2
+
+
+def _checks(r: JointResult) -> str:
+    body = []
+    for c in r.checks:
+        state = "ok" if c.ok else "FAILS"
+        body.append(f'<tr><th scope="row">{_e(c.name)}</th><td class="num">{_e(_fmt(c.value))}</td>'
+                    f'<td class="num">{_e(_fmt(c.required))}</td><td class="{"" if c.ok else "bad"}">{state}</td>'
+                    f'<td class="src">{_e(c.note)}</td></tr>')
+    return ('<table class="checks"><thead><tr><th>check</th><th>value</th><th>required</th><th>state</th>'
+            f'<th>note</th></tr></thead><tbody>{"".join(body)}</tbody></table>')
+
+
+def _vdi(r: JointResult, u: ReportUnits) -> str:
+    vdi = r.details.get("vdi")
+    if not isinstance(vdi, dict) or not vdi:
+        return ""
+    rows = []
+    for key, value in vdi.items():
+        shown = _fmt(value) if isinstance(value, (int, float)) and not isinstance(value, bool) else str(value)
+        rows.append(f'<tr><th scope="row">{_e(key)}</th><td class="num">{_e(shown)}</td></tr>')
+    return ('<h3>VDI 2230-1 (2015) chain</h3><p class="src">internal units: N, mm, MPa, N·mm</p>'
+            f'<table class="vdi"><tbody>{"".join(rows)}</tbody></table>')
+
+
+def _findings(r: JointResult) -> str:
+    parts = []
+    if r.findings:
+        items = "".join(f'<li><b>{_e(str(x.get("severity", "info")).upper())}</b> '
+                        f'{_e(x.get("code", ""))}: {_e(x.get("message", ""))}</li>' for x in r.findings)
+        parts.append(f'<h3>Findings</h3><ul class="findings">{items}</ul>')
+    remedies = r.details.get("remedies") or []
+    if remedies:
+        items = "".join(f'<li>{_e(x.get("change", ""))} → {_e(x.get("result", ""))}</li>' for x in remedies)
+        parts.append(f'<h3>Remedies</h3><ul class="remedies">{items}</ul>')
+    if r.notes:
+        items = "".join(f"<li>{_e(n)}</li>" for n in r.notes)
+        parts.append(f'<h3>Notes</h3><ul class="notes">{items}</ul>')
+    return "".join(parts)
+
+
+def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
+    figs = [
+        (plots.section_svg(r, u.system), "Section through the axis, to scale: layers, bolt, washers, "
+                                          "nut or tapped thread, and the two pressure cones (dashed)."),
+        (plots.joint_diagram_svg(r, u.system), "Joint diagram: bolt (solid) and members (dashed); the bar is "
+                                                "P_max split into the bolt rise C·P and the member relief."),
+        (plots.fatigue_diagram_svg(r, u.system), "Fatigue diagram of the joint's criterion with the load line "
+                                                  "from the preload stress and the operating point."),
+    ]
+    fig_html = "".join(f'<figure>{svg}<figcaption>{_e(cap)}</figcaption></figure>' for svg, cap in figs)
+    return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}">'
+            f'<h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2>'
+            f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
+            f'<div class="figs">{fig_html}</div>'
+            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_vdi(r, u)}{_findings(r)}</section>")
+
+
+def html_report(results: list[JointResult], *, title: str, units: str = "SI",
+                overview_svg: str | None = None) -> str:
+    """The whole report as one self-contained HTML document.
+
+    Parameters
+    ----------
+    results : list of JointResult
+        The engine's results, in report order.
+    title : str
+        Page title and heading.
+    units : str
+        "SI" (N, mm, MPa; kN in the table) or "inch" (lbf, in, kpsi).
+    overview_svg : str or None
+        An SVG picture of the model with the joints numbered (inserted as given;
+        it must not reference outside resources).
+
+    Returns
+    -------
+    str
+        The HTML text (UTF-8 when written).
+    """
+    u = report_units(units)
+    caution = f'<p class="caution" role="note"><strong>Caution.</strong> {_e(CAUTION)}</p>'
+    overview = ""
+    if overview_svg:
+        svg = re.sub(r"<\?xml[^>]*\?>\s*", "", overview_svg)
+        svg = re.sub(r"<!DOCTYPE[^>]*>\s*", "", svg)
+        overview = (f'<section id="overview" class="overview"><h2>Model overview</h2><figure>{svg}'
+                    f'<figcaption>Joints numbered and coloured by verdict.</figcaption></figure></section>')
+    unit_note = (f'<p class="src">Units: forces {u.force}, lengths {u.length}, stresses {u.stress}, '
+                 f'stiffness {u.stiffness}.</p>')
+    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results))
+    return ("<!DOCTYPE html>\n"
+            f'<html lang="en"><head><meta charset="utf-8">'
+            f'<meta name="viewport" content="width=device-width, initial-scale=1">'
+            f"<title>{_e(title)}</title><style>{_CSS}</style></head>\n<body>"
+            f"<header><h1>{_e(title)}</h1>{caution}{unit_note}</header>\n<main>"
+            f"{_summary(results)}{overview}{_joints_table(results, u)}{sections}</main>\n"
+            f"<footer>{caution}</footer>\n<script>{_JS}</script>\n</body></html>\n")
