@@ -7,11 +7,27 @@ stripping → slip when the joint carries shear → verdict.
 """
 from __future__ import annotations
 
-from dataclasses import replace
+import fnmatch
+import multiprocessing
+import os
+import sys
+import time
+from dataclasses import dataclass, field, replace
+from typing import Any, Callable
 
-from geomjoint.job import Job, typed_joint_specs
+from geomjoint import catalog
+from geomjoint.errors import InputError
+from geomjoint.job import (
+    Job,
+    build_spec,
+    joint_load,
+    material_for_part,
+    material_layer_fields,
+    settings_for,
+    typed_joint_specs,
+)
 from geomjoint.mechanics import checks as engine
-from geomjoint.mechanics.joint import Check, JointResult, JointSpec, PreloadSpec
+from geomjoint.mechanics.joint import Check, JointResult, JointSpec, LayerSpec
 from geomjoint.mechanics.stripping import stripping_check
 from geomjoint.mechanics.vdi import clamp_load_for_slip, vdi_chain, vdi_checks, vdi_member_stiffness
 
@@ -72,7 +88,248 @@ def evaluate_joint(spec: JointSpec) -> JointResult:
     return result
 
 
-def analyze(job: Job) -> list[JointResult]:
+
+
+# ----------------------------------------------------------------------------- model joints
+
+#: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
+WASHER_MATERIAL = "steel"
+
+#: a run longer than this (s) shows a progress line on stderr
+PROGRESS_AFTER_SECONDS = 2.0
+
+
+@dataclass
+class ModelJoint:
+    """A joint found in the model, resolved for the engine."""
+
+    scan: Any                        # geometry.stacks.Joint
+    spec: JointSpec
+    findings: list[dict] = field(default_factory=list)
+
+
+def _finding(severity: str, code: str, message: str) -> dict:
+    return {"severity": severity, "code": code, "message": message}
+
+
+def _choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> str:
+    """Designation: a [[fasteners]] rule > the modelled bolt > the size inferred from the hole > [defaults]."""
+    ruled = any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "fastener" in r for r in job.fastener_rules)
+    modelled = joint.nominal if joint.bolt is not None else None
+    if ruled:
+        chosen = settings["fastener"]
+        if modelled and catalog.thread(chosen).designation != catalog.thread(modelled).designation:
+            findings.append(_finding("warn", "job-model-mismatch",
+                                     f"job sets {chosen} but the modelled bolt {joint.bolt.part} is {modelled}; "
+                                     f"the job's {chosen} is used"))
+        return chosen
+    if modelled:
+        default = settings.get("fastener")
+        if default and catalog.thread(default).designation != catalog.thread(modelled).designation:
+            findings.append(_finding("info", "job-model-mismatch",
+                                     f"[defaults] fastener {default} differs from the modelled bolt {modelled}; "
+                                     f"the modelled bolt is used"))
+        return modelled
+    if joint.nominal:
+        return joint.nominal
+    if "fastener" in settings:
+        return settings["fastener"]
+    raise InputError(f"joint {joint.id}: no bolt modelled and no size could be inferred from its hole; "
+                     f"set fastener in [defaults] or [[fasteners]]", where=job.where("fastener"))
+
+
+def _layer_material(job: Job, part: str, role: str) -> Any:
+    try:
+        return material_for_part(job, part)
+    except InputError:
+        if role == "washer":
+            return WASHER_MATERIAL
+        raise
+
+
+def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
+    """A scanned joint + the job → JointSpec (layers with materials, hardware, loads)."""
+    findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
+    settings = settings_for(job, joint.id)
+    settings["fastener"] = _choose_fastener(job, joint, settings, findings)
+    if joint.head_kind and not any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "head" in r
+                                   for r in job.fastener_rules):
+        settings["head"] = joint.head_kind
+    where = f"{job.path.name}: joint {joint.id}"
+    layers = []
+    for layer in joint.layers:
+        fields = material_layer_fields(_layer_material(job, layer.part, layer.role),
+                                       f"{job.path.name}: [materials] (part {layer.part!r})")
+        layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
+    geometry = {
+        "bearing_diameter": joint.head_bearing_diameter,
+        "far_bearing_diameter": joint.nut_bearing_diameter,
+        "hole_diameter": joint.hole_diameter if not joint.tapped or len(joint.layers) > 1 else None,
+        "length": joint.bolt_length,
+        "nut_height": joint.nut_height,
+    }
+    geometry = {k: v for k, v in geometry.items() if v is not None}
+    if joint.nut is None and joint.bolt is not None and not joint.tapped:
+        findings.append(_finding("info", "nut-not-modelled", "no nut modelled: catalogue hex nut assumed"))
+    lo, hi, shear = joint_load(job, joint.id, None, where)
+    if joint.id in group_loads:
+        g_lo, g_hi, g_shear = group_loads[joint.id]
+        lo, hi, shear = lo + g_lo, hi + g_hi, shear + g_shear
+    notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
+    spec = build_spec(job, joint.id, settings, layers, tapped=joint.tapped, load=(lo, hi, shear),
+                      where=where, geometry=geometry, notes=notes)
+    return ModelJoint(joint, spec, findings)
+
+
+def stackup_check(findings: list[dict]) -> Check:
+    """The scan's stack-up findings as a check: any `fail` finding fails the joint."""
+    failing = [f for f in findings if f["severity"] == "fail"]
+    return Check("stack-up", None, None, not failing,
+                 "; ".join(f["message"] for f in failing) if failing else "")
+
+
+@dataclass
+class _ModelState:
+    """What the worker processes inherit (by fork) to compute cone / FE stiffness."""
+
+    joints: list[ModelJoint]
+    cone_joints: dict[str, Any]
+
+
+def _cone_joint(mj: ModelJoint):
+    from geomjoint.geometry.cones import ConeJoint, ConeLayer
+    from geomjoint.mechanics.checks import effective_grip_of
+
+    j, spec = mj.scan, mj.spec
+    layers = [ConeLayer(solid=l.solid, z_start=l.start, z_end=l.end, E=s.E, part=l.part,
+                        hole_diameter=l.hole_diameter) for l, s in zip(j.layers, spec.layers)]
+    return ConeJoint(id=j.id, axis_point=tuple(j.point), axis_direction=tuple(j.direction), layers=layers,
+                     bearing_diameter=spec.bearing_diameter, far_bearing_diameter=spec.far_bearing_diameter,
+                     tapped=spec.tapped, effective_grip=effective_grip_of(spec) if spec.tapped else None,
+                     cone_angle_deg=spec.cone_angle)
+
+
+def _members_from_geometry(state: _ModelState, index: int) -> tuple[JointSpec, dict]:
+    """k_m by the clipped cone or the FE model; the spec carries it to the engine."""
+    from geomjoint.geometry.cones import clipped_cone_stiffness
+
+    mj = state.joints[index]
+    spec = mj.spec
+    details: dict = {}
+    if spec.member_stiffness not in ("cone", "fe"):
+        return spec, details
+    cone_joint = state.cone_joints[spec.id]
+    neighbours = [c for key, c in state.cone_joints.items() if key != spec.id]
+    cone = clipped_cone_stiffness(cone_joint, neighbours)
+    details["cone"] = {"stiffness": cone.stiffness, "ideal_stiffness": cone.ideal_stiffness,
+                       "area_fraction_mid_grip": cone.area_fraction_mid_grip,
+                       "lost_to_edges": cone.lost_to_edges, "lost_to_neighbours": cone.lost_to_neighbours}
+    if spec.member_stiffness == "cone":
+        return replace(spec, members_value=cone.stiffness), details
+    from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
+    from geomjoint.mechanics.checks import effective_grip_of, _layers_over
+
+    outer = None
+    if cone.area_fraction_mid_grip < 1.0 - 1e-6:
+        # the plate the cone really finds: the annulus of the clipped mid-grip area
+        outer = (4.0 * cone.area_mid_grip / 3.141592653589793 + spec.hole_diameter ** 2) ** 0.5
+    layers = [FeLayer(l.thickness, l.E, l.poisson) for l in _layers_over(spec, effective_grip_of(spec))]
+    fe = fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter, spec.far_bearing_diameter,
+                             outer_diameter=outer, tapped=spec.tapped, thread_diameter=spec.fastener.d)
+    details["fe"] = {"stiffness": fe.stiffness, "outer_diameter": fe.outer_diameter,
+                     "mesh_change": fe.mesh_change, "contact_diameters": fe.contact_diameters}
+    return replace(spec, members_value=fe.stiffness), details
+
+
+_STATE: _ModelState | None = None   # set in each worker process by _init_worker only
+
+
+def _init_worker(state: _ModelState) -> None:
+    global _STATE
+    _STATE = state
+
+
+def _analyse_model_joint(index: int) -> JointResult:
+    return _analyse_one(_STATE, index)
+
+
+def _analyse_one(state: _ModelState, index: int) -> JointResult:
+    mj = state.joints[index]
+    spec, details = _members_from_geometry(state, index)
+    result = evaluate_joint(spec)
+    result.details.update(details)
+    result.findings = list(mj.findings)
+    result.checks.append(stackup_check(mj.findings))
+    result.verdict, result.governing = engine.rate(result.checks)
+    result.ok = result.verdict != "fail"
+    return result
+
+
+def _progress(label: str, done: int, total: int, started: float, quiet: bool) -> None:
+    if quiet or time.monotonic() - started < PROGRESS_AFTER_SECONDS:
+        return
+    end = "\n" if done == total else ""
+    print(f"\r{label}: {done}/{total} joints", end=end, file=sys.stderr, flush=True)
+
+
+def group_shares(job: Job, scanned: list) -> dict[str, tuple[float, float, float]]:
+    """[[group]] resultants shared over the group's joints by the rigid-plate pattern method."""
+    from geomjoint.grouping import group_loads
+
+    return group_loads(job, {j.id: (j.point, j.direction) for j in scanned})
+
+
+@dataclass
+class Analysis:
+    results: list[JointResult]
+    scan: Any = None                 # geometry.scan.ScanResult when the job has a model
+    model_joints: list[ModelJoint] = field(default_factory=list)
+
+
+def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None) -> Analysis:
+    """Analyse every joint of the job: typed-in joints, and every joint found in its model."""
+    started = time.monotonic()
+    results = [evaluate_joint(spec) for spec in typed_joint_specs(job)]
+    if job.model is None and scan is None:
+        if job.groups:
+            raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))
+        return Analysis(results)
+    if scan is None:
+        from geomjoint.geometry.scan import scan_model
+
+        scan = scan_model(job.model)
+    ids = {j.id for j in scan.joints} | {s["id"] for s in job.joints}
+    for rule in job.loads:
+        if not any(fnmatch.fnmatchcase(i, rule.joints) for i in ids):
+            raise InputError(f"{rule.joints!r} matches no joint of the model or the job "
+                             f"(joints: {', '.join(sorted(ids)[:8])}{'...' if len(ids) > 8 else ''})",
+                             where=rule.where)
+    model_groups = [g for g in job.groups if "positions" not in g]
+    shares = group_shares(replace(job, groups=model_groups), scan.joints) if model_groups else {}
+    model_joints = [model_joint(job, j, shares) for j in scan.joints]
+    state = _ModelState(model_joints, {})
+    if any(mj.spec.member_stiffness in ("cone", "fe") for mj in model_joints):
+        state.cone_joints = {mj.spec.id: _cone_joint(mj) for mj in model_joints}
+    total = len(model_joints)
+    workers = workers or os.cpu_count() or 1
+    model_results: list[JointResult] = []
+    if workers > 1 and total > 1 and "fork" in multiprocessing.get_all_start_methods():
+        from concurrent.futures import ProcessPoolExecutor
+
+        # fork: the workers inherit the model's shapes instead of re-reading the file
+        ctx = multiprocessing.get_context("fork")
+        with ProcessPoolExecutor(max_workers=min(workers, total), mp_context=ctx,
+                                 initializer=_init_worker, initargs=(state,)) as pool:
+            for result in pool.map(_analyse_model_joint, range(total), chunksize=max(1, total // (4 * workers))):
+                model_results.append(result)
+                _progress("analysed", len(model_results), total, started, quiet)
+    else:
+        for i in range(total):
+            model_results.append(_analyse_one(state, i))
+            _progress("analysed", i + 1, total, started, quiet)
+    return Analysis(results + model_results, scan, model_joints)
+
+
+def analyze(job: Job, *, workers: int = 1, quiet: bool = True) -> list[JointResult]:
     """Analyse every joint of the job (typed-in joints; model joints when the job names a model)."""
-    specs = typed_joint_specs(job)
-    return [evaluate_joint(spec) for spec in specs]
+    return analyze_job(job, workers=workers, quiet=quiet).results

@@ -67,14 +67,14 @@ def _parser() -> argparse.ArgumentParser:
 
 
 def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None) -> int:
-    from geomjoint.analysis import analyze
+    from geomjoint.analysis import analyze_job
     from geomjoint.job import load_job
     from geomjoint.outputs import new_output_folder, prepare_output_folder, write_atomic
     from geomjoint.report.json_doc import dumps, result_document
     from geomjoint.report.text import result_table
 
     job = load_job(job_path)
-    results = analyze(job)
+    results = analyze_job(job, workers=workers, quiet=as_json).results
     inputs = [job.path] + ([job.model] if job.model else [])
     if out is None:
         folder = new_output_folder(beside or job.path.parent, job.path.stem)

@@ -82,7 +82,6 @@ DEFAULT_SETTINGS: dict[str, Any] = {
     "threads": "rolled",
     "reliability": 0.99,
     "criterion": "goodman",
-    "member_stiffness": "frustum",
     "cone_angle": "30 deg",
     "surface": "machined",
     "endurance": "auto",
@@ -195,9 +194,10 @@ def load_job(path: str | Path) -> Job:
               default_material=raw.get("default_material"), joints=joints, loads=loads,
               groups=groups, fastener_rules=fastener_rules, units=units,
               title=str(raw.get("title", "")), raw=raw)
+    if not isinstance(groups, list):
+        raise InputError("use [[group]] (an array of tables)", where=f"{name}: group")
     # Resolve every typed-in joint now, so all bad input is reported before any work starts.
-    for joint in joints:
-        joint_spec(job, joint)
+    typed_joint_specs(job)
     return job
 
 
@@ -458,9 +458,10 @@ def build_spec(
 
     method = _choice(s["method"], METHODS, f"{where}.method")
     stiffness = _choice(s.get("member_stiffness", "frustum"), STIFFNESS_METHODS, f"{where}.member_stiffness")
-    if method == "vdi" and stiffness != "vdi":
+    if method == "vdi" and stiffness != "vdi" and "member_stiffness" in s:
         # the VDI 2230-1 chain is built on its own substitute deformation body
         notes.append(f"method vdi: member stiffness by the VDI substitute deformation body, not {stiffness}")
+    if method == "vdi":
         stiffness = "vdi"
     criterion = s["criterion"]
     criterion = _choice(criterion, CRITERIA, f"{where}.criterion")
@@ -592,8 +593,8 @@ def joint_load(job: Job, joint_id: str, own: Any, where: str) -> tuple[float, fl
     return lo, hi, shear
 
 
-def joint_spec(job: Job, joint: dict[str, Any]) -> JointSpec:
-    """A typed-in [[joint]] table → JointSpec."""
+def joint_spec(job: Job, joint: dict[str, Any], extra_load: tuple[float, float, float] | None = None) -> JointSpec:
+    """A typed-in [[joint]] table → JointSpec (``extra_load``: a [[group]] share to add)."""
     jid = joint["id"]
     index = job.joints.index(joint) if joint in job.joints else 0
     where = f"{job.path.name}: joint[{index}] ({jid})"
@@ -601,10 +602,22 @@ def joint_spec(job: Job, joint: dict[str, Any]) -> JointSpec:
     layers = _typed_layers(joint, where, tapped)
     engagement = _length(joint["engagement"], f"{where}.engagement") if "engagement" in joint else None
     settings = settings_for(job, jid, joint)
-    return build_spec(job, jid, settings, layers, tapped=tapped,
-                      load=joint_load(job, jid, joint.get("load"), where), where=where,
+    lo, hi, shear = joint_load(job, jid, joint.get("load"), where)
+    if extra_load:
+        lo, hi, shear = lo + extra_load[0], hi + extra_load[1], shear + extra_load[2]
+    return build_spec(job, jid, settings, layers, tapped=tapped, load=(lo, hi, shear), where=where,
                       engagement=engagement)
 
 
 def typed_joint_specs(job: Job) -> list[JointSpec]:
-    return [joint_spec(job, joint) for joint in job.joints]
+    """Every typed-in joint, with the shares of [[group]] loads that name typed-in joints."""
+    from geomjoint.grouping import group_loads
+
+    typed_groups = [g for g in job.groups if "positions" in g]
+    shares = group_loads(replace_groups(job, typed_groups), {}) if typed_groups else {}
+    return [joint_spec(job, joint, shares.get(joint["id"])) for joint in job.joints]
+
+
+def replace_groups(job: Job, groups: list[dict[str, Any]]) -> Job:
+    """The same job with only ``groups`` as its [[group]] tables."""
+    return replace(job, groups=groups)

@@ -41,7 +41,8 @@ def result_table(results: list[JointResult]) -> str:
     for r in results:
         failed = [c for c in r.checks if not c.ok]
         for c in failed:
-            lines.append(f"  {r.id}: {c.name} fails: {_fmt(c.value)} < {_fmt(c.required)}  {c.note}".rstrip())
+            numbers = f" {_fmt(c.value)} < {_fmt(c.required)}" if c.value is not None else ""
+            lines.append(f"  {r.id}: {c.name} fails:{numbers}  {c.note}".rstrip())
         for remedy in r.details.get("remedies", []):
             lines.append(f"  {r.id}: remedy: {remedy['change']} -> {remedy['result']}")
     n_fail = sum(1 for r in results if not r.ok)
