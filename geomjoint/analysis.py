@@ -167,6 +167,7 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
         "hole_diameter": joint.hole_diameter if not joint.tapped or len(joint.layers) > 1 else None,
         "length": joint.bolt_length,
         "nut_height": joint.nut_height,
+        "gaps": sum(g.size for g in joint.gaps),
     }
     geometry = {k: v for k, v in geometry.items() if v is not None}
     if joint.nut is None and joint.bolt is not None and not joint.tapped:
@@ -262,6 +263,21 @@ def _analyse_one(state: _ModelState, index: int) -> JointResult:
     result.checks.append(stackup_check(mj.findings))
     result.verdict, result.governing = engine.rate(result.checks)
     result.ok = result.verdict != "fail"
+    with_remedies(spec, result, hole_limit=spec.hole_diameter)
+    return result
+
+
+def with_remedies(spec: JointSpec, result: JointResult, hole_limit: float | None = None) -> JointResult:
+    """Attach computed remedies to a failing or marginal result."""
+    from geomjoint.remedies import find_remedies, stackup_remedies
+
+    if result.verdict == "pass":
+        return result
+    remedies = stackup_remedies(result.findings)
+    bolt_failing = [c for c in result.checks if not c.ok and c.name != "stack-up"]
+    if bolt_failing or (result.verdict == "marginal" and not remedies):
+        remedies += find_remedies(spec, result, evaluate_joint, hole_limit=hole_limit)
+    result.details["remedies"] = remedies
     return result
 
 
@@ -289,7 +305,7 @@ class Analysis:
 def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None) -> Analysis:
     """Analyse every joint of the job: typed-in joints, and every joint found in its model."""
     started = time.monotonic()
-    results = [evaluate_joint(spec) for spec in typed_joint_specs(job)]
+    results = [with_remedies(spec, evaluate_joint(spec)) for spec in typed_joint_specs(job)]
     if job.model is None and scan is None:
         if job.groups:
             raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))

@@ -509,7 +509,7 @@ def build_spec(
             clamped = grip - layers[-1].thickness
             needed = clamped + min(layers[-1].thickness, thread.d)
         else:
-            needed = grip + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
+            needed = grip + geometry.get("gaps", 0.0) + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
         length = catalog.shortest_length(thread, needed, fastener.spec.head)
         notes.append(f"bolt length {length:g} mm chosen: shortest standard length >= {needed:.1f} mm")
     friction = _friction_table(s, where)
@@ -541,7 +541,8 @@ def build_spec(
         bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
         outside_diameter=outside, method=method, member_stiffness=stiffness, cone_angle=cone_angle,
         preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
-        engagement=engagement, nut_height=nut_height, required=_required(s, where), notes=tuple(notes),
+        engagement=engagement, nut_height=nut_height, gaps=geometry.get("gaps", 0.0),
+        required=_required(s, where), notes=tuple(notes),
     )
 
 

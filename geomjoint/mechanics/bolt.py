@@ -23,6 +23,11 @@ METRIC_THREAD_LENGTH_RULE = ((125.0, 6.0), (200.0, 12.0), (math.inf, 25.0))
 INCH_THREAD_LENGTH_RULE = ((6.0 * INCH, 0.25 * INCH), (math.inf, 0.5 * INCH))
 
 
+#: thread that must stand past the nut: at least one full pitch, so the chamfered end is not
+#: in the nut (common practice)
+MIN_PROTRUSION_PITCHES = 1.0
+
+
 def thread_length_rule(d: float, length: float, system: str) -> float:
     """Standard thread length L_T of a bolt of nominal diameter ``d`` and length ``length``.
 

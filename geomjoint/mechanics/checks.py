@@ -219,10 +219,12 @@ def length_check(spec: JointSpec, side: BoltSide) -> Check:
     if f.length <= clamped + 1e-9:
         return Check("length", None, None, False,
                      f"bolt length {f.length:.1f} mm does not reach through the grip {clamped:.1f} mm")
-    if not spec.tapped and spec.nut_height and f.length < clamped + spec.nut_height - 1e-9:
-        return Check("length", None, None, False,
-                     f"bolt length {f.length:.1f} mm is shorter than grip + nut height "
-                     f"{clamped + spec.nut_height:.1f} mm: nut not fully engaged")
+    if not spec.tapped and spec.nut_height:
+        needed = clamped + spec.gaps + spec.nut_height + B.MIN_PROTRUSION_PITCHES * f.pitch
+        if f.length < needed - 1e-9:
+            return Check("length", None, None, False,
+                         f"bolt length {f.length:.1f} mm is shorter than grip + gaps + nut height + one pitch "
+                         f"{needed:.1f} mm: the nut is not fully engaged")
     return Check("length", None, None, True, "")
 
 

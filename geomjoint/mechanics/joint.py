@@ -126,6 +126,7 @@ class JointSpec:
     vdi: VdiSpec | None = None
     engagement: float | None = None  # engaged thread length (nut height or tapped depth), mm
     nut_height: float | None = None  # m of the nut, mm (through joints)
+    gaps: float = 0.0                # open gaps between layers in the model, mm (they lengthen the bolt's path)
     required: dict[str, float] = field(default_factory=dict)  # check name -> required factor
     notes: tuple[str, ...] = ()
 
