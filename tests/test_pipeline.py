@@ -1,0 +1,157 @@
+"""Whole-model checks: the sample model end to end, typed = model, parallel = serial, group shares."""
+import json
+import textwrap
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from geomjoint.analysis import analyze_job, group_shares
+from geomjoint.cli import main
+from geomjoint.errors import InputError
+from geomjoint.geometry.scan import scan_model
+from geomjoint.job import load_job, typed_joint_specs
+from geomjoint.report.json_doc import result_document
+
+SAMPLES = Path(__file__).resolve().parents[1] / "samples"
+MODEL = SAMPLES / "conveyor_bracket.step"
+
+MODEL_JOB = """
+model = "{model}"
+
+[defaults]
+grade = "8.8"
+preload = "75%"
+
+[materials]
+"frame_flange*" = "steel"
+"motor_foot*" = "steel"
+"adapter_plate*" = "aluminium"
+
+[[load]]
+joints = "*"
+axial = {{ min = "0 kN", max = "3 kN" }}
+"""
+
+
+@pytest.fixture(scope="module")
+def scan():
+    return scan_model(MODEL)
+
+
+def write_job(tmp_path, text=MODEL_JOB, name="job.toml", template=True):
+    path = tmp_path / name
+    path.write_text(textwrap.dedent(text).format(model=MODEL.as_posix()) if template else text)
+    return path
+
+
+def by_id(results):
+    return {r.id: r for r in results}
+
+
+def test_sample_model_verdicts(tmp_path, scan):
+    # the sample model is built with known faults (samples/make_samples.py): J02 has an offset hole,
+    # J04 a bolt too short for its nut; J01 and J03 are sound
+    analysis = analyze_job(load_job(write_job(tmp_path)), scan=scan)
+    r = by_id(analysis.results)
+    assert set(r) == {"J01", "J02", "J03", "J04"}
+    assert r["J01"].verdict != "fail" and r["J03"].verdict != "fail"
+    assert not next(c for c in r["J02"].checks if c.name == "stack-up").ok
+    assert any(f["code"] == "misaligned" for f in r["J02"].findings)
+    assert not next(c for c in r["J04"].checks if c.name == "length").ok
+    # the remedy for the short bolt is a standard length that passes the re-check
+    remedies = r["J04"].details["remedies"]
+    assert any(m["change"].startswith("bolt length 35 ->") and m["verdict"] in ("pass", "marginal") for m in remedies)
+
+
+def test_typed_joint_equals_model_joint(tmp_path, scan):
+    """A job typed in by hand for J01 gives the numbers the model path gives."""
+    model_result = by_id(analyze_job(load_job(write_job(tmp_path)), scan=scan).results)["J01"]
+    spec = model_result.spec
+    j01 = next(j for j in scan.joints if j.id == "J01")
+    # layer thicknesses from the geometry equal those the sample was built with (make_samples.py)
+    assert [l.thickness for l in spec.layers] == pytest.approx([2.0, 8.0, 10.0, 12.0, 2.0], abs=1e-6)
+    assert j01.grip == pytest.approx(34.0, abs=1e-6)
+    layers = ",\n".join(f'{{ material = "{l.material}", thickness = "{l.thickness!r} mm", role = "{l.role}" }}'
+                        for l in spec.layers)
+    typed = f"""
+[defaults]
+grade = "8.8"
+preload = "75%"
+
+[[joint]]
+id = "J01-typed"
+fastener = "{spec.fastener.designation}"
+length = "{spec.fastener.length!r} mm"
+bearing_diameter = "{spec.bearing_diameter!r} mm"
+hole_diameter = "{spec.hole_diameter!r} mm"
+layers = [ {layers} ]
+load = {{ min = "0 kN", max = "3 kN" }}
+"""
+    typed_result = analyze_job(load_job(write_job(tmp_path, typed, "typed.toml", template=False))).results[0]
+    # the far bearing diameter of the model is the modelled washer; typed-in takes the catalog washer
+    assert typed_result.spec.far_bearing_diameter == pytest.approx(spec.far_bearing_diameter, rel=1e-9)
+    for field in ("grip", "bolt_stiffness", "member_stiffness", "joint_constant", "preload", "sigma_a", "n_f"):
+        assert getattr(typed_result, field) == pytest.approx(getattr(model_result, field), rel=1e-9), field
+
+
+def test_parallel_equals_serial(tmp_path):
+    job = load_job(write_job(tmp_path))
+    serial = result_document(analyze_job(job, workers=1).results, "t")
+    parallel = result_document(analyze_job(job, workers=2).results, "t")
+    assert json.dumps(serial, sort_keys=True) == json.dumps(parallel, sort_keys=True)
+
+
+def test_group_shares_sum_to_applied_load(tmp_path, scan):
+    text = MODEL_JOB.replace('[[load]]\njoints = "*"\naxial = {{ min = "0 kN", max = "3 kN" }}\n', "") + """
+[[group]]
+joints = "J0*"
+point = ["0 mm", "0 mm", "120 mm"]
+force = {{ max = ["0 kN", "0 kN", "8 kN"] }}
+moment = {{ max = ["0 N*m", "30 N*m", "0 N*m"] }}
+"""
+    job = load_job(write_job(tmp_path, text))
+    shares = group_shares(job, scan.joints)
+    axial = {k: v[1] for k, v in shares.items()}
+    # statics: the bolt forces of a rigid plate balance the applied force (Shigley 10th ed. §8-12)
+    assert sum(axial.values()) == pytest.approx(8000.0, rel=1e-9)
+    # and the applied moment about the pattern centroid (all bolts stay in tension here)
+    points = {j.id: np.array(j.point) for j in scan.joints}
+    centroid = np.mean(list(points.values()), axis=0)
+    normal = -np.array(scan.joints[0].direction)
+    moment = sum(np.cross(points[k] - centroid, axial[k] * normal) for k in axial)
+    assert moment[1] == pytest.approx(30_000.0, rel=1e-6)
+    results = by_id(analyze_job(job, scan=scan).results)
+    assert results["J01"].spec.load_max == pytest.approx(axial["J01"])
+
+
+@pytest.mark.parametrize("edit, needle", [
+    (('"adapter_plate*" = "aluminium"', ''), "adapter_plate"),                         # part with no material
+    (('joints = "*"', 'joints = "K9"'), "K9"),                                         # load on an unknown joint
+    (('max = "3 kN"', 'max = 3'), "max"),                                              # load without units
+    (('model = "{model}"', 'model = "nowhere.step"'), "model"),                       # model path missing
+])
+def test_model_job_bad_input_exit_2(tmp_path, capsys, edit, needle):
+    text = MODEL_JOB.replace(*edit)
+    assert text != MODEL_JOB
+    code = main(["check", str(write_job(tmp_path, text))])
+    err = capsys.readouterr().err.strip()
+    assert code == 2, err
+    assert len(err.splitlines()) == 1 and needle in err and "job.toml" in err
+
+
+def test_init_writes_starter_and_never_overwrites(tmp_path, capsys):
+    model = tmp_path / "bracket.step"
+    model.write_bytes(MODEL.read_bytes())
+    assert main(["init", str(model)]) == 0
+    starter = tmp_path / "bracket.toml"
+    text = starter.read_text()
+    assert 'model = "bracket.step"' in text and '"adapter_plate_alu" = "aluminium"' in text
+    assert "J04" in text
+    job = load_job(starter)              # the starter is a valid job as written
+    assert job.model == model.resolve()
+    before = starter.read_bytes()
+    assert main(["init", str(model)]) == 2
+    assert starter.read_bytes() == before
+    assert model.read_bytes() == MODEL.read_bytes()
