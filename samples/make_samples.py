@@ -84,11 +84,14 @@ def write_step(assy: cq.Assembly, path: str, unit: str = "MM") -> None:
     writer.SetNameMode(True)
     writer.SetColorMode(True)
     Interface_Static.SetCVal_s("write.step.unit", unit)
+    pcurves = Interface_Static.IVal_s("write.surfacecurve.mode")
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)   # no 2-D curves: half the file size
     try:
         writer.Transfer(doc, STEPControl_AsIs)
         writer.Write(path)
     finally:
         Interface_Static.SetCVal_s("write.step.unit", "MM")
+        Interface_Static.SetIVal_s("write.surfacecurve.mode", pcurves)
 
 
 STEEL = cq.Color(0.45, 0.47, 0.5)

@@ -29,6 +29,8 @@ from geomjoint.geometry.holes import (
 NUT_MAX_HEIGHT_RATIO = 1.5        # nut height / bore diameter
 WASHER_MAX_THICKNESS_RATIO = 0.5  # washer thickness / inner diameter
 MIN_HEAD_WIDTH_RATIO = 1.3        # head (or nut / washer) width / shank (bore) diameter
+#: cylinders up to this ratio of the longest one are shank or thread, not head
+SHANK_STEP_RATIO = 1.25
 #: relative tolerance for "same size" when matching a diameter to a thread size
 SIZE_TOL = 0.03
 
@@ -216,19 +218,22 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
         if best is None or longest.t1 - longest.t0 > best[1].t1 - best[1].t0:
             best = (group, longest)
     group, shank = best
-    r = shank.r0
+    r_long = shank.r0
     ref, d = shank.ref, shank.direction
-    shank_secs = [p for p in group if p.r0 <= r + LINEAR_TOL]
+    # shank and a thread modelled slightly smaller both count; a head is much wider
+    shank_secs = [p for p in group if p.r0 <= SHANK_STEP_RATIO * r_long]
     s0 = min(p.t0 for p in shank_secs)
     s1 = max(p.t1 for p in shank_secs)
     a0, a1 = _extent(faces.vertices, ref, d)
     below, above = s0 - a0, a1 - s1
-    if max(below, above) < 0.3 * 2 * r:
+    if max(below, above) < 0.3 * 2 * r_long:
         return None                      # a pin or a rod, no head
     head_at_start = below > above
     head_range = (a0, s0) if head_at_start else (s1, a1)
     head_h = head_range[1] - head_range[0]
-    head_cyl = [p for p in group if p.r0 > r + LINEAR_TOL
+    # the nominal is the widest shank cylinder (a thread may be modelled smaller)
+    r = max(p.r0 for p in shank_secs)
+    head_cyl = [p for p in group if p.r0 > SHANK_STEP_RATIO * r_long
                 and p.t0 >= head_range[0] - LINEAR_TOL and p.t1 <= head_range[1] + LINEAR_TOL]
     af = _hex_width(faces, ref, d, head_range)
     if af and af >= MIN_HEAD_WIDTH_RATIO * 2 * r:

@@ -216,9 +216,11 @@ def add_findings(j: Joint) -> None:
             nut_end = (j.layers[-1].end + nut_h) if j.nut is None else _nut_end(j)
             protr = j.bolt.length - nut_end
             if protr < MIN_PROTRUSION_PITCHES * pitch - LINEAR_TOL:
+                where = (f"protrudes only {protr:.2f} mm past the nut" if protr >= 0
+                         else f"ends {-protr:.2f} mm inside the nut")
                 add(Finding("fail", "bolt-short",
-                            f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut, needs at least "
-                            f"{MIN_PROTRUSION_PITCHES * pitch:.2f} mm (one pitch)"))
+                            f"{j.bolt.part}: {where}; needs at least "
+                            f"{MIN_PROTRUSION_PITCHES * pitch:.2f} mm (one pitch) past it"))
             elif protr > MAX_PROTRUSION_DIAMETERS * t.d + LINEAR_TOL:
                 add(Finding("warn", "bolt-long",
                             f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut (limit {MAX_PROTRUSION_DIAMETERS:g} d = "
