@@ -16,13 +16,7 @@ from geomjoint.catalog.tables import MM_PER_INCH, load_table, number, to_mm
 from geomjoint.catalog.threads import size_label, tap_drill, thread_sizes
 from geomjoint.catalog.types import HeadDims, NutDims, Thread, WasherDims
 from geomjoint.errors import InputError
-
-# --- thread length of bolts (reference dimension b) ---
-#: metric b = 2d + 6 mm for L <= 125 mm, 2d + 12 for 125 < L <= 200, 2d + 25 above:
-#: ISO 4014:2011 Table 1 (b ref, from memory); Budynas & Nisbett eq. (8-14)
-METRIC_THREAD_LENGTH_STEPS = ((125.0, 6.0), (200.0, 12.0), (math.inf, 25.0))
-#: inch L_T = 2D + 1/4 in for L <= 6 in, 2D + 1/2 in above: ASME B18.2.1 (from memory); Budynas & Nisbett eq. (8-13)
-INCH_THREAD_LENGTH_STEPS = ((6.0 * MM_PER_INCH, 0.25 * MM_PER_INCH), (math.inf, 0.5 * MM_PER_INCH))
+from geomjoint.mechanics.bolt import thread_length_rule
 
 # --- inch length series (common practice, as stocked) ---
 #: 1/4 in steps up to 6 in
@@ -186,11 +180,7 @@ def thread_length(t: Thread, length: float) -> float:
     """
     if length <= 0:
         raise InputError(f"bolt length must be positive, got {length:g} mm")
-    steps = METRIC_THREAD_LENGTH_STEPS if t.system == "metric" else INCH_THREAD_LENGTH_STEPS
-    for limit, extra in steps:
-        if length <= limit + _TOL:
-            return min(2.0 * t.d + extra, length)
-    raise AssertionError("unreachable: the last step has no limit")
+    return min(thread_length_rule(t.d, length, t.system), length)
 
 
 def _kind_key(kind: str) -> str:
