@@ -139,6 +139,18 @@ def test_unclipped_tapped_joint_uses_effective_grip():
     assert res.z_mid == pytest.approx(lprime / 2)
 
 
+def test_model_clearance_hole_is_subtracted_at_its_own_size():
+    # the model has 14 mm holes, the caller passes 13 mm: the larger, modelled hole counts
+    d_model = 14.0
+    top = slab(-150, 150, -150, 150, 10.0, 20.0, holes=[(0, 0)], hole=d_model)
+    bot = slab(-150, 150, -150, 150, 0.0, 10.0, holes=[(0, 0)], hole=d_model)
+    res = clipped_cone_stiffness(joint_on([(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_ALU, "bottom")]))
+    expected = 1.0 / closed_form_compliance([(0, 10, E_STEEL), (10, 20, E_ALU)], DW, DW, 20.0, d=d_model)
+    # Shigley 10th ed. eq. (8-20) with d = the modelled hole
+    assert res.stiffness == pytest.approx(expected, rel=1e-6)
+    assert res.stiffness < res.ideal_stiffness  # ideal uses the 13 mm hole_diameter
+
+
 # ---------------------------------------------------------------- clipped by plate edges
 
 def segment_area(r, e):
@@ -176,6 +188,32 @@ def test_narrow_plate_matches_independent_integration_of_strip_area():
     ideal = math.pi * (r * r - rh * rh)
     assert res.lost_to_edges == pytest.approx((segment_area(r, e1) + segment_area(r, e2)) / ideal, rel=1e-9)
     assert res.lost_to_neighbours == pytest.approx(0.0, abs=1e-12)
+
+
+def test_result_does_not_depend_on_the_placement_of_the_model():
+    # a rigid motion of parts and axis together changes nothing (mathematics)
+    e1, e2, t = 11.0, 14.0, 10.0
+    top = slab(-e2, e1, -120, 120, t, 2 * t, holes=[(0, 0)])
+    bot = slab(-e2, e1, -120, 120, 0.0, t, holes=[(0, 0)])
+    plain = clipped_cone_stiffness(joint_on([(top, t, E_STEEL, "top"), (bot, t, E_ALU, "bottom")]))
+
+    axis, angle, shift = cq.Vector(1.0, 2.0, 0.5), 37.0, cq.Vector(250.0, -40.0, 75.0)
+
+    def place(solid):
+        return solid.rotate(cq.Vector(0, 0, 0), axis, angle).translate(shift)
+
+    def place_point(p):
+        vert = cq.Vertex.makeVertex(*p).rotate(cq.Vector(0, 0, 0), axis, angle).translate(shift)
+        return vert.toTuple()
+
+    head = place_point((0.0, 0.0, 2 * t))
+    below = place_point((0.0, 0.0, 2 * t - 1.0))
+    direction = tuple(b - h for b, h in zip(below, head))
+    layers = [ConeLayer(place(top).wrapped, 0.0, t, E_STEEL, "top", HOLE),
+              ConeLayer(place(bot).wrapped, t, 2 * t, E_ALU, "bottom", HOLE)]
+    moved = clipped_cone_stiffness(ConeJoint("J", head, direction, layers, DW, DW))
+    assert moved.stiffness == pytest.approx(plain.stiffness, rel=1e-7)
+    assert moved.lost_to_edges == pytest.approx(plain.lost_to_edges, rel=1e-6)
 
 
 # ---------------------------------------------------------------- neighbouring bolts

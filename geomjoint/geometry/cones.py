@@ -15,10 +15,11 @@ plane of their axes, so each point of a plate belongs to the nearest bolt.  The 
 compliance is δ_m = ∫₀ˡ dz / (E(z)·A(z)) and k_m = 1/δ_m.
 
 How A(z) is computed: the disc ∩ polygon area is exact for straight polygon edges (a sum
-of circle–triangle areas over the edges, no polygonal disc).  The bolt's own hole, when the
-model's hole is the cylinder of ``hole_diameter``, is filled in the polygon and π r_h² is
-subtracted exactly, so an unclipped cone gives π(r² − r_h²) to rounding.  Curved edges of
-the section (other holes, pockets) are sampled with a chord deflection (sections.py).
+of circle–triangle areas over the edges, no polygonal disc).  The bolt's own hole (a
+coaxial circular ring in the section, or any ring inside ``hole_diameter``) is filled in
+the polygon and π·max(R_model, r_h)² is subtracted exactly, so an unclipped cone gives
+π(r² − r_h²) to rounding.  Curved edges of the section (other holes, pockets) are sampled
+with a chord deflection (sections.py).
 
 Speed: the faces of each part are classified once (:class:`~geomjoint.geometry.sections.
 FaceCatalog`).  A layer is split at planar faces perpendicular to the axis; a piece with
@@ -33,6 +34,7 @@ Source of the cone model: Budynas & Nisbett, *Shigley's Mechanical Engineering D
 """
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
 from typing import Callable, Sequence
@@ -59,8 +61,8 @@ DEFAULT_CONE_ANGLE_DEG = 30.0
 # numerical tolerances of our own choosing (geometry in mm)
 _PARALLEL_TOL = 1e-6        # |cos| below which a face normal is perpendicular to the axis
 _LENGTH_TOL = 1e-7          # mm, coincidence of heights
-_HOLE_FILL_TOL = 1e-5       # mm, a ring within r_h + this is the bolt's own hole
-_ADAPT_RTOL = 1e-11         # relative agreement of Gauss on a piece vs on its two halves
+_HOLE_FILL_TOL = 1e-5       # mm, roundness of a coaxial ring that is the bolt's own hole
+_ADAPT_RTOL = 1e-9          # relative agreement of Gauss on a piece vs on its two halves
 _ADAPT_DEPTH = 6            # max halvings of a prismatic piece
 _ADAPT_DEPTH_SECTIONED = 1  # max halvings where every point costs a true section
 _MANY_VERTICES = 64         # rings with more vertices give only min/max breakpoints
@@ -394,10 +396,13 @@ def _half_plane(a: float, b: float, c: float, size: float) -> Polygon | None:
 
 @dataclass
 class _Local:
-    """A section in the joint's local 2-D coordinates (axis at the origin), hole filled."""
+    """A section in the joint's local 2-D coordinates (axis at the origin), hole filled.
+
+    hole_area: mm², what to subtract from area(disc ∩ geom) for the filled bolt hole.
+    """
 
     geom: MultiPolygon
-    subtract_hole: bool
+    hole_area: float
 
 
 def _to_multi(geom) -> MultiPolygon:
@@ -418,17 +423,27 @@ def _localise(section: MultiPolygon, cone: _Cone, size: float, hole_radius: floa
     local = shapely.affinity.translate(windowed, -cx, -cy) if not windowed.is_empty else windowed
     polys = []
     origin = Point(0.0, 0.0)
+    fill_radius = hole_radius
     for poly in _to_multi(local).geoms:
         kept = []
         for ring in poly.interiors:
             xy = np.asarray(ring.coords)
-            far = float(np.hypot(xy[:, 0], xy[:, 1]).max())
-            if far <= hole_radius + _HOLE_FILL_TOL and Polygon(ring).contains(origin):
-                continue  # the bolt's own hole: filled here, subtracted exactly
+            dist = np.hypot(xy[:, 0], xy[:, 1])
+            far = float(dist.max())
+            circular = far - float(dist.min()) <= _HOLE_FILL_TOL + 1e-6 * far
+            if (circular or far <= hole_radius + _HOLE_FILL_TOL) and Polygon(ring).contains(origin):
+                # the bolt's own hole: filled here and subtracted exactly (as a circle of
+                # the model's radius, or of hole_diameter if that is larger)
+                if circular:
+                    fill_radius = max(fill_radius, far)
+                continue
             kept.append(ring)
         polys.append(Polygon(poly.exterior, kept))
     geom = MultiPolygon(polys)
-    return _Local(geom, bool(geom.contains(origin)) if polys else False)
+    # the bolt passes where the material (holes filled) covers the axis; elsewhere the
+    # axis lies in a void larger than the hole and nothing is subtracted
+    inside = bool(geom.contains(origin)) if polys else False
+    return _Local(geom, math.pi * fill_radius ** 2 if inside else 0.0)
 
 
 class _LayerSampler:
@@ -443,6 +458,7 @@ class _LayerSampler:
         self.rh = 0.5 * layer.hole_diameter
         self.planes = [p for p in planes if layer.part in p.parts] if use_neighbours else []
         self._prepared: dict = {}
+        self._edges: dict = {}
 
     # -- region decomposition from the face catalogue --------------------------------
     def regions(self, za: float, zb: float) -> list[tuple[float, float, bool]]:
@@ -513,46 +529,74 @@ class _LayerSampler:
             geom = _to_multi(shapely.intersection(geom, half))
         return geom
 
+    def fixed_edges(self, local: _Local, mid: float, size: float) -> _EdgeSet | None:
+        """Edges of the clipped prismatic section when the clip is independent of z, else None."""
+        if not self.planes_fixed():
+            return None
+        key = round(mid, 9)
+        if key not in self._edges:
+            self._edges[key] = _edges_of(self.clipped(local, mid, size))
+        return self._edges[key]
+
     def planes_fixed(self) -> bool:
         """True when every bisecting plane is parallel to the axis (cut independent of z)."""
         return all(abs(float(self.cone.n @ p.w)) < _PARALLEL_TOL for p in self.planes)
 
-    def area(self, edges: _EdgeSet, subtract: bool, r) -> np.ndarray:
-        a = disc_polygon_area(edges.a, edges.b, r)
-        if subtract:
-            a = a - math.pi * self.rh ** 2
-        return a
+    def area(self, edges: _EdgeSet, hole_area: float, r) -> np.ndarray:
+        return disc_polygon_area(edges.a, edges.b, r) - hole_area
 
 
-def _gauss(n: int):
-    x, w = np.polynomial.legendre.leggauss(n)
-    return x, w
+@functools.lru_cache(maxsize=32)
+def _gauss(n: int) -> tuple[np.ndarray, np.ndarray]:
+    """Gauss–Legendre nodes and weights on [−1, 1] (pure function of n, so cached)."""
+    return np.polynomial.legendre.leggauss(n)
 
 
 def _integrate_piece(f_vec: Callable[[np.ndarray], np.ndarray], a: float, b: float,
-                     n: int, depth: int) -> tuple[float, list[tuple[float, float]]]:
-    """∫_a^b f dz by Gauss–Legendre with adaptive halving; returns value and (z, f) samples."""
+                     n: int, depth: int, kinked: bool = False
+                     ) -> tuple[float, list[tuple[float, float]]]:
+    """∫_a^b f dz by Gauss–Legendre with adaptive halving; returns value and (z, f) samples.
+
+    `kinked`: an end of [a, b] is a height where the disc starts to meet an edge or a
+    corner; there A(z) − A₀ ∝ (z − z₀)^{3/2}, which Gauss resolves slowly.  The piece is
+    then integrated in s ∈ [0, 1] with z = a + (b − a)(3s² − 2s³) (zero slope at both
+    ends), which turns the end behaviour into a smooth s³ term.
+    The rule on an interval and on its two halves are evaluated in one call of `f_vec`;
+    a half is refined while the two disagree by more than _ADAPT_RTOL (at most `depth`).
+    """
     x, w = _gauss(n)
+    span = b - a
 
-    def rule(lo, hi):
-        z = 0.5 * (hi - lo) * x + 0.5 * (hi + lo)
-        fz = f_vec(z)
-        return 0.5 * (hi - lo) * float(w @ fz), list(zip(z.tolist(), fz.tolist()))
+    def z_of(sv):
+        return a + span * (3 * sv * sv - 2 * sv ** 3) if kinked else a + span * sv
 
-    def rec(lo, hi, whole, level):
+    def jac(sv):
+        return span * 6 * sv * (1 - sv) if kinked else np.full_like(sv, span)
+
+    def nodes(lo, hi):
+        return 0.5 * (hi - lo) * x + 0.5 * (hi + lo)
+
+    def rec(lo, hi, level):
         mid = 0.5 * (lo + hi)
-        left, ls = rule(lo, mid)
-        right, rs = rule(mid, hi)
-        if level <= 0 or abs(left + right - whole[0]) <= _ADAPT_RTOL * abs(left + right):
-            return left + right, ls + rs
-        lv, lsamp = rec(lo, mid, (left, ls), level - 1)
-        rv, rsamp = rec(mid, hi, (right, rs), level - 1)
-        return lv + rv, lsamp + rsamp
+        if level <= 1:
+            sv = np.concatenate((nodes(lo, mid), nodes(mid, hi)))
+        else:
+            sv = np.concatenate((nodes(lo, hi), nodes(lo, mid), nodes(mid, hi)))
+        z = z_of(sv)
+        fz = f_vec(z)
+        g = fz * jac(sv)
+        if level <= 1:
+            value = 0.5 * (mid - lo) * float(w @ g[:n]) + 0.5 * (hi - mid) * float(w @ g[n:])
+            return value, list(zip(z.tolist(), fz.tolist()))
+        whole = 0.5 * (hi - lo) * float(w @ g[:n])
+        halves = 0.5 * (mid - lo) * float(w @ g[n:2 * n]) + 0.5 * (hi - mid) * float(w @ g[2 * n:])
+        if abs(halves - whole) <= _ADAPT_RTOL * abs(halves):
+            return halves, list(zip(z[n:].tolist(), fz[n:].tolist()))
+        lv, ls = rec(lo, mid, level - 1)
+        rv, rs = rec(mid, hi, level - 1)
+        return lv + rv, ls + rs
 
-    whole = rule(a, b)
-    if depth <= 0:
-        return whole
-    return rec(a, b, whole, depth - 1)
+    return rec(0.0, 1.0, max(depth, 1))
 
 
 def _zero_area(joint: ConeJoint, part: str, z: float) -> InputError:
@@ -585,7 +629,7 @@ def cone_area(joint: ConeJoint, z: float, neighbours: Sequence[ConeJoint] = (),
             zz = min(max(z, za + 1e-6 * (zb - za)), zb - 1e-6 * (zb - za))
             local = sampler.local_at(zz, None, size)
             edges = _edges_of(sampler.clipped(local, zz, size))
-            return float(max(sampler.area(edges, local.subtract_hole, r)[0], 0.0))
+            return float(max(sampler.area(edges, local.hole_area, r)[0], 0.0))
     return 0.0
 
 
@@ -611,22 +655,29 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
     cache = cache or ConeCache()
     cone = _Cone(joint)
     planes = _bisector_planes(cone, neighbours)
-    samplers: dict[int, _LayerSampler] = {}
     per_layer: dict[int, float] = {}
     samples: list[tuple[float, float, float]] = []
     regions_out: list[tuple[str, float, float, bool]] = []
     ideal = 0.0
     total = 0.0
     for layer, side, za, zb in cone.pieces():
-        sampler = samplers.setdefault(id(layer), _LayerSampler(cone, layer, planes, cache))
         r0, slope = (cone.rw, cone.tan) if side == "head" else (cone.rf + cone.L * cone.tan, -cone.tan)
-        ideal += frustum_compliance(layer.E, r0, slope, sampler.rh, za, zb)
+        ideal += frustum_compliance(layer.E, r0, slope, 0.5 * layer.hole_diameter, za, zb)
+    for layer in joint.layers:
+        za, zb = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
+        if zb - za <= _LENGTH_TOL:
+            continue
+        sampler = _LayerSampler(cone, layer, planes, cache)
         delta = 0.0
         for a, b, prismatic in sampler.regions(za, zb):
             regions_out.append((layer.part, a, b, prismatic))
+            # one window and (if prismatic) one section for the whole region, both sides
             size = 1.05 * cone.reach(a, b) + 1.0
-            delta += _integrate_region(cone, sampler, side, a, b, prismatic, size,
-                                       gauss_points, samples)
+            for side, lo, hi in (("head", 0.0, cone.z_mid), ("far", cone.z_mid, cone.L)):
+                sa, sb = max(a, lo), min(b, hi)
+                if sb - sa > _LENGTH_TOL:
+                    delta += _integrate_region(cone, sampler, side, sa, sb, prismatic, size,
+                                               gauss_points, samples, 0.5 * (a + b))
         per_layer[id(layer)] = per_layer.get(id(layer), 0.0) + delta
         total += delta
     if not (total > 0 and math.isfinite(total)):
@@ -670,20 +721,23 @@ def _area_at(cone: _Cone, layer: ConeLayer, planes, cache, z: float, r: float,
             zz = min(max(z, a + 1e-6 * (b - a)), b - 1e-6 * (b - a))
             local = sampler.local_at(zz, 0.5 * (a + b) if prismatic else None, size)
             edges = _edges_of(sampler.clipped(local, zz, size))
-            return float(max(sampler.area(edges, local.subtract_hole, r)[0], 0.0))
+            return float(max(sampler.area(edges, local.hole_area, r)[0], 0.0))
     return 0.0
 
 
 def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, b: float,
                       prismatic: bool, size: float, n: int,
-                      samples: list[tuple[float, float, float]]) -> float:
-    """∫_a^b dz/(E·A(z)) over one region of one layer on one cone side."""
+                      samples: list[tuple[float, float, float]], region_mid: float) -> float:
+    """∫_a^b dz/(E·A(z)) over (part of) one region of one layer on one cone side.
+
+    A prismatic region is sectioned once, at `region_mid` (the middle of the whole region,
+    so the head and far sides and every joint through the same plate share the section).
+    """
     layer = sampler.layer
     E = layer.E
     if prismatic:
-        local = sampler.local_at(0.5 * (a + b), 0.5 * (a + b), size)
-        fixed = sampler.planes_fixed()
-        edges = _edges_of(sampler.clipped(local, 0.5 * (a + b), size)) if fixed else None
+        local = sampler.local_at(region_mid, region_mid, size)
+        edges = sampler.fixed_edges(local, region_mid, size)
         # split where the disc radius meets a vertex or touches an edge
         cuts = [a, b]
         if edges is not None:
@@ -698,11 +752,11 @@ def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, 
         def f_vec(z: np.ndarray) -> np.ndarray:
             r = cone.side_radius(z, side)
             if edges is not None:
-                area = sampler.area(edges, local.subtract_hole, r)
+                area = sampler.area(edges, local.hole_area, r)
             else:
                 area = np.array([
                     sampler.area(_edges_of(sampler.clipped(local, float(zi), size)),
-                                 local.subtract_hole, float(ri))[0]
+                                 local.hole_area, float(ri))[0]
                     for zi, ri in zip(z, r)])
             if np.any(area <= 0):
                 raise _zero_area(cone.joint, layer.part, float(z[np.argmin(area)]))
@@ -717,7 +771,7 @@ def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, 
             for zi in z:
                 local_z = sampler.local_at(float(zi), None, size)
                 edges_z = _edges_of(sampler.clipped(local_z, float(zi), size))
-                area = float(sampler.area(edges_z, local_z.subtract_hole, float(cone.side_radius(zi, side)))[0])
+                area = float(sampler.area(edges_z, local_z.hole_area, float(cone.side_radius(zi, side)))[0])
                 if area <= 0:
                     raise _zero_area(cone.joint, layer.part, float(zi))
                 out.append(1.0 / (E * area))
@@ -725,8 +779,9 @@ def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, 
 
         depth = _ADAPT_DEPTH_SECTIONED
     delta = 0.0
+    kinks = set(cuts[1:-1])
     for lo, hi in zip(cuts[:-1], cuts[1:]):
-        value, pts = _integrate_piece(f_vec, lo, hi, n, depth)
+        value, pts = _integrate_piece(f_vec, lo, hi, n, depth, kinked=lo in kinks or hi in kinks)
         delta += value
         samples.extend((z, 1.0 / (E * fz), E) for z, fz in pts)
     return delta
