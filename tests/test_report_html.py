@@ -297,7 +297,7 @@ def test_table_numbers_match_the_result_and_results_json(doc_si, results):
             assert float(cell[0]["data-value"]) == j["factors"][key]
             assert number(cell[1]) == pytest.approx(j["factors"][key], abs=0.005)
         verdict_cell = row[9][1]
-        assert verdict_cell == r.verdict.upper()   # verdict as text, never colour alone
+        assert verdict_cell == r.verdict.upper() == j["verdict"].upper()   # verdict as text, never colour alone
 
 
 def test_numbers_section_values_and_sources(doc_si, results):
@@ -464,3 +464,37 @@ def test_engine_result_renders():
     assert r.preload == pytest.approx(0.75 * 84.3 * 830.0)
     for svg in svgs(doc):
         ET.fromstring(svg)
+
+
+def test_vdi_and_clipped_cone_details_render(results):
+    # what the pipeline leaves for a VDI joint with a geometry-clipped cone
+    r = results[0]
+    k = r.member_stiffness
+    vdi = dataclasses.replace(r, details={**r.details, "fatigue_criterion": "vdi",
+                                          "vdi": {"preload": r.preload, "sigma_AS": 52.0},
+                                          "cone": {"stiffness": k, "ideal_stiffness": 1.25 * k,
+                                                   "area_fraction_mid_grip": 0.8, "lost_to_edges": 0.2,
+                                                   "lost_to_neighbours": 0.0}},
+                              Se=52.0, n_f=52.0 / r.sigma_a)
+    doc = html_report([vdi], title="vdi")
+    for svg in svgs(doc):
+        ET.fromstring(svg)
+    assert "VDI 2230 endurance limit" in doc and "R9" in doc
+    assert "cone area kept at mid-grip: 80 %" in doc
+    assert "Pressure cone clipped by the parts" in doc
+    # the flat VDI line: sigma_a = sigma_AS for every mean stress up to S_p (VDI 2230-1:2015 R9, from memory)
+    xs, ys = criterion_curve("vdi", 52.0, 1040.0, 830.0, 940.0, n=5)
+    assert ys == [52.0] * 5 and xs[-1] == 830.0
+
+
+def test_check_without_a_number_is_not_called_unbounded(results):
+    # a geometry check (stack-up) has no value and no requirement; failing, it governs
+    r = results[0]
+    bad = dataclasses.replace(r, verdict="fail", ok=False, governing="stack-up",
+                              checks=r.checks + [Check("stack-up", None, None, False, "holes 1.2 mm off axis")])
+    doc = html_report([bad], title="stack-up")
+    assert "stack-up (fails: holes 1.2 mm off axis)" in doc
+    assert "unbounded against" not in doc
+    row = re.search(r'<th scope="row">stack-up</th><td class="num">([^<]*)</td><td class="num">([^<]*)</td>'
+                    r'<td class="bad">FAILS</td>', doc)
+    assert row and row.group(1) == "–" and row.group(2) == "–"

@@ -33,6 +33,7 @@ FATIGUE_SOURCES = {
     "gerber": "Gerber parabola, Shigley 10th ed., eq. 8-39 (load line from σ_i)",
     "asme-elliptic": "ASME ellipse, Shigley 10th ed., eq. 8-40 (load line from σ_i)",
     "soderberg": "Soderberg line, Shigley 10th ed., Sec. 8-11 (load line from σ_i)",
+    "vdi": "σ_AS/σ_a, VDI 2230-1 (2015) R9",
 }
 
 _VERDICTS = ("pass", "marginal", "fail")
@@ -85,9 +86,18 @@ def _size_shown(r: JointResult, u: ReportUnits) -> str:
     return plots.fastener_label(r)
 
 
+def _check_value(c) -> str:
+    """A check's value: None is an unbounded factor when there is a requirement, else no number."""
+    if c.value is None:
+        return "unbounded" if c.required is not None and c.ok else "–"
+    return _fmt(c.value)
+
+
 def _governing(r: JointResult) -> str:
     for c in r.checks:
         if c.name == r.governing:
+            if c.value is None or c.required is None:
+                return f"{r.governing} ({'ok' if c.ok else 'fails'}{': ' + c.note if c.note else ''})"
             return f"{r.governing} ({_fmt(c.value)} against {_fmt(c.required)} required)"
     return r.governing
 
@@ -195,6 +205,8 @@ def _joints_table(results: list[JointResult], u: ReportUnits) -> str:
 
 
 def _preload_source(r: JointResult, u: ReportUnits) -> str:
+    if isinstance(r.details.get("vdi"), dict):
+        return "service preload of the VDI 2230-1 (2015) chain (table below)"
     p = r.spec.preload
     if p.mode == "proof_fraction":
         return f"{p.value * 100:g}% of the proof load A_t·S_p (Shigley 10th ed., Sec. 8-9)"
@@ -217,6 +229,8 @@ _ENDURANCE_SOURCES = {
 
 
 def _endurance_source(r: JointResult) -> str:
+    if plots.criterion_of(r) == "vdi":
+        return "endurance limit σ_AS of the bolt thread, VDI 2230-1 (2015) R9"
     method = r.details.get("endurance_method")
     if method in _ENDURANCE_SOURCES:
         return _ENDURANCE_SOURCES[method]
@@ -232,7 +246,7 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
         ("grip", _fmt(u.len(r.grip), ".4g"), u.length, "sum of the clamped layers (as the scan defines it)"),
         ("effective grip l′", _fmt(u.len(r.effective_grip), ".4g"), u.length, "Shigley 10th ed., Table 8-7"),
         ("stress area A_t", _fmt(area, ".4g"), area_unit,
-         "ISO 898-1 / ASME B1.1 tensile stress area" if f.system != "inch" else "ASME B1.1 tensile stress area"),
+         "ISO 898-1 stress area A_s" if f.system != "inch" else "ASME B1.1 tensile stress area"),
         ("proof strength S_p", _fmt(u.s(f.proof)), u.stress, f"grade {f.grade} (ISO 898-1 / SAE J429)"),
         ("yield strength S_y", _fmt(u.s(f.yield_strength)), u.stress, f"grade {f.grade}"),
         ("tensile strength S_ut", _fmt(u.s(f.tensile)), u.stress, f"grade {f.grade}"),
@@ -290,8 +304,8 @@ def _checks(r: JointResult) -> str:
     body = []
     for c in r.checks:
         state = "ok" if c.ok else "FAILS"
-        body.append(f'<tr><th scope="row">{_e(c.name)}</th><td class="num">{_e(_fmt(c.value))}</td>'
-                    f'<td class="num">{_e(_fmt(c.required))}</td><td class="{"" if c.ok else "bad"}">{state}</td>'
+        body.append(f'<tr><th scope="row">{_e(c.name)}</th><td class="num">{_e(_check_value(c))}</td>'
+                    f'<td class="num">{_e("–" if c.required is None else _fmt(c.required))}</td><td class="{"" if c.ok else "bad"}">{state}</td>'
                     f'<td class="src">{_e(c.note)}</td></tr>')
     return ('<table class="checks"><thead><tr><th>check</th><th>value</th><th>required</th><th>state</th>'
             f'<th>note</th></tr></thead><tbody>{"".join(body)}</tbody></table>')
@@ -303,10 +317,55 @@ def _vdi(r: JointResult, u: ReportUnits) -> str:
         return ""
     rows = []
     for key, value in vdi.items():
-        shown = _fmt(value) if isinstance(value, (int, float)) and not isinstance(value, bool) else str(value)
+        if value is None:
+            shown = "–"
+        elif isinstance(value, (int, float)) and not isinstance(value, bool):
+            shown = _fmt(value)
+        else:
+            shown = str(value)
         rows.append(f'<tr><th scope="row">{_e(key)}</th><td class="num">{_e(shown)}</td></tr>')
-    return ('<h3>VDI 2230-1 (2015) chain</h3><p class="src">internal units: N, mm, MPa, N·mm</p>'
-            f'<table class="vdi"><tbody>{"".join(rows)}</tbody></table>')
+    return ('<details class="vdi"><summary><b>VDI 2230-1 (2015) chain</b> (internal units: N, mm, MPa, N·mm)'
+            f'</summary><table class="vdi"><tbody>{"".join(rows)}</tbody></table></details>')
+
+
+#: the geometry-based member stiffness numbers the pipeline leaves in ``details``
+_GEOMETRY_ROWS = {
+    "cone": ("Pressure cone clipped by the parts", (
+        ("stiffness", "stiffness of the clipped cone", "k"),
+        ("ideal_stiffness", "stiffness of the unclipped cone", "k"),
+        ("area_fraction_mid_grip", "area kept at mid-grip (fraction of the ideal)", "1"),
+        ("lost_to_edges", "area lost to part edges (fraction)", "1"),
+        ("lost_to_neighbours", "area shared with neighbouring joints (fraction)", "1"),
+    )),
+    "fe": ("Finite-element member model", (
+        ("stiffness", "member stiffness", "k"),
+        ("outer_diameter", "outer diameter of the modelled members", "len"),
+        ("mesh_change", "change on mesh refinement (fraction)", "1"),
+    )),
+}
+
+
+def _geometry(r: JointResult, u: ReportUnits) -> str:
+    out = []
+    for key, (heading, rows) in _GEOMETRY_ROWS.items():
+        data = r.details.get(key)
+        if not isinstance(data, dict):
+            continue
+        body = []
+        for name, label, kind in rows:
+            v = data.get(name)
+            if not isinstance(v, (int, float)) or isinstance(v, bool):
+                continue
+            if kind == "k":
+                shown, unit = _fmt(u.k(v)), u.stiffness
+            elif kind == "len":
+                shown, unit = _fmt(u.len(v)), u.length
+            else:
+                shown, unit = _fmt(v, ".3f"), "–"
+            body.append(f'<tr><th scope="row">{_e(label)}</th><td class="num">{_e(shown)}</td><td>{_e(unit)}</td></tr>')
+        if body:
+            out.append(f'<h3>{_e(heading)}</h3><table class="{key}"><tbody>{"".join(body)}</tbody></table>')
+    return "".join(out)
 
 
 def _findings(r: JointResult) -> str:
@@ -339,7 +398,7 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
             f'<h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2>'
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
             f'<div class="figs">{fig_html}</div>'
-            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_vdi(r, u)}{_findings(r)}</section>")
+            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</section>")
 
 
 def html_report(results: list[JointResult], *, title: str, units: str = "SI",

@@ -249,8 +249,9 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
             fill = _material_fill(layer.material)
             rect(-half_width, z, -inner, z1, facecolor=fill, edgecolor="black", lw=0.6)
             rect(inner, z, half_width, z1, facecolor=fill, edgecolor="black", lw=0.6)
-            name = layer.part or layer.material
-            label = f"{name}: {layer.material}, {s(layer.thickness):.3g} {u.length}"
+            label = f"{layer.material}, {s(layer.thickness):.3g} {u.length}"
+            if layer.part:
+                label = f"{layer.part}: {label}"
             if tapped_layer:
                 label += " (tapped)"
         ax.annotate(label, (s(half_width), -s((z + z1) / 2.0)), xytext=(4, 0), textcoords="offset points",
@@ -300,6 +301,12 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
             ax.add_patch(Polygon([(s(x), -s(zz)) for x, zz in poly], closed=True, facecolor=CONE_COLOUR,
                                  alpha=0.18, edgecolor=CONE_COLOUR, lw=1.0, ls="--"))
     ax.plot([0, 0], [s(head_h * 1.3), -s(max(length, stack_end) * 1.05)], color="black", lw=0.5, ls="-.")
+    cone = result.details.get("cone")
+    if isinstance(cone, dict) and isinstance(cone.get("area_fraction_mid_grip"), (int, float)):
+        # the geometry clipped the cones: say how much of the mid-grip area the parts really offer
+        ax.annotate(f"cone area kept at mid-grip: {100.0 * cone['area_fraction_mid_grip']:.0f} %",
+                    (s(half_width), -s(mid)), xytext=(4, -12), textcoords="offset points", fontsize=7,
+                    color=CONE_COLOUR)
 
     top = head_h * 1.3
     bottom = max(length, stack_end + (0 if spec.tapped else (spec.nut_height or NUT_HEIGHT * d))) * 1.05
@@ -353,7 +360,7 @@ def joint_diagram_svg(result: JointResult, units: str = "SI") -> str:
     ax = fig.add_subplot(1, 1, 1)
     top = max(p["bolt_force"], F_i)
     window = result.tightening or {}
-    if "preload_min" in window and "preload_max" in window:
+    if "preload_min" in window and "preload_max" in window and window["preload_max"] > window["preload_min"]:
         top = max(top, window["preload_max"])
         ax.axhspan(F(window["preload_min"]), F(window["preload_max"]), color=WINDOW_COLOUR, alpha=0.35,
                    label="preload window (scatter)")
@@ -398,14 +405,17 @@ def criterion_curve(criterion: str, Se: float, S_ut: float, S_p: float, S_y: flo
 
     Goodman line S_a/S_e + S_m/S_ut = 1, Gerber parabola S_a/S_e + (S_m/S_ut)^2 = 1,
     ASME ellipse (S_a/S_e)^2 + (S_m/S_p)^2 = 1, Soderberg line S_a/S_e + S_m/S_y = 1
-    (Shigley 10th ed., Sec. 6-12 and Sec. 8-11).
+    (Shigley 10th ed., Sec. 6-12 and Sec. 8-11); "vdi": the bolt's endurance limit
+    sigma_a = sigma_AS, the same for every mean stress up to S_p (VDI 2230-1:2015 R9).
 
     >>> criterion_curve("goodman", 100.0, 1000.0, 900.0, 800.0, n=3)
     ([0.0, 500.0, 1000.0], [100.0, 50.0, 0.0])
     """
-    S = {"goodman": S_ut, "gerber": S_ut, "asme-elliptic": S_p, "soderberg": S_y}[criterion]
+    S = {"goodman": S_ut, "gerber": S_ut, "asme-elliptic": S_p, "soderberg": S_y, "vdi": S_p}[criterion]
     xs = [S * i / (n - 1) for i in range(n)]
-    if criterion in ("goodman", "soderberg"):
+    if criterion == "vdi":
+        ys = [Se for _ in xs]       # sigma_AS does not depend on the mean stress up to the proof strength
+    elif criterion in ("goodman", "soderberg"):
         ys = [Se * (1.0 - x / S) for x in xs]
     elif criterion == "gerber":
         ys = [Se * (1.0 - (x / S) ** 2) for x in xs]
@@ -415,12 +425,13 @@ def criterion_curve(criterion: str, Se: float, S_ut: float, S_p: float, S_y: flo
 
 
 def _criterion_end(criterion: str, f) -> float:
-    return {"goodman": f.tensile, "gerber": f.tensile, "asme-elliptic": f.proof, "soderberg": f.yield_strength}[criterion]
+    return {"goodman": f.tensile, "gerber": f.tensile, "asme-elliptic": f.proof, "soderberg": f.yield_strength,
+            "vdi": f.proof}[criterion]
 
 
 _CURVE_NAMES = {"goodman": "Goodman line", "gerber": "Gerber parabola", "asme-elliptic": "ASME ellipse",
-                "soderberg": "Soderberg line"}
-_CURVE_ENDS = {"goodman": "S_ut", "gerber": "S_ut", "asme-elliptic": "S_p", "soderberg": "S_y"}
+                "soderberg": "Soderberg line", "vdi": "VDI 2230 endurance limit σ_AS"}
+_CURVE_ENDS = {"goodman": "S_ut", "gerber": "S_ut", "asme-elliptic": "S_p", "soderberg": "S_y", "vdi": "S_p"}
 
 
 def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
@@ -428,6 +439,8 @@ def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
     u = report_units(units)
     f = result.spec.fastener
     crit = criterion_of(result)
+    if crit not in _CURVE_NAMES:
+        crit = "goodman"   # an unknown name must not break the report; the table names the real one
     S = u.s
     fig = _figure()
     ax = fig.add_subplot(1, 1, 1)
@@ -439,10 +452,14 @@ def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
     ax.plot([0, S(f.proof)], [S(f.proof), 0], color="#777777", lw=0.9, ls=":", label="proof line S_a + S_m = S_p")
     sa, sm, si = result.sigma_a, result.sigma_m, result.sigma_i
     if sa > 0 and result.n_f is not None and math.isfinite(result.n_f):
-        r = (sm - si) / sa
+        # VDI: strength straight above the operating point; textbook: along the load line from sigma_i
+        r = 0.0 if crit == "vdi" else (sm - si) / sa
         Sa = result.n_f * sa
-        Sm = si + r * Sa
-        ax.plot([S(si), S(Sm)], [0, S(Sa)], color=BOLT_COLOUR, lw=1.2, ls="--", label="load line from σ_i")
+        Sm = sm if crit == "vdi" else si + r * Sa
+        if crit == "vdi":
+            ax.plot([S(sm), S(sm)], [S(sa), S(Sa)], color=BOLT_COLOUR, lw=1.2, ls="--", label="margin to σ_AS")
+        else:
+            ax.plot([S(si), S(Sm)], [0, S(Sa)], color=BOLT_COLOUR, lw=1.2, ls="--", label="load line from σ_i")
         ax.plot([S(Sm)], [S(Sa)], "s", color=BOLT_COLOUR, ms=4)
         ax.annotate(f"strength S_a = {S(Sa):.3g}", (S(Sm), S(Sa)), xytext=(6, 4), textcoords="offset points",
                     fontsize=7)
