@@ -142,10 +142,24 @@ def load_job(path: str | Path) -> Job:
         text = path.read_bytes().decode("utf-8")
     except UnicodeDecodeError:
         raise InputError("is not a UTF-8 text file", where=str(path)) from None
-    try:
-        raw = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"TOML syntax error: {exc}", where=str(path)) from None
+    return parse_job(text, path)
+
+
+def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Job:
+    """A job from TOML text or an already-parsed table (a notebook or script needs no file).
+
+    ``path`` names the job in messages; a relative ``model`` is taken from its folder.
+    """
+    path = Path(path)
+    if isinstance(source, str):
+        try:
+            raw = tomllib.loads(source)
+        except tomllib.TOMLDecodeError as exc:
+            raise InputError(f"TOML syntax error: {exc}", where=str(path)) from None
+    elif isinstance(source, dict):
+        raw = source
+    else:
+        raise InputError("a job is TOML text or a table (dict)", where=str(path))
     name = path.name
     _check_keys(raw, TOP_KEYS, name)
 
