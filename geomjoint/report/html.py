@@ -123,7 +123,8 @@ h3 {{ font-size: 1rem; margin: 1.2rem 0 .4rem; }}
 table {{ border-collapse: collapse; margin: .4rem 0 1rem; font-size: .9rem; }}
 th, td {{ border-bottom: 1px solid var(--rule); padding: .25rem .6rem; text-align: left; vertical-align: top; }}
 td.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
-th button {{ font: inherit; font-weight: 700; background: none; border: 0; padding: 0; cursor: pointer; color: inherit; }}
+th button {{ font: inherit; font-weight: 700; background: none; border: 0; padding: 0; cursor: pointer;
+             color: inherit; }}
 th button::after {{ content: " \\2195"; color: var(--muted); }}
 th[aria-sort="ascending"] button::after {{ content: " \\2191"; }}
 th[aria-sort="descending"] button::after {{ content: " \\2193"; }}
@@ -135,6 +136,7 @@ figcaption {{ font-size: .8rem; color: var(--muted); }}
 .bad {{ font-weight: 700; }}
 ul.findings li {{ margin: .15rem 0; }}
 footer {{ margin-top: 3rem; }}
+@media print {{ section.joint {{ break-before: page; }} th button::after {{ content: none; }} }}
 """
 
 # Sorting the joints table: a click on a column header sorts by that column, numbers by
@@ -277,8 +279,10 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
         ("endurance strength S_e", _fmt(u.s(r.Se)), u.stress,
          _endurance_source(r)),
         ("preload stress σ_i", _fmt(u.s(r.sigma_i)), u.stress, "F_i/A_t"),
-        ("alternating stress σ_a", _fmt(u.s(r.sigma_a)), u.stress, "C(P_max − P_min)/(2A_t), Shigley 10th ed., eq. 8-35"),
-        ("mean stress σ_m", _fmt(u.s(r.sigma_m)), u.stress, "σ_i + C(P_max + P_min)/(2A_t), Shigley 10th ed., eq. 8-36"),
+        ("alternating stress σ_a", _fmt(u.s(r.sigma_a)), u.stress,
+         "C(P_max − P_min)/(2A_t), Shigley 10th ed., eq. 8-35"),
+        ("mean stress σ_m", _fmt(u.s(r.sigma_m)), u.stress,
+         "σ_i + C(P_max + P_min)/(2A_t), Shigley 10th ed., eq. 8-36"),
         ("yield factor", _fmt(r.factors.get("yield"), ".3f" if r.factors.get("yield") else None), "–",
          "proof load / bolt force, Shigley 10th ed., eq. 8-28 form"),
         ("load factor", _fmt(r.factors.get("load"), ".3f" if r.factors.get("load") else None), "–",
@@ -305,7 +309,8 @@ def _checks(r: JointResult) -> str:
     for c in r.checks:
         state = "ok" if c.ok else "FAILS"
         body.append(f'<tr><th scope="row">{_e(c.name)}</th><td class="num">{_e(_check_value(c))}</td>'
-                    f'<td class="num">{_e("–" if c.required is None else _fmt(c.required))}</td><td class="{"" if c.ok else "bad"}">{state}</td>'
+                    f'<td class="num">{_e("–" if c.required is None else _fmt(c.required))}</td>'
+                    f'<td class="{"" if c.ok else "bad"}">{state}</td>'
                     f'<td class="src">{_e(c.note)}</td></tr>')
     return ('<table class="checks"><thead><tr><th>check</th><th>value</th><th>required</th><th>state</th>'
             f'<th>note</th></tr></thead><tbody>{"".join(body)}</tbody></table>')
@@ -384,6 +389,11 @@ def _findings(r: JointResult) -> str:
     return "".join(parts)
 
 
+def _labelled(svg: str, label: str) -> str:
+    """The SVG with an accessible name (screen readers announce it as one picture)."""
+    return svg.replace("<svg ", f'<svg role="img" aria-label="{_e(label)}" ', 1)
+
+
 def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
     figs = [
         (plots.section_svg(r, u.system), "Section through the axis, to scale: layers, bolt, washers, "
@@ -393,12 +403,14 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
         (plots.fatigue_diagram_svg(r, u.system), "Fatigue diagram of the joint's criterion with the load line "
                                                   "from the preload stress and the operating point."),
     ]
-    fig_html = "".join(f'<figure>{svg}<figcaption>{_e(cap)}</figcaption></figure>' for svg, cap in figs)
+    fig_html = "".join(f'<figure>{_labelled(svg, cap)}<figcaption>{_e(cap)}</figcaption></figure>'
+                       for svg, cap in figs)
     return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}">'
             f'<h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2>'
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
             f'<div class="figs">{fig_html}</div>'
-            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</section>")
+            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}"
+            f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</section>")
 
 
 def html_report(results: list[JointResult], *, title: str, units: str = "SI",
