@@ -302,9 +302,19 @@ class Analysis:
     model_joints: list[ModelJoint] = field(default_factory=list)
 
 
-def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None) -> Analysis:
-    """Analyse every joint of the job: typed-in joints, and every joint found in its model."""
+def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, model=None) -> Analysis:
+    """Analyse every joint of the job: typed-in joints, and every joint found in its model.
+
+    ``model`` (a STEP path or an in-memory cadquery Assembly / Workplane / Shape) replaces the
+    job's own ``model``; ``scan`` a scan already made of it.
+    """
     started = time.monotonic()
+    if model is not None and scan is None:
+        from geomjoint.geometry.scan import scan_model
+
+        scan = scan_model(model)
+    if not job.joints and job.model is None and scan is None:
+        raise InputError("no [[joint]] and no model: nothing to check", where=job.path.name)
     results = [with_remedies(spec, evaluate_joint(spec)) for spec in typed_joint_specs(job)]
     if job.model is None and scan is None:
         if job.groups:
@@ -346,6 +356,6 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None) ->
     return Analysis(results + model_results, scan, model_joints)
 
 
-def analyze(job: Job, *, workers: int = 1, quiet: bool = True) -> list[JointResult]:
-    """Analyse every joint of the job (typed-in joints; model joints when the job names a model)."""
-    return analyze_job(job, workers=workers, quiet=quiet).results
+def analyze(job: Job, model=None, *, workers: int = 1, quiet: bool = True) -> list[JointResult]:
+    """Analyse every joint of the job (typed-in joints; model joints when the job or ``model`` gives one)."""
+    return analyze_job(job, workers=workers, quiet=quiet, model=model).results

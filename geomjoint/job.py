@@ -202,8 +202,6 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
     units = raw.get("units", "SI")
     if units not in REPORT_UNITS:
         raise InputError(f"must be one of {', '.join(REPORT_UNITS)}", where=f"{name}: units")
-    if not joints and model is None:
-        raise InputError("no [[joint]] and no model: nothing to check", where=name)
     job = Job(path=path, model=model, defaults=defaults, materials=materials,
               default_material=raw.get("default_material"), joints=joints, loads=loads,
               groups=groups, fastener_rules=fastener_rules, units=units,
