@@ -500,3 +500,9 @@ def test_check_without_a_number_is_not_called_unbounded(results):
     row = re.search(r'<th scope="row">stack-up</th><td class="num">([^<]*)</td><td class="num">([^<]*)</td>'
                     r'<td class="bad">FAILS</td>', doc)
     assert row and row.group(1) == "–" and row.group(2) == "–"
+
+
+def test_empty_report_still_has_caution_and_counts():
+    doc = html_report([], title="no joints found")
+    assert doc.count(html.escape(CAUTION)) == 2
+    assert '<b id="count-joints">0</b>' in doc and svgs(doc) == []
