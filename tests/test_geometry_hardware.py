@@ -97,3 +97,12 @@ def test_plates_spacers_and_pins_are_members():
     assert _recognise(ms.plain_washer(10.5, 20, 20)) is None
     # a headless pin is no bolt
     assert _recognise(cq.Workplane().circle(5).extrude(40)) is None
+
+
+def test_round_cover_and_collared_shaft_are_not_hardware():
+    # a thin round cover with one central hole: outer / inner = 100 / 11, far beyond a washer
+    cover = cq.Workplane().circle(50).circle(5.5).extrude(5)
+    assert _recognise(cover, "round_cover") is None
+    # a shaft with a wide collar (5 d) is not a bolt head
+    shaft = cq.Workplane().circle(5).extrude(-60).union(cq.Workplane().circle(25).extrude(6))
+    assert _recognise(shaft, "shaft") is None

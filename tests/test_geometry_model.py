@@ -110,3 +110,26 @@ def test_step_without_solids(tmp_path):
     with pytest.raises(InputError) as err:
         load_model(str(path))
     assert str(path) in str(err.value) and "no solids" in str(err.value)
+
+
+@pytest.mark.parametrize("schema", ["AP203", "AP214IS", "AP242DIS"])
+def test_step_schemas_read_alike(tmp_path, schema):
+    from OCP.Interface import Interface_Static
+
+    a = cq.Assembly(name="pair")
+    a.add(ms.plate(40, 40, 12, [(0, 0)], 11.0), name="lower")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 11.0, z0=12.0), name="upper")
+    path = tmp_path / f"{schema}.step"
+    old = Interface_Static.CVal_s("write.step.schema")
+    Interface_Static.SetCVal_s("write.step.schema", schema)
+    try:
+        ms.write_step(a, str(path))
+    finally:
+        Interface_Static.SetCVal_s("write.step.schema", old)
+    head = path.read_text()[:600].upper()
+    key = {"AP203": "CONFIG_CONTROL_DESIGN", "AP214IS": "AUTOMOTIVE_DESIGN", "AP242DIS": "AP242"}[schema]
+    assert key in head
+    model = load_model(str(path))
+    assert sorted(p.name for p in model.parts) == ["lower", "upper"]
+    zs = sorted(round(_bbox(p).zlen, 6) for p in model.parts)
+    assert zs == [10.0, 12.0]

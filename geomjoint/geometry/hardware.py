@@ -29,6 +29,10 @@ from geomjoint.geometry.holes import (
 NUT_MAX_HEIGHT_RATIO = 1.5        # nut height / bore diameter
 WASHER_MAX_THICKNESS_RATIO = 0.5  # washer thickness / inner diameter
 MIN_HEAD_WIDTH_RATIO = 1.3        # head (or nut / washer) width / shank (bore) diameter
+#: upper bounds that keep round covers, flanges and collars out (common practice: ISO 7093
+#: large washers have d2 ~ 3 d, hex heads and nuts s ~ 1.5-1.8 d, flange heads ~ 2.2 d)
+WASHER_MAX_OD_RATIO = 4.0         # washer outer / inner diameter
+MAX_HEAD_WIDTH_RATIO = 3.0        # head or nut width / shank (bore) diameter
 #: cylinders up to this ratio of the longest one are shank or thread, not head
 SHANK_STEP_RATIO = 1.25
 #: relative tolerance for "same size" when matching a diameter to a thread size
@@ -201,12 +205,13 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
         ring = [p for p in outer if np.linalg.norm(p.ref - h.ref) < 10 * LINEAR_TOL
                 and abs(abs(float(np.dot(p.direction, h.direction))) - 1) < ANGLE_TOL]
         af = _hex_width(faces, h.ref, h.direction)
-        if af and af >= MIN_HEAD_WIDTH_RATIO * h.diameter and height <= NUT_MAX_HEIGHT_RATIO * h.diameter:
+        if (af and MIN_HEAD_WIDTH_RATIO * h.diameter <= af <= MAX_HEAD_WIDTH_RATIO * h.diameter
+                and height <= NUT_MAX_HEIGHT_RATIO * h.diameter):
             return Nut(part, h.ref, h.direction, h.diameter, af, height, a0, a1, af,
                        _hint(part), solid)
         if ring and height <= WASHER_MAX_THICKNESS_RATIO * h.diameter:
             od = 2 * max(p.r0 for p in ring)
-            if od >= MIN_HEAD_WIDTH_RATIO * h.diameter:
+            if MIN_HEAD_WIDTH_RATIO * h.diameter <= od <= WASHER_MAX_OD_RATIO * h.diameter:
                 return Washer(part, h.ref, h.direction, h.diameter, od, height, a0, a1,
                               _hint(part), solid)
         return None
@@ -236,9 +241,9 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
     head_cyl = [p for p in group if p.r0 > SHANK_STEP_RATIO * r_long
                 and p.t0 >= head_range[0] - LINEAR_TOL and p.t1 <= head_range[1] + LINEAR_TOL]
     af = _hex_width(faces, ref, d, head_range)
-    if af and af >= MIN_HEAD_WIDTH_RATIO * 2 * r:
+    if af and MIN_HEAD_WIDTH_RATIO * 2 * r <= af <= MAX_HEAD_WIDTH_RATIO * 2 * r:
         kind, width = "hex", af
-    elif head_cyl and 2 * max(p.r0 for p in head_cyl) >= MIN_HEAD_WIDTH_RATIO * 2 * r:
+    elif head_cyl and MIN_HEAD_WIDTH_RATIO * 2 * r <= 2 * max(p.r0 for p in head_cyl) <= MAX_HEAD_WIDTH_RATIO * 2 * r:
         kind, width = "socket", 2 * max(p.r0 for p in head_cyl)
     else:
         return None

@@ -89,7 +89,8 @@ def material_hint(*names: str | None) -> str | None:
     for n in names:
         if not n:
             continue
-        low = re.sub(r"[\s\-]+", "_", n.lower())
+        # OCCT colour names such as "LIGHTSTEELBLUE" say nothing about steel
+        low = re.sub(r"[\s\-]+", "_", n.lower()).replace("steelblue", "")
         for word, mat in MATERIAL_WORDS:
             if word in low:
                 return mat

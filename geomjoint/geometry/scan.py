@@ -47,6 +47,7 @@ class ScanResult:
     nuts: list[Nut] = field(default_factory=list)
     washers: list[Washer] = field(default_factory=list)
     hole_count: int = 0
+    unmatched_hardware: list[str] = field(default_factory=list)   # bolts/nuts/washers in no joint
 
     @property
     def failed(self) -> bool:
@@ -74,8 +75,11 @@ def scan_model(source: Any) -> ScanResult:
     joints = find_joints(holes, bolts, nuts, washers, hints)
     for j in joints:
         add_findings(j)
+    used = {j.bolt.part for j in joints if j.bolt} | {j.nut.part for j in joints if j.nut} | \
+        {w.part for j in joints for w in j.washers}
+    loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
     return ScanResult(source=model.source, model=model, joints=joints, bolts=bolts, nuts=nuts,
-                      washers=washers, hole_count=len(holes))
+                      washers=washers, hole_count=len(holes), unmatched_hardware=loose)
 
 
 def _system_hint(j: Joint) -> str | None:
@@ -140,16 +144,18 @@ def add_findings(j: Joint) -> None:
                         f"no bolt modelled and hole {j.hole_diameter:.2f} mm matches no standard size"))
     # misalignment: pairwise offset beyond the sum of the radial clearances
     if d is not None:
-        worst = None
+        failing = []
         for i, a in enumerate(j.layers):
             for b in j.layers[i + 1:]:
                 ca = 0.0 if a.role == "tapped" else max(0.0, (a.hole_diameter - d) / 2)
                 cb = 0.0 if b.role == "tapped" else max(0.0, (b.hole_diameter - d) / 2)
                 off = math.dist(a.position, b.position)
-                if off > ca + cb + LINEAR_TOL and (worst is None or off - ca - cb > worst[0]):
-                    worst = (off - ca - cb, a, b, off, ca + cb)
-        if worst:
-            _, a, b, off, allowed = worst
+                if off > ca + cb + LINEAR_TOL:
+                    # name a pair of clamped parts rather than a washer when both fail
+                    members = a.role != "washer" and b.role != "washer"
+                    failing.append(((members, off - ca - cb), a, b, off, ca + cb))
+        if failing:
+            _, a, b, off, allowed = max(failing, key=lambda f: f[0])
             add(Finding("fail", "misaligned",
                         f"holes of {a.part} and {b.part} are {off:.3f} mm off axis; "
                         f"the bolt passes {allowed:.3f} mm"))
@@ -214,18 +220,21 @@ def add_findings(j: Joint) -> None:
         needed = j.grip + nut_h + SIZING_PROTRUSION_PITCHES * pitch
         if j.bolt is not None:
             nut_end = (j.layers[-1].end + nut_h) if j.nut is None else _nut_end(j)
+            assumed = "" if j.nut else f" (no nut modelled: {nut_h:.2f} mm {t.designation} nut assumed)"
             protr = j.bolt.length - nut_end
             if protr < MIN_PROTRUSION_PITCHES * pitch - LINEAR_TOL:
                 where = (f"protrudes only {protr:.2f} mm past the nut" if protr >= 0
                          else f"ends {-protr:.2f} mm inside the nut")
                 add(Finding("fail", "bolt-short",
                             f"{j.bolt.part}: {where}; needs at least "
-                            f"{MIN_PROTRUSION_PITCHES * pitch:.2f} mm (one pitch) past it"))
+                            f"{MIN_PROTRUSION_PITCHES * pitch:.2f} mm (one pitch) past it{assumed}"))
             elif protr > MAX_PROTRUSION_DIAMETERS * t.d + LINEAR_TOL:
                 add(Finding("warn", "bolt-long",
                             f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut (limit {MAX_PROTRUSION_DIAMETERS:g} d = "
                             f"{MAX_PROTRUSION_DIAMETERS * t.d:.2f} mm)"))
-    if j.bolt is not None:
+    # the catalog's thread-length rule is the hex-bolt one (ISO 4014 / ASME B18.2.1);
+    # socket head cap screws (ISO 4762) have longer threads, so they are not judged by it
+    if j.bolt is not None and j.bolt.head_kind == "hex":
         b = catalog.thread_length(t, j.bolt.length)
         shank = j.bolt.length - b
         if shank > j.grip + LINEAR_TOL and j.kind != "blind":
@@ -295,7 +304,7 @@ def scan_to_json(result: ScanResult) -> dict:
 def scan_table(result: ScanResult) -> str:
     """A readable table: one block per joint (id, kind, size, grip, layers, findings)."""
     lines = [f"{result.source}: {len(result.model.parts)} parts, {len(result.joints)} joints"]
-    head = f"{'id':<4} {'kind':<8} {'size':<12} {'hole':>7} {'grip':>8}  layers"
+    head = f"{'id':<4} {'kind':<8} {'size':<16} {'hole':>7} {'grip':>8}  layers"
     lines += [head, "-" * len(head)]
     for j in result.joints:
         layers = " | ".join(f"{l.part} {l.thickness:.2f}" + ("" if l.role == "member" else f" ({l.role})")
@@ -303,9 +312,11 @@ def scan_table(result: ScanResult) -> str:
         size = j.nominal or "?"
         if j.bolt:
             size += f"x{j.bolt.length:g}"
-        lines.append(f"{j.id:<4} {j.kind:<8} {size:<12} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
+        lines.append(f"{j.id:<4} {j.kind:<8} {size:<16} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
         for f in j.findings:
             lines.append(f"{'':<4} {f.severity:<5} {f.code:<18} {f.message}")
+    if result.unmatched_hardware:
+        lines.append("hardware in no joint: " + ", ".join(result.unmatched_hardware))
     fails = sum(f.severity == "fail" for j in result.joints for f in j.findings)
     lines.append(f"{fails} failing finding(s)")
-    return "\n".join(lines)
+    return "\n".join(lines) + "\n"
