@@ -286,3 +286,62 @@ def test_through_tapped_plate_and_nonstandard_hole():
     (k,) = scan_model(b).joints
     # ISO 273 for M10: 10.5 / 11 / 12 mm; 11.6 is none of them
     assert "hole-not-standard" in codes(k)
+
+
+def test_counterbore_marks_the_head_side_without_hardware():
+    a = cq.Assembly(name="cb_pair")
+    a.add(ms.plate(40, 40, 12, [(0, 0)], 9.0), name="base")
+    cover = (cq.Workplane("XY").box(40, 40, 14, centered=(True, True, False)).translate((0, 0, 12))
+             .faces(">Z").workplane().cboreHole(9.0, 15.0, 6.0))
+    a.add(cover, name="cover")
+    (j,) = scan_model(a).joints
+    # without the counterbore rule the canonical direction would be +z
+    assert j.direction == pytest.approx((0, 0, -1), abs=1e-12)
+    assert [l.part for l in j.layers] == ["cover", "base"]
+    # the head bears on the seat 6 mm below the top: 8 mm of cover + 12 mm of base
+    assert j.layers[0].thickness == pytest.approx(8.0, abs=TOL)
+    assert j.grip == pytest.approx(20.0, abs=TOL)
+    assert j.point == pytest.approx((0, 0, 20.0), abs=TOL)
+
+
+def test_tapped_hole_modelled_at_nominal_diameter_is_engagement():
+    a = cq.Assembly(name="cosmetic")
+    block = (cq.Workplane("XY").box(40, 40, 30, centered=(True, True, False)).translate((0, 0, -30))
+             .faces(">Z").workplane().hole(8.0, 18))
+    a.add(block, name="block_steel")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 9.0), name="strap")
+    a.add(ms.socket_screw(8, 20, 13, 8), name="screw", loc=ms.down(10.0))
+    (j,) = scan_model(a).joints
+    assert j.kind == "tapped" and j.layers[-1].part == "block_steel"
+    assert j.grip == pytest.approx(10.0, abs=TOL) and j.tapped_depth == pytest.approx(18.0, abs=TOL)
+    # the 8 mm screw fills the 8 mm bore: thread engagement, not interference;
+    # 20 - 10 = 10 mm engaged >= 1.0 d in steel (common practice)
+    assert not [f for f in j.findings if f.severity != "info"]
+
+
+def test_bolt_wider_than_a_hole_is_interference():
+    a = cq.Assembly(name="tight")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 11.0), name="lower")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 11.0, z0=10.0), name="upper")
+    a.add(ms.hex_bolt(12, 40, 18, 7.5), name="bolt", loc=ms.down(20.0))
+    a.add(ms.hex_nut(12, 18, 10.8), name="nut", loc=ms.up_from(0.0))
+    (j,) = scan_model(a).joints
+    assert "interference" in codes(j)
+
+
+def test_stack_ends_at_the_nut_and_nut_side_counterbore():
+    a = cq.Assembly(name="recessed_nut")
+    lower = (cq.Workplane("XY").box(40, 40, 20, centered=(True, True, False))
+             .faces("<Z").workplane().cboreHole(11.0, 20.0, 10.0))
+    a.add(lower, name="lower")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 11.0, z0=20.0), name="upper")
+    a.add(ms.hex_bolt(10, 45, 16, 6.4), name="bolt_M10x45", loc=ms.down(30.0))
+    a.add(ms.hex_nut(10, 16, 8.4), name="nut", loc=ms.up_from(10.0))
+    # a plate 3 mm under the nut on the same axis is not part of this joint
+    a.add(ms.plate(40, 40, 5, [(0, 0)], 11.0, z0=-1.4 - 5.0), name="guard")
+    (j,) = scan_model(a).joints
+    assert [l.part for l in j.layers] == ["upper", "lower"]
+    # the nut bears on the counterbore seat 10 mm up: grip = 10 + 10 mm
+    assert j.layers[1].thickness == pytest.approx(10.0, abs=TOL)
+    assert j.grip == pytest.approx(20.0, abs=TOL)
+    assert not j.gaps

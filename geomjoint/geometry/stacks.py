@@ -237,10 +237,11 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         e = _orientation(d, origin, layer_items, nuts)
     e = e / np.linalg.norm(e)
     ranges = {id(it): _s_range(it, origin, e) for it in comp}
-    # effective start: a counterbore/countersink seat on the head side
+    # effective extent: a counterbore/countersink seat is where a head, nut or washer bears
     eff = {}
     for it in layer_items:
-        s0, s1 = ranges[id(it)]
+        r0, r1 = ranges[id(it)]
+        s0, s1 = r0, r1
         if it.kind == "hole":
             h: Hole = it.obj
             for feat in (h.counterbore, h.countersink):
@@ -248,9 +249,21 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
                     continue
                 seat_s = float(np.dot(h.point_at(feat[1]) - origin, e))
                 end_s = float(np.dot(h.point_at(h.t0 if feat[2] == "start" else h.t1) - origin, e))
-                if abs(end_s - s0) < LINEAR_TOL:   # the feature opens towards the head
+                if abs(end_s - r0) < LINEAR_TOL:     # opens towards the head
                     s0 = max(s0, seat_s)
+                elif abs(end_s - r1) < LINEAR_TOL:   # opens towards the nut
+                    s1 = min(s1, seat_s)
         eff[id(it)] = (s0, s1)
+    # a bolt or nut bounds the stack: coaxial holes beyond them belong to something else
+    lo, hi = -math.inf, math.inf
+    if bolt is not None:
+        sb_ = float(np.dot(bolt.bearing_point - origin, e))
+        lo, hi = sb_ - GAP_TOL, sb_ + bolt.length + GAP_TOL
+    if nuts:
+        hi = min(hi, ranges[id(nuts[0])][1] - GAP_TOL)
+    layer_items = [it for it in layer_items if eff[id(it)][1] > lo and eff[id(it)][0] < hi]
+    if not layer_items:
+        return None
     layer_items.sort(key=lambda it: (eff[id(it)][0], eff[id(it)][1]))
     # --- head bearing face
     if bolt is not None:
