@@ -133,3 +133,12 @@ def test_step_schemas_read_alike(tmp_path, schema):
     assert sorted(p.name for p in model.parts) == ["lower", "upper"]
     zs = sorted(round(_bbox(p).zlen, 6) for p in model.parts)
     assert zs == [10.0, 12.0]
+
+
+def test_workplane_with_several_solids():
+    lower = ms.plate(40, 40, 10, [(0, 0)], 11.0)
+    upper = ms.plate(40, 40, 8, [(0, 0)], 11.0, z0=10.0)
+    wp = cq.Workplane().add([lower.val(), upper.val()])
+    model = load_model(wp)
+    assert [p.name for p in model.parts] == ["solid", "solid#2"]
+    assert load_model(lower.val()).parts[0].name == "solid"

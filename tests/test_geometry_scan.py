@@ -130,3 +130,24 @@ def test_name_hint_is_cross_checked_with_the_geometry():
     assert j.bolt.d == pytest.approx(12.0)
     assert j.nominal == "M12"                      # the geometry wins
     assert "name-mismatch" in _codes(j)
+
+
+def test_unknown_hole_size_gives_null_nominal_and_valid_json(schema):
+    import sys
+
+    import cadquery as cq
+    sys.path.insert(0, SAMPLES)
+    import make_samples as ms
+
+    a = cq.Assembly(name="odd")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 17.3), name="lower")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 17.3, z0=10.0), name="upper")
+    res = scan_model(a)
+    (j,) = res.joints
+    # 17.3 mm is no ISO 273 clearance (M16: 17 / 17.5 / 18.5, from memory) and no tap drill
+    assert j.nominal is None
+    assert any(f.code == "no-hardware" and f.severity == "warn" for f in j.findings)
+    assert j.grip == pytest.approx(20.0, abs=1e-6)
+    doc = scan_to_json(res)
+    jsonschema.validate(doc, schema)
+    assert doc["joints"][0]["nominal"] is None and doc["joints"][0]["hardware"]["bolt"] is None
