@@ -16,6 +16,7 @@ length s by about (2/3)·deflection·s.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -31,6 +32,7 @@ from OCP.BRepTools import BRepTools_WireExplorer
 from OCP.Bnd import Bnd_Box
 from OCP.GCPnts import GCPnts_QuasiUniformDeflection
 from OCP.GeomAbs import (
+    GeomAbs_Circle,
     GeomAbs_Cylinder,
     GeomAbs_Line,
     GeomAbs_Plane,
@@ -130,8 +132,24 @@ def _edge_points(edge, deflection: float) -> list[tuple[float, float, float]]:
     """Points along an edge in the edge's own orientation."""
     curve = BRepAdaptor_Curve(edge)
     t0, t1 = curve.FirstParameter(), curve.LastParameter()
-    if curve.GetType() == GeomAbs_Line:
+    kind = curve.GetType()
+    if kind == GeomAbs_Line:
         pts = [curve.Value(t0), curve.Value(t1)]
+    elif kind == GeomAbs_Circle:
+        # analytic sampling: chord sagitta R(1 − cos(Δt/2)) ≤ deflection
+        circ = curve.Circle()
+        radius = circ.Radius()
+        c, xd, yd = circ.Location(), circ.XAxis().Direction(), circ.YAxis().Direction()
+        step = 2.0 * math.acos(max(-1.0, 1.0 - deflection / radius)) if radius > deflection else math.pi / 2
+        count = max(2, int(math.ceil(abs(t1 - t0) / step)) + 1)
+        t = np.linspace(t0, t1, count)
+        ct, st = radius * np.cos(t), radius * np.sin(t)
+        xyz = np.column_stack((c.X() + ct * xd.X() + st * yd.X(),
+                               c.Y() + ct * xd.Y() + st * yd.Y(),
+                               c.Z() + ct * xd.Z() + st * yd.Z()))
+        if edge.Orientation() == TopAbs_REVERSED:
+            xyz = xyz[::-1]
+        return [tuple(p) for p in xyz.tolist()]
     else:
         sampler = GCPnts_QuasiUniformDeflection(curve, deflection, t0, t1)
         if not sampler.IsDone() or sampler.NbPoints() < 2:
@@ -293,6 +311,45 @@ def face_catalog(solid) -> FaceCatalog:
     )
 
 
+class IndexedSection:
+    """A whole-part section with a spatial index of its holes, for fast windows.
+
+    Clipping a plate section with hundreds of holes to a small window costs time in
+    proportion to all its vertices; here each polygon's outline is clipped and only the
+    holes whose bounding boxes meet the window are subtracted (shapely STRtree).
+    """
+
+    def __init__(self, geom: MultiPolygon):
+        self.geom = geom
+        self.outlines = [Polygon(p.exterior) for p in geom.geoms]
+        holes, owners = [], []
+        for k, poly in enumerate(geom.geoms):
+            for ring in poly.interiors:
+                holes.append(Polygon(ring))
+                owners.append(k)
+        self.holes = holes
+        self.owners = np.asarray(owners, dtype=int)
+        self.outline_tree = shapely.STRtree(self.outlines) if self.outlines else None
+        self.hole_tree = shapely.STRtree(holes) if holes else None
+
+    def window(self, umin: float, vmin: float, umax: float, vmax: float) -> MultiPolygon:
+        """The section clipped to the rectangle [umin, umax] × [vmin, vmax] (plane coordinates)."""
+        if self.outline_tree is None:
+            return MultiPolygon()
+        rect = shapely.box(umin, vmin, umax, vmax)
+        near_holes = self.hole_tree.query(rect) if self.hole_tree is not None else np.zeros(0, int)
+        parts = []
+        for k in self.outline_tree.query(rect):
+            piece = shapely.clip_by_rect(self.outlines[k], umin, vmin, umax, vmax)
+            if piece.is_empty:
+                continue
+            own = [self.holes[i] for i in near_holes if self.owners[i] == k]
+            if own:
+                piece = shapely.difference(piece, shapely.union_all(own))
+            parts.extend(_polygons_of(piece))
+        return MultiPolygon(parts)
+
+
 @dataclass
 class SectionCache:
     """Whole-part sections and face catalogues, reused across the joints of one model.
@@ -314,11 +371,12 @@ class SectionCache:
             self._faces[key] = face_catalog(shape)
         return self._faces[key]
 
-    def section(self, solid, frame: PlaneFrame, offset: float) -> MultiPolygon:
+    def section(self, solid, frame: PlaneFrame, offset: float) -> IndexedSection:
         """The whole-part section at `offset` (cached by shape, direction and offset to 1e-7 mm)."""
         shape = as_occ_shape(solid)
         key = (id(shape), frame.key(), round(offset, 7))
         if key not in self._sections:
             self._keep[id(shape)] = shape
-            self._sections[key] = section_polygons(shape, frame, offset, deflection=self.deflection)
+            self._sections[key] = IndexedSection(
+                section_polygons(shape, frame, offset, deflection=self.deflection))
         return self._sections[key]
