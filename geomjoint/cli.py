@@ -56,6 +56,8 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--out", type=Path, help="output folder (default: a new folder beside the job)")
     p.add_argument("--json", action="store_true", help="print the result JSON document on stdout")
     p.add_argument("--workers", type=int, default=0, help="processes for model joints (default: all cores)")
+    p.add_argument("--scheduler", metavar="ADDRESS",
+                   help="run the job files on a Dask cluster (tcp://host:port; needs geomjoint[cluster])")
 
     p = add("init", "write a starter job file for a model")
     p.add_argument("model", type=Path, help="STEP file")
@@ -66,31 +68,43 @@ def _parser() -> argparse.ArgumentParser:
     return parser
 
 
-def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None) -> int:
-    from geomjoint.analysis import analyze_job
-    from geomjoint.job import load_job
+def _write_run(run, out: Path | None, beside: Path | None) -> Path:
     from geomjoint.outputs import new_output_folder, prepare_output_folder, write_atomic
-    from geomjoint.report.json_doc import dumps, result_document
-    from geomjoint.report.text import result_table
 
-    job = load_job(job_path)
-    results = analyze_job(job, workers=workers, quiet=as_json).results
-    inputs = [job.path] + ([job.model] if job.model else [])
-    if out is None:
-        folder = new_output_folder(beside or job.path.parent, job.path.stem)
-    else:
-        folder = prepare_output_folder(out, inputs)
-    doc = result_document(results, version())
-    text = dumps(doc)
-    write_atomic(folder / "results.json", text, protect=inputs)
-    table = result_table(results)
-    write_atomic(folder / "report.txt", table, protect=inputs)
+    folder = new_output_folder(beside or run.job_path.parent, run.job_path.stem) if out is None \
+        else prepare_output_folder(out, run.inputs)
+    for name, data in run.files.items():
+        write_atomic(folder / name, data, protect=run.inputs)
+    return folder
+
+
+def _report(run, folder: Path, as_json: bool) -> None:
     if as_json:
-        sys.stdout.write(text)
+        from geomjoint.report.json_doc import dumps
+
+        sys.stdout.write(dumps(run.document))
     else:
-        sys.stdout.write(table)
+        sys.stdout.write(run.table)
         sys.stdout.write(f"outputs: {folder}\n")
-    return EXIT_FAIL if any(not r.ok for r in results) else EXIT_OK
+
+
+def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None) -> int:
+    from geomjoint.checkrun import run_check
+
+    run = run_check(job_path, workers=workers, quiet=as_json, version=version())
+    _report(run, _write_run(run, out, beside), as_json)
+    return EXIT_FAIL if run.failed else EXIT_OK
+
+
+def _check_on_cluster(jobs: list[Path], out: Path | None, as_json: bool, scheduler: str) -> int:
+    from geomjoint.cluster import run_checks_on_cluster
+
+    worst = EXIT_OK
+    for run in run_checks_on_cluster(jobs, scheduler, version()):
+        target = out / run.job_path.stem if (out and len(jobs) > 1) else out
+        _report(run, _write_run(run, target, None), as_json)
+        worst = max(worst, EXIT_FAIL if run.failed else EXIT_OK)
+    return worst
 
 
 def _scan(model: Path, as_json: bool) -> int:
@@ -120,6 +134,8 @@ def _dispatch(args: argparse.Namespace) -> int:
     if args.command == "scan":
         return _scan(args.model, args.json)
     if args.command == "check":
+        if args.scheduler:
+            return _check_on_cluster(args.jobs, args.out, args.json, args.scheduler)
         worst = EXIT_OK
         for job in args.jobs:
             out = args.out / job.stem if (args.out and len(args.jobs) > 1) else args.out

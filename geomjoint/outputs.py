@@ -57,6 +57,9 @@ def write_atomic(path: Path, data: bytes | str, protect: list[Path] = ()) -> Pat
     if isinstance(data, str):
         data = data.encode("utf-8")
     fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".part")
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes 0600; an output is an ordinary file
     try:
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)

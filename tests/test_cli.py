@@ -75,12 +75,12 @@ def test_bad_input_exit_2_one_line(tmp_path, capsys):
 
 
 def test_internal_error_exit_3(tmp_path, capsys, monkeypatch):
-    import geomjoint.analysis as analysis
+    import geomjoint.checkrun as checkrun
 
     def boom(job, **kwargs):
         raise ZeroDivisionError("simulated")
 
-    monkeypatch.setattr(analysis, "analyze_job", boom)
+    monkeypatch.setattr(checkrun, "analyze_job", boom)
     job = tmp_path / "pass.toml"
     job.write_text(PASSING)
     assert main(["check", str(job)]) == 3

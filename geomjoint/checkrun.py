@@ -1,0 +1,73 @@
+"""One `check` of one job file: analyse, then render every output in memory.
+
+Rendering to bytes (not straight to disk) lets the same function run in a worker of a
+Dask cluster and hand its files back; the caller writes them atomically into the output
+folder.
+"""
+from __future__ import annotations
+
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from geomjoint.analysis import Analysis, analyze_job
+from geomjoint.job import Job, load_job
+from geomjoint.mechanics.joint import JointResult
+from geomjoint.outputs import safe_name
+
+RESULTS_JSON = "results.json"
+REPORT_TEXT = "report.txt"
+REPORT_HTML = "report.html"
+
+
+@dataclass
+class CheckRun:
+    job_path: Path
+    inputs: list[Path]               # files that must never be overwritten
+    results: list[JointResult]
+    document: dict
+    table: str
+    files: dict[str, bytes] = field(default_factory=dict)
+
+    @property
+    def failed(self) -> bool:
+        return any(not r.ok for r in self.results)
+
+
+def _model_outputs(job: Job, analysis: Analysis) -> dict[str, bytes]:
+    """The marked-up STEP and GLB of a model job (written by the kernel to a temp folder)."""
+    from geomjoint.geometry.glb import write_glb
+    from geomjoint.geometry.markup import write_marked_step
+
+    stem = safe_name(job.model.stem) + "-checked"
+    files = {}
+    with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
+        step = Path(tmp) / f"{stem}.step"
+        write_marked_step(analysis, step)
+        files[step.name] = step.read_bytes()
+        glb = Path(tmp) / f"{stem}.glb"
+        write_glb(analysis, glb)
+        files[glb.name] = glb.read_bytes()
+    return files
+
+
+def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: str = "") -> CheckRun:
+    """Analyse one job file and render results.json, report.txt, report.html (+ marked-up model)."""
+    from geomjoint.report.html import html_report
+    from geomjoint.report.json_doc import dumps, result_document
+    from geomjoint.report.text import result_table
+
+    job = load_job(job_path)
+    analysis = analyze_job(job, workers=workers, quiet=quiet)
+    results = analysis.results
+    document = result_document(results, version)
+    table = result_table(results)
+    files = {
+        RESULTS_JSON: dumps(document).encode("utf-8"),
+        REPORT_TEXT: table.encode("utf-8"),
+        REPORT_HTML: html_report(results, title=job.title or job.path.stem, units=job.units).encode("utf-8"),
+    }
+    if analysis.scan is not None and analysis.model_joints:
+        files.update(_model_outputs(job, analysis))
+    inputs = [job.path] + ([job.model] if job.model else [])
+    return CheckRun(job.path, inputs, results, document, table, files)
