@@ -345,3 +345,19 @@ def test_stack_ends_at_the_nut_and_nut_side_counterbore():
     assert j.layers[1].thickness == pytest.approx(10.0, abs=TOL)
     assert j.grip == pytest.approx(20.0, abs=TOL)
     assert not j.gaps
+
+
+def test_drill_point_of_a_blind_hole_is_not_thread_depth():
+    # 6.8 mm tap drill 20 mm deep with a 118 deg drill point (common practice)
+    h_cone = 3.4 / math.tan(math.radians(59))
+    block = cq.Workplane("XY").box(40, 40, 40, centered=(True, True, False)).translate((0, 0, -40))
+    drill = cq.Solid.makeCylinder(3.4, 20, cq.Vector(0, 0, -20), cq.Vector(0, 0, 1)).fuse(
+        cq.Solid.makeCone(0, 3.4, h_cone, cq.Vector(0, 0, -20 - h_cone), cq.Vector(0, 0, 1)))
+    block = block.cut(cq.Workplane().add(drill))
+    a = cq.Assembly(name="drilled")
+    a.add(block, name="housing")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 9.0), name="lid")
+    (j,) = scan_model(a).joints
+    assert j.kind == "tapped"
+    assert j.tapped_depth == pytest.approx(20.0, abs=TOL)
+    assert j.layers[-1].hole.depth == pytest.approx(20.0 + h_cone, abs=TOL)

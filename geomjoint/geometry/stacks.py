@@ -253,6 +253,15 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
                     s0 = max(s0, seat_s)
                 elif abs(end_s - r1) < LINEAR_TOL:   # opens towards the nut
                     s1 = min(s1, seat_s)
+            if not h.through:
+                # a drill point (cone) at the bottom of a blind hole holds no thread
+                cyl = [sec for sec in h.sections if sec.kind == "cylinder"]
+                t_bottom = max(c.t1 for c in cyl) if h.closed == "end" else min(c.t0 for c in cyl)
+                b_s = float(np.dot(h.point_at(t_bottom) - origin, e))
+                if abs(b_s - r1) < abs(b_s - r0):
+                    s1 = min(s1, b_s)
+                else:
+                    s0 = max(s0, b_s)
         eff[id(it)] = (s0, s1)
     # a bolt or nut bounds the stack: coaxial holes beyond them belong to something else
     lo, hi = -math.inf, math.inf
