@@ -70,9 +70,13 @@ def eq_8_20_k(E, d, D, t):
 
 
 def closed_form_compliance(layers, dw, dfar, L, d=HOLE):
-    """Σ over the frustum pieces of each layer (split at L/2) of 1/k from eq. (8-20)."""
+    """Σ over the frustum pieces of each layer (split at L/2) of 1/k from eq. (8-20).
+
+    layers: (z0, z1, E) or (z0, z1, E, hole diameter of that layer)."""
     delta = 0.0
-    for z0, z1, E in layers:
+    hole = d
+    for z0, z1, E, *own in layers:
+        d = own[0] if own else hole
         z0, z1 = max(z0, 0.0), min(z1, L)
         # head cone on [0, L/2]: diameter dw + 2 z tanα
         a, b = z0, min(z1, L / 2)
@@ -149,6 +153,54 @@ def test_model_clearance_hole_is_subtracted_at_its_own_size():
     # Shigley 10th ed. eq. (8-20) with d = the modelled hole
     assert res.stiffness == pytest.approx(expected, rel=1e-6)
     assert res.stiffness < res.ideal_stiffness  # ideal uses the 13 mm hole_diameter
+
+
+def test_tapped_hole_drawn_at_tap_drill_subtracts_the_nominal_hole():
+    # housing modelled with a 10.2 mm tap-drill bore (M12, common practice), the caller
+    # gives d = 12: the cone subtracts the larger circle, as eq. (8-20) does with d
+    cover = slab(-100, 100, -100, 100, 30.0, 40.0, holes=[(0, 0)])
+    housing = slab(-100, 100, -100, 100, 0.0, 30.0, holes=[(0, 0)], hole=10.2)
+    layers = [ConeLayer(cover.wrapped, 0.0, 10.0, E_STEEL, "cover", HOLE),
+              ConeLayer(housing.wrapped, 10.0, 40.0, E_IRON, "housing", 12.0)]
+    lprime = 10.0 + 12.0 / 2  # Shigley 10th ed. Table 8-7, t2 ≥ d
+    joint = ConeJoint("T", (0.0, 0.0, 40.0), (0.0, 0.0, -1.0), layers, DW, DW,
+                      tapped=True, effective_grip=lprime)
+    res = clipped_cone_stiffness(joint)
+    expected = 1.0 / closed_form_compliance([(0, 10, E_STEEL, HOLE), (10, 40, E_IRON, 12.0)], DW, DW, lprime)
+    # Shigley 10th ed. eq. (8-20), hole diameter per layer
+    assert res.stiffness == pytest.approx(expected, rel=1e-6)
+    # the B-rep cone of the housing is cut to the same 12 mm bore: volume = ∫ π(r² − 6²) dz
+    name, far = cone_solids(joint)[-1]
+    assert name == "T:housing:far"
+    z0, z1 = 10.0, lprime
+    r0, r1 = DW / 2 + (lprime - z0) * TAN, DW / 2
+    frustum = math.pi * (z1 - z0) / 3 * (r0 * r0 + r0 * r1 + r1 * r1)  # cone frustum (mathematics)
+    assert volume(far) == pytest.approx(frustum - math.pi * 36.0 * (z1 - z0), rel=1e-6)
+
+
+def test_section_of_a_drilled_plate_and_its_face_catalogue():
+    from geomjoint.geometry.sections import KIND_CYLINDER, KIND_PLANE, PlaneFrame, face_catalog, section_polygons
+    plate = slab(-50, 50, -30, 30, 0.0, 10.0, holes=[(0, 0), (30, 10)], hole=13.5)
+    frame = PlaneFrame.for_direction((0, 0, 1))
+    sec = section_polygons(plate.wrapped, frame, 4.0)
+    # two circular holes sampled at 5e-4 mm chord deflection: area error below 1e-4 of a hole
+    assert sec.area == pytest.approx(6000 - 2 * math.pi * 6.75 ** 2, abs=2 * 1e-4 * math.pi * 6.75 ** 2)
+    assert sum(len(p.interiors) for p in sec.geoms) == 2
+    win = section_polygons(plate.wrapped, frame, 4.0, window=(-10, -10, 10, 10))
+    assert win.area == pytest.approx(400 - math.pi * 6.75 ** 2, rel=1e-4)
+    cat = face_catalog(plate.wrapped)
+    assert sorted(cat.kind.tolist()).count(KIND_PLANE) == 6      # a box has six planar faces
+    assert KIND_CYLINDER in cat.kind.tolist()
+
+
+def test_bad_input_names_the_joint():
+    from geomjoint.errors import InputError
+    plate = slab(-50, 50, -50, 50, 0.0, 10.0, holes=[(0, 0)])
+    layers = [ConeLayer(plate.wrapped, 0.0, 10.0, E_STEEL, "plate", HOLE)]
+    with pytest.raises(InputError, match="J9"):
+        clipped_cone_stiffness(ConeJoint("J9", (0, 0, 10), (0, 0, -1), layers, 12.0, 12.0))  # d_w < hole
+    with pytest.raises(InputError, match="J9"):
+        clipped_cone_stiffness(ConeJoint("J9", (0, 0, 10), (0, 0, -1), layers, DW, DW, cone_angle_deg=95.0))
 
 
 # ---------------------------------------------------------------- clipped by plate edges
