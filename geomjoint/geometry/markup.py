@@ -1,0 +1,581 @@
+"""The marked-up model: the input parts plus, per joint, our own annotated components, as STEP.
+
+What the file holds (an XCAF document written by OCCT's STEP writer, AP214, mm):
+
+    geomjoint <model>                        top-level assembly
+      parts                                  every part of the model that is not the
+        <part name> ...                      hardware of a joint, with its name, placement
+                                             and colour; the faces of each joint's holes
+                                             carry the joint's verdict colour
+      joints
+        J07 M10x40 10.9 marginal fatigue 1.12   one assembly per model joint:
+          cone <part> head|far ...           the clipped pressure-cone solids (cones.py)
+          axis                               a thin solid cylinder on the bolt axis
+          bolt_M10x40_7, nut_..., washer_... the modelled hardware, or
+          bolt M10x40 (catalog), nut M10 (catalog)   generated from the catalog dimensions
+
+The verdict is told three ways, so that it survives viewers that drop one of them: by
+colour (palette in :mod:`geomjoint.report.palette`), by name, and by XCAF layer
+("geomjoint pass" / "geomjoint marginal" / "geomjoint fail"; every solid of a joint's
+assembly and the assembly itself are on its verdict's layer).
+
+Node names are sanitised with :func:`geomjoint.outputs.safe_name` and made unique among
+siblings (a cadquery assembly demands that).  Each placed part gets its own prototype
+(a part definition used by several instances is copied), so that hole faces of one
+instance can carry a colour without colouring the other instances.
+
+:func:`markup_scene` builds the scene once as plain records; :func:`write_marked_step`
+writes it through XCAF and :func:`geomjoint.geometry.glb.write_glb` through trimesh.
+"""
+from __future__ import annotations
+
+import math
+import os
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+from OCP.BRepAdaptor import BRepAdaptor_Surface
+from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut, BRepAlgoAPI_Fuse
+from OCP.BRepBuilderAPI import BRepBuilderAPI_Copy, BRepBuilderAPI_MakeFace, BRepBuilderAPI_MakePolygon
+from OCP.BRepGProp import BRepGProp
+from OCP.BRepPrimAPI import BRepPrimAPI_MakeCylinder, BRepPrimAPI_MakePrism
+from OCP.GeomAbs import GeomAbs_Cone, GeomAbs_Cylinder
+from OCP.GProp import GProp_GProps
+from OCP.gp import gp_Ax2, gp_Dir, gp_Pnt, gp_Vec
+from OCP.IFSelect import IFSelect_RetDone
+from OCP.Quantity import Quantity_Color, Quantity_ColorRGBA, Quantity_TOC_RGB, Quantity_TOC_sRGB
+from OCP.STEPCAFControl import STEPCAFControl_Writer
+from OCP.STEPControl import STEPControl_AsIs
+from OCP.TCollection import TCollection_ExtendedString
+from OCP.TDataStd import TDataStd_Name
+from OCP.TDF import TDF_Label
+from OCP.TDocStd import TDocStd_Document
+from OCP.TopAbs import TopAbs_FACE, TopAbs_SOLID
+from OCP.TopExp import TopExp_Explorer
+from OCP.TopLoc import TopLoc_Location
+from OCP.TopoDS import TopoDS, TopoDS_Shape
+from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
+from OCP.XCAFDoc import XCAFDoc_ColorSurf, XCAFDoc_DocumentTool
+
+from geomjoint.errors import InputError
+from geomjoint.outputs import safe_name
+from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
+
+#: prefix of the XCAF layer of each verdict ("geomjoint pass", ...)
+LAYER_PREFIX = "geomjoint"
+#: diameter of the axis marker as a fraction of the bolt diameter (thin, still visible)
+AXIS_DIAMETER_RATIO = 0.15
+#: the axis marker runs this far (× bolt diameter) past the hardware at both ends
+AXIS_OVERHANG_RATIO = 0.5
+#: a hole face lies on the joint's hole when its axis is this close (mm) and this parallel (|sin|)
+FACE_AXIS_TOL = 1e-2
+FACE_PARALLEL_TOL = 1e-4
+#: faces count as inside a hole's axial extent within this margin, mm
+FACE_EXTENT_TOL = 1e-2
+
+
+def layer_name(verdict: str) -> str:
+    """The XCAF layer of a verdict: "geomjoint pass" / "geomjoint marginal" / "geomjoint fail"."""
+    return f"{LAYER_PREFIX} {verdict}"
+
+
+@dataclass
+class MarkupItem:
+    """One solid (or compound) of the scene, in model coordinates (mm)."""
+
+    name: str                          # node name, unique among its siblings
+    kind: str                          # "part" | "cone" | "axis" | "bolt" | "nut" | "washer"
+    shape: TopoDS_Shape = field(repr=False)  # located
+    rgb: tuple[float, float, float]    # sRGB 0..1
+    alpha: float = 1.0
+    source: str = "model"              # "model" (a part of the input) | "generated"
+    part: str | None = None            # the model part name it comes from
+    hole_faces: dict[int, str] = field(default_factory=dict)  # face index -> verdict (parts only)
+
+
+@dataclass
+class JointMarkup:
+    """A joint's own components and the key results that name it."""
+
+    id: str
+    name: str                          # "J07 M10x40 10.9 marginal fatigue 1.12"
+    verdict: str
+    governing: str
+    factor: float | None               # of the governing check, when numeric
+    fastener: dict[str, Any]
+    factors: dict[str, float | None]
+    items: list[MarkupItem] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def extras(self) -> dict[str, Any]:
+        """The joint's key results as plain JSON values (GLB node extras)."""
+        return {"id": self.id, "verdict": self.verdict, "governing": self.governing,
+                "governing_factor": self.factor, "factors": dict(self.factors),
+                "fastener": dict(self.fastener), "name": self.name}
+
+
+@dataclass
+class MarkupScene:
+    title: str                         # top-level node name
+    parts: list[MarkupItem]            # model parts that are no joint's hardware
+    joints: list[JointMarkup]
+    diagonal: float                    # bounding-box diagonal of the model, mm
+
+
+@dataclass
+class MarkupSummary:
+    """What :func:`write_marked_step` wrote."""
+
+    path: Path
+    top: str                           # name of the top-level assembly
+    parts: list[str]                   # node names under "parts"
+    joints: dict[str, str]             # joint id -> node name
+    verdicts: dict[str, str]           # joint id -> verdict
+    layers: dict[str, list[str]]       # layer name -> node names of the joint assemblies on it
+    cones: dict[str, float]            # "<joint node>/<cone node>" -> volume, mm^3
+    generated: list[str]               # "<joint id>/<node>" of hardware made from the catalog
+    notes: list[str] = field(default_factory=list)
+
+
+# ----------------------------------------------------------------------------- small helpers
+
+def _unique(name: str, taken: set[str]) -> str:
+    base = safe_name(name)
+    out, k = base, 2
+    while out in taken:
+        suffix = f" #{k}"
+        out = base[: max(1, 80 - len(suffix))] + suffix
+        k += 1
+    taken.add(out)
+    return out
+
+
+def _faces(shape: TopoDS_Shape) -> list[TopoDS_Shape]:
+    out = []
+    exp = TopExp_Explorer(shape, TopAbs_FACE)
+    while exp.More():
+        out.append(TopoDS.Face_s(exp.Current()))
+        exp.Next()
+    return out
+
+
+def has_solid(shape: TopoDS_Shape) -> bool:
+    return shape is not None and not shape.IsNull() and TopExp_Explorer(shape, TopAbs_SOLID).More()
+
+
+def volume(shape: TopoDS_Shape) -> float:
+    """Volume of a solid or compound of solids, mm^3 (OCCT's Gauss integration)."""
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(shape, props)
+    return float(props.Mass())
+
+
+def bounding_diagonal(shapes: list[TopoDS_Shape]) -> float:
+    """Diagonal of the common bounding box of shapes, mm."""
+    from OCP.Bnd import Bnd_Box
+    from OCP.BRepBndLib import BRepBndLib
+
+    box = Bnd_Box()
+    for s in shapes:
+        BRepBndLib.Add_s(s, box)
+    if box.IsVoid():
+        return 0.0
+    x0, y0, z0, x1, y1, z1 = box.Get()
+    return math.dist((x0, y0, z0), (x1, y1, z1))
+
+
+def _frame(direction: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    a = np.array([1.0, 0.0, 0.0]) if abs(direction[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
+    u = np.cross(direction, a)
+    u /= np.linalg.norm(u)
+    return u, np.cross(direction, u)
+
+
+def _cylinder(point: np.ndarray, direction: np.ndarray, radius: float, length: float) -> TopoDS_Shape:
+    return BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*map(float, point)), gp_Dir(*map(float, direction))),
+                                    float(radius), float(length)).Shape()
+
+
+def _hex_prism(point: np.ndarray, direction: np.ndarray, across_flats: float, height: float) -> TopoDS_Shape:
+    """A regular hexagonal prism on the axis, from ``point`` along ``direction``."""
+    u, v = _frame(direction)
+    r = across_flats / math.sqrt(3.0)          # corner radius of a hexagon: s / √3
+    poly = BRepBuilderAPI_MakePolygon()
+    for k in range(6):
+        a = k * math.pi / 3.0
+        p = point + r * (math.cos(a) * u + math.sin(a) * v)
+        poly.Add(gp_Pnt(*map(float, p)))
+    poly.Close()
+    face = BRepBuilderAPI_MakeFace(poly.Wire()).Face()
+    vec = gp_Vec(*map(float, direction * height))
+    return BRepPrimAPI_MakePrism(face, vec).Shape()
+
+
+def model_colour_srgb(colour) -> tuple[float, float, float]:
+    """sRGB 0..1 of a part colour as :mod:`geomjoint.geometry.model` reports it.
+
+    model.py takes ``Quantity_Color.Red()/Green()/Blue()``, which OCCT (7.5 and later)
+    returns in *linear* RGB; the value written to a file (and shown by viewers) is sRGB.
+    """
+    r, g, b = (float(c) for c in colour)
+    return tuple(Quantity_Color(r, g, b, Quantity_TOC_RGB).Values(Quantity_TOC_sRGB))  # type: ignore[return-value]
+
+
+def srgb_to_linear(rgb) -> tuple[float, float, float]:
+    """Linear RGB of an sRGB 0..1 triple (IEC 61966-2-1 transfer curve, through OCCT)."""
+    return tuple(Quantity_Color.Convert_sRGB_To_LinearRGB_s(float(c)) for c in rgb)  # type: ignore[return-value]
+
+
+# ----------------------------------------------------------------------------- hole faces
+
+def hole_face_indices(solid: TopoDS_Shape, ref, direction, t0: float, t1: float,
+                      max_radius: float) -> list[int]:
+    """Indices (explorer order) of the cylinder/cone faces of ``solid`` that form a hole.
+
+    A face belongs to the hole when its axis is the hole's axis (within FACE_AXIS_TOL mm,
+    parallel within FACE_PARALLEL_TOL), its radius is at most ``max_radius`` (+ tolerance)
+    and the centre of its bounding box lies within [t0, t1] along ``direction`` from ``ref``.
+    """
+    from OCP.Bnd import Bnd_Box
+    from OCP.BRepBndLib import BRepBndLib
+
+    ref = np.asarray(ref, float)
+    d = np.asarray(direction, float)
+    d = d / np.linalg.norm(d)
+    out = []
+    for i, face in enumerate(_faces(solid)):
+        surf = BRepAdaptor_Surface(face)
+        kind = surf.GetType()
+        if kind == GeomAbs_Cylinder:
+            geom = surf.Cylinder()
+            radius = geom.Radius()
+        elif kind == GeomAbs_Cone:
+            geom = surf.Cone()
+            radius = 0.0                       # a countersink: judged by its axis and extent
+        else:
+            continue
+        ax = geom.Axis()
+        loc = np.array([ax.Location().X(), ax.Location().Y(), ax.Location().Z()])
+        fd = np.array([ax.Direction().X(), ax.Direction().Y(), ax.Direction().Z()])
+        if np.linalg.norm(np.cross(fd, d)) > FACE_PARALLEL_TOL:
+            continue
+        off = loc - ref
+        if np.linalg.norm(off - np.dot(off, d) * d) > FACE_AXIS_TOL:
+            continue
+        if radius > max_radius + FACE_AXIS_TOL:
+            continue
+        box = Bnd_Box()
+        BRepBndLib.Add_s(face, box)
+        x0, y0, z0, x1, y1, z1 = box.Get()
+        t = float(np.dot(np.array([(x0 + x1) / 2, (y0 + y1) / 2, (z0 + z1) / 2]) - ref, d))
+        if t0 - FACE_EXTENT_TOL <= t <= t1 + FACE_EXTENT_TOL:
+            out.append(i)
+    return out
+
+
+def _layer_hole_faces(layer, joint) -> list[int]:
+    if layer.solid is None:
+        return []
+    hole = layer.hole
+    if hole is not None:
+        rmax = max([max(s.r0, s.r1) for s in hole.sections] + [0.5 * hole.diameter])
+        for extra in (hole.counterbore, hole.countersink):
+            if extra:
+                rmax = max(rmax, 0.5 * extra[0])
+        return hole_face_indices(layer.solid, hole.ref, hole.direction, hole.t0, hole.t1, rmax)
+    # no hole record: the joint axis over the layer's range
+    p = np.asarray(joint.point, float)
+    d = np.asarray(joint.direction, float)
+    return hole_face_indices(layer.solid, p, d, layer.start, layer.end, 0.5 * layer.hole_diameter)
+
+
+# ----------------------------------------------------------------------------- joint name
+
+def _governing_factor(result) -> float | None:
+    for c in result.checks:
+        if c.name == result.governing and isinstance(c.value, (int, float)) and math.isfinite(c.value):
+            return float(c.value)
+    value = result.factors.get(result.governing)
+    return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else None
+
+
+def joint_node_name(result) -> str:
+    """``J07 M10x40 10.9 marginal fatigue 1.12``: id, size x length, grade, verdict, governing, factor."""
+    f = result.spec.fastener
+    size = f.designation + (f"x{f.length:g}" if f.length else "")
+    words = [result.id, size, f.grade, result.verdict, result.governing]
+    factor = _governing_factor(result)
+    if factor is not None:
+        words.append(f"{factor:.2f}")
+    return safe_name(" ".join(str(w) for w in words if w))
+
+
+def _fastener_record(spec) -> dict[str, Any]:
+    f = spec.fastener
+    return {"designation": f.designation, "length": f.length, "grade": f.grade, "d": f.d,
+            "pitch": f.pitch, "head": f.head, "system": f.system}
+
+
+# ----------------------------------------------------------------------------- the scene
+
+def _generated_hardware(joint, spec, taken: set[str], rgb, notes: list[str]) -> list[MarkupItem]:
+    """Bolt (hex prism or round head + shank) and nut from the catalog, where none is modelled."""
+    from geomjoint import catalog
+
+    out: list[MarkupItem] = []
+    p = np.asarray(joint.point, float)
+    d = np.asarray(joint.direction, float)
+    d = d / np.linalg.norm(d)
+    f = spec.fastener
+    try:
+        t = catalog.thread(f.designation)
+    except InputError as exc:
+        notes.append(f"{joint.id}: no catalog thread for generated hardware ({exc})")
+        return out
+    grip_end = max(layer.end for layer in joint.layers) if joint.layers else joint.grip
+    nut_dims = None
+    if joint.nut is None and not joint.tapped:
+        try:
+            nut_dims = catalog.nut(t)
+        except InputError as exc:
+            notes.append(f"{joint.id}: no catalog nut ({exc})")
+    if joint.bolt is None:
+        try:
+            head = catalog.head(t, f.head or "hex")
+        except InputError as exc:
+            notes.append(f"{joint.id}: no catalog head ({exc})")
+            head = None
+        if head is not None:
+            length = f.length or (grip_end + (nut_dims.height if nut_dims else 0.0))
+            head_start = p - head.height * d
+            if head.kind == "socket":
+                head_solid = _cylinder(head_start, d, 0.5 * head.width, head.height)
+            else:
+                head_solid = _hex_prism(head_start, d, head.width, head.height)
+            shank = _cylinder(p, d, 0.5 * f.d, length)
+            bolt = BRepAlgoAPI_Fuse(head_solid, shank).Shape()
+            name = _unique(f"bolt {f.designation}x{length:g} (catalog)", taken)
+            out.append(MarkupItem(name, "bolt", bolt, rgb, source="generated"))
+    if nut_dims is not None:
+        start = p + grip_end * d
+        prism = _hex_prism(start, d, nut_dims.width, nut_dims.height)
+        bore = _cylinder(start - d, d, 0.5 * f.d, nut_dims.height + 2.0)
+        nut = BRepAlgoAPI_Cut(prism, bore).Shape()
+        out.append(MarkupItem(_unique(f"nut {f.designation} (catalog)", taken), "nut", nut, rgb,
+                              source="generated"))
+    return out
+
+
+def _axis_marker(joint, spec) -> TopoDS_Shape:
+    p = np.asarray(joint.point, float)
+    d = np.asarray(joint.direction, float)
+    d = d / np.linalg.norm(d)
+    dia = spec.fastener.d
+    over = AXIS_OVERHANG_RATIO * dia
+    head = joint.bolt.head_height if joint.bolt is not None else dia
+    end = max([layer.end for layer in joint.layers] + [joint.grip, spec.fastener.length or 0.0])
+    if joint.nut is not None:
+        end = max(end, joint.layers[-1].end + joint.nut.height)
+    start = p - (head + over) * d
+    return _cylinder(start, d, 0.5 * AXIS_DIAMETER_RATIO * dia, head + over + end + over)
+
+
+def markup_scene(analysis) -> MarkupScene:
+    """The marked-up scene of an analysed model: parts, and per model joint its components.
+
+    Raises InputError when the analysis has no model.
+    """
+    from geomjoint.analysis import _cone_joint
+    from geomjoint.geometry.cones import cone_solids
+
+    if analysis.scan is None or not analysis.model_joints:
+        if analysis.scan is None:
+            raise InputError("the marked-up model needs a job with a model")
+    model = analysis.scan.model
+    by_id = {r.id: r for r in analysis.results}
+    stem = Path(model.source).stem if model.source and model.source != "<memory>" else "model"
+    diagonal = bounding_diagonal([p.solid for p in model.parts])
+
+    hardware_of: dict[str, str] = {}         # part name -> joint id
+    for mj in analysis.model_joints:
+        j = mj.scan
+        for hw in [j.bolt, j.nut, *j.washers]:
+            if hw is not None and hw.part not in hardware_of:
+                hardware_of[hw.part] = j.id
+
+    hole_faces: dict[str, dict[int, str]] = {}
+    cone_joints = {mj.scan.id: _cone_joint(mj) for mj in analysis.model_joints}
+    joints: list[JointMarkup] = []
+    joint_names: set[str] = set()
+    for mj in analysis.model_joints:
+        j = mj.scan
+        result = by_id.get(j.id)
+        if result is None:
+            continue
+        rgb = verdict_rgb(result.verdict)
+        jm = JointMarkup(id=j.id, name=_unique(joint_node_name(result), joint_names), verdict=result.verdict,
+                         governing=result.governing, factor=_governing_factor(result),
+                         fastener=_fastener_record(result.spec),
+                         factors={k: (float(v) if isinstance(v, (int, float)) else None)
+                                  for k, v in result.factors.items()})
+        taken: set[str] = set()
+        neighbours = [c for key, c in cone_joints.items() if key != j.id]
+        for cname, shape in cone_solids(cone_joints[j.id], neighbours):
+            _, part, side = cname.rsplit(":", 2) if cname.count(":") >= 2 else ("", cname, "")
+            if not has_solid(shape):
+                jm.notes.append(f"{j.id}: no cone material in {part} ({side} side)")
+                continue
+            jm.items.append(MarkupItem(_unique(f"cone {part} {side}", taken), "cone", shape, rgb,
+                                       alpha=CONE_ALPHA, source="generated", part=part))
+        jm.items.append(MarkupItem(_unique("axis", taken), "axis", _axis_marker(j, result.spec), rgb,
+                                   source="generated"))
+        for kind, hw in [("bolt", j.bolt), ("nut", j.nut), *[("washer", w) for w in j.washers]]:
+            if hw is None or hardware_of.get(hw.part) != j.id:
+                continue
+            part = model.part(hw.part)
+            jm.items.append(MarkupItem(_unique(part.name, taken), kind, part.solid, rgb, part=part.name))
+        jm.items += _generated_hardware(j, result.spec, taken, rgb, jm.notes)
+        for layer in j.layers:
+            if layer.role == "washer" or layer.part in hardware_of:
+                continue
+            for idx in _layer_hole_faces(layer, j):
+                hole_faces.setdefault(layer.part, {})[idx] = result.verdict
+        joints.append(jm)
+
+    parts: list[MarkupItem] = []
+    part_names: set[str] = set()
+    for p in model.parts:
+        if p.name in hardware_of and any(jm.id == hardware_of[p.name] for jm in joints):
+            continue
+        rgb = model_colour_srgb(p.colour) if p.colour is not None else hex_to_rgb(PART_COLOUR)
+        parts.append(MarkupItem(_unique(p.name, part_names), "part", p.solid, rgb, part=p.name,
+                                hole_faces=hole_faces.get(p.name, {})))
+    return MarkupScene(title=safe_name(f"geomjoint {stem}"), parts=parts, joints=joints, diagonal=diagonal)
+
+
+# ----------------------------------------------------------------------------- STEP through XCAF
+
+def _colour(rgb, alpha: float = 1.0) -> Quantity_ColorRGBA:
+    return Quantity_ColorRGBA(Quantity_Color(float(rgb[0]), float(rgb[1]), float(rgb[2]), Quantity_TOC_sRGB),
+                              float(alpha))
+
+
+def _set_name(label: TDF_Label, name: str) -> None:
+    TDataStd_Name.Set_s(label, TCollection_ExtendedString(name))
+
+
+class _XcafBuilder:
+    def __init__(self) -> None:
+        self.doc = TDocStd_Document(TCollection_ExtendedString("XmlOcaf"))
+        XCAFDoc_DocumentTool.SetLengthUnit_s(self.doc, 1.0, UnitsMethods_LengthUnit_Millimeter)
+        self.shapes = XCAFDoc_DocumentTool.ShapeTool_s(self.doc.Main())
+        self.colours = XCAFDoc_DocumentTool.ColorTool_s(self.doc.Main())
+        self.layers = XCAFDoc_DocumentTool.LayerTool_s(self.doc.Main())
+
+    def assembly(self, name: str) -> TDF_Label:
+        label = self.shapes.NewShape()
+        _set_name(label, name)
+        return label
+
+    def place(self, parent: TDF_Label, child: TDF_Label, name: str,
+              loc: TopLoc_Location | None = None) -> TDF_Label:
+        comp = self.shapes.AddComponent(parent, child, loc or TopLoc_Location())
+        _set_name(comp, name)
+        return comp
+
+    def item(self, parent: TDF_Label, item: MarkupItem, layer: str | None = None) -> TDF_Label:
+        """A prototype of its own for the item (copied if the shape is already in the document)."""
+        loc = item.shape.Location()
+        base = item.shape.Located(TopLoc_Location())
+        found = TDF_Label()
+        if self.shapes.FindShape(base, found, False):
+            base = BRepBuilderAPI_Copy(base).Shape()
+        proto = self.shapes.AddShape(base, False, False)
+        _set_name(proto, item.name)
+        self.colours.SetColor(proto, _colour(item.rgb, item.alpha), XCAFDoc_ColorSurf)
+        if item.hole_faces:
+            faces = _faces(base)
+            for idx, verdict in sorted(item.hole_faces.items()):
+                sub = self.shapes.AddSubShape(proto, faces[idx])
+                if not sub.IsNull():
+                    self.colours.SetColor(sub, _colour(verdict_rgb(verdict)), XCAFDoc_ColorSurf)
+        if layer:
+            self.layers.SetLayer(proto, TCollection_ExtendedString(layer), False)
+        return self.place(parent, proto, item.name, loc)
+
+    def write(self, path: Path) -> None:
+        self.shapes.UpdateAssemblies()
+        writer = STEPCAFControl_Writer()
+        writer.SetNameMode(True)
+        writer.SetColorMode(True)
+        writer.SetLayerMode(True)
+        if not writer.Transfer(self.doc, STEPControl_AsIs):
+            raise InputError("the marked-up model could not be transferred to STEP", where=str(path))
+        if writer.Write(str(path)) != IFSelect_RetDone:
+            raise InputError("the marked-up STEP file could not be written", where=str(path))
+
+
+def _refuse_input(path: Path, analysis) -> None:
+    source = getattr(getattr(analysis.scan, "model", None), "source", None)
+    if source and source != "<memory>" and os.path.exists(source) and path.exists() \
+            and os.path.samefile(source, path):
+        raise InputError("refusing to overwrite the input model", where=str(path))
+
+
+def _atomic_target(path: Path):
+    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".part")
+    os.close(fd)
+    return Path(tmp)
+
+
+def write_marked_step(analysis, path: Path) -> MarkupSummary:
+    """Write the marked-up model of ``analysis`` (geomjoint.analysis.Analysis) to ``path`` as STEP.
+
+    The file is written to a temporary name in the same folder and renamed, so a crash
+    leaves no half file under ``path``; ``path`` must not be the input model.
+    """
+    path = Path(path)
+    _refuse_input(path, analysis)
+    scene = markup_scene(analysis)
+    b = _XcafBuilder()
+    top = b.assembly(scene.title)
+    parts_asm = b.assembly("parts")
+    part_names = []
+    for item in scene.parts:
+        b.item(parts_asm, item)
+        part_names.append(item.name)
+    b.place(top, parts_asm, "parts")
+    summary = MarkupSummary(path=path, top=scene.title, parts=part_names, joints={}, verdicts={},
+                            layers={}, cones={}, generated=[])
+    if scene.joints:
+        joints_asm = b.assembly("joints")
+        for jm in scene.joints:
+            layer = layer_name(jm.verdict)
+            asm = b.assembly(jm.name)
+            for item in jm.items:
+                b.item(asm, item, layer)
+                if item.kind == "cone":
+                    summary.cones[f"{jm.name}/{item.name}"] = volume(item.shape)
+                if item.source == "generated" and item.kind in ("bolt", "nut", "washer"):
+                    summary.generated.append(f"{jm.id}/{item.name}")
+            b.layers.SetLayer(asm, TCollection_ExtendedString(layer), False)
+            b.colours.SetColor(asm, _colour(verdict_rgb(jm.verdict)), XCAFDoc_ColorSurf)
+            b.place(joints_asm, asm, jm.name)
+            summary.joints[jm.id] = jm.name
+            summary.verdicts[jm.id] = jm.verdict
+            summary.layers.setdefault(layer, []).append(jm.name)
+            summary.notes += jm.notes
+        b.place(top, joints_asm, "joints")
+    tmp = _atomic_target(path)
+    try:
+        b.write(tmp)
+        os.replace(tmp, path)
+    except BaseException:
+        if tmp.exists():
+            tmp.unlink()
+        raise
+    return summary
