@@ -195,6 +195,24 @@ def test_tapped_joint_near_the_effective_grip_frustum():
     assert len(res.contact_diameters) == 1 and res.contact_diameters[0] > d_w
 
 
+@pytest.mark.parametrize("thread_diameter", [None, 10.0])
+def test_tapped_load_acts_on_the_engaged_thread_only(thread_diameter):
+    # statics: the head pushes P down on the bearing annulus, the engaged thread pulls P up,
+    # and only on the hole wall of the tapped layer within the engaged length
+    g = fe.make_geometry([FeLayer(10.0, 2e5, 0.3), FeLayer(20.0, 2e5, 0.3)], 12.0, 18.0,
+                         bearing="pressure", tapped=True, thread_diameter=thread_diameter,
+                         engaged_length=8.0)
+    s = fe.solve_member_stack(g, 40.0, 0)
+    r, z = s.model.doflocs
+    fz = np.where(s.model.component == 1, s.load, 0.0)
+    r_t = (thread_diameter or 12.0) / 2
+    wall = (np.abs(r - r_t) < EPS) & (z > 12.0 - EPS) & (z < 20.0 + EPS)
+    head = np.abs(z - 30.0) < EPS
+    assert fz[wall].sum() == pytest.approx(1.0, rel=1e-12)
+    assert fz[head].sum() == pytest.approx(-1.0, rel=1e-12)
+    assert np.abs(fz[~wall & ~head]).max() < 1e-12
+
+
 # ----------------------------------------------------------------- Wileman et al. (1991)
 
 @pytest.mark.parametrize("material, d_over_l", [("steel", 0.25), ("steel", 1.0),

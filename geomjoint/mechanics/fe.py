@@ -41,7 +41,7 @@ Coordinates: r = x[0], z = x[1]; z = 0 is the far (nut) face, z = grip the head 
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
@@ -61,6 +61,9 @@ RADIUS_TOLERANCE = 0.005
 INTORDER = 4
 #: most active-set passes for the interface contact before giving up
 MAX_CONTACT_PASSES = 60
+#: radii (hole, thread, bearings) closer than this fraction of the bearing annulus's width are
+#: merged: a sliver element would be ill-conditioned, and the change of k_m is of this order
+RADIUS_SNAP = 0.02
 #: half-angle (deg) of the pressure cone whose reach starts the active-set iteration
 #: (the 30 deg frustum of Shigley 10th ed. Sec. 8-5; only a first guess, the iteration corrects it)
 START_CONE_ANGLE = 30.0
@@ -316,10 +319,13 @@ class StackSolution:
     mesh: StackMesh
     passes: int = 0
     elements: int = 0
+    load: np.ndarray | None = None   # the load vector f (N), dof order of model.basis
 
 
 @dataclass
-class _Geometry:
+class StackGeometry:
+    """Validated inputs of the member stack, radii in mm (from :func:`make_geometry`)."""
+
     layers: list[FeLayer]
     r_h: float
     r_w: float
@@ -329,10 +335,9 @@ class _Geometry:
     bearing: str
     interfaces: str
     tapped: bool
-    extra: dict = field(default_factory=dict)
 
 
-def _grids(g: _Geometry, r_out: float, level: int):
+def _grids(g: StackGeometry, r_out: float, level: int):
     """The radial grid and per-layer axial grids of the base mesh, refined ``level`` times."""
     radii = sorted({g.r_h, g.r_w, g.r_w2} | ({g.r_t} if g.tapped else set()))
     r_parts = []
@@ -386,7 +391,7 @@ def _interface_pairs(model: AxisymmetricModel, sm: StackMesh):
     return out
 
 
-def solve_member_stack(g: _Geometry, r_out: float, level: int = 0,
+def solve_member_stack(g: StackGeometry, r_out: float, level: int = 0,
                        contact_guess: Sequence[float] | None = None,
                        z_grids: Sequence[np.ndarray] | None = None) -> StackSolution:
     """Solve the stack for unit load at one outer radius and mesh level (see the module text).
@@ -417,8 +422,9 @@ def solve_member_stack(g: _Geometry, r_out: float, level: int = 0,
     area_top = np.pi * (g.r_w ** 2 - g.r_h ** 2)
     loads = [(top, -P, area_top, g.r_w)]
     if g.tapped:
-        wall = model.facets(lambda x: (np.abs(x[0] - g.r_t) < eps) & (x[1] > g.layers[-1].thickness
-                                                                       - g.engaged - eps))
+        t_last = g.layers[-1].thickness     # the tapped layer spans 0 <= z <= t_last
+        wall = model.facets(lambda x: (np.abs(x[0] - g.r_t) < eps) & (x[1] < t_last + eps)
+                            & (x[1] > t_last - g.engaged - eps))
         f += model.traction(wall, 0.0, P / (2.0 * np.pi * g.r_t * g.engaged))
     else:
         bot = annulus(0.0, g.r_h, g.r_w2)
@@ -475,10 +481,10 @@ def solve_member_stack(g: _Geometry, r_out: float, level: int = 0,
             diam.append(2.0 * float(radius[last]))
         else:
             diam.append(float(radius[last] + radius[last + 1]))
-    return StackSolution(P / approach, approach, diam, model, u, sm, passes, sm.mesh.t.shape[1])
+    return StackSolution(P / approach, approach, diam, model, u, sm, passes, sm.mesh.t.shape[1], f)
 
 
-def _cone_contact_guess(g: _Geometry) -> list[float]:
+def _cone_contact_guess(g: StackGeometry) -> list[float]:
     """Diameter of the START_CONE_ANGLE cone at each interface, from the nearer bearing face, mm."""
     tan_a = np.tan(np.radians(START_CONE_ANGLE))
     depth = np.cumsum([l.thickness for l in g.layers])[:-1]     # below the head face
@@ -503,7 +509,7 @@ def _check(name: str, value, positive: bool = True) -> float:
 
 def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=None,
                   bearing="rigid", interfaces="contact", tapped=False, thread_diameter=None,
-                  engaged_length=None) -> _Geometry:
+                  engaged_length=None) -> StackGeometry:
     """Validate the inputs of :func:`fe_member_stiffness` and bundle them (radii in mm)."""
     if not layers:
         raise InputError("FE member stiffness: at least one layer is needed")
@@ -530,8 +536,16 @@ def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=
     engaged = layers[-1].thickness if engaged_length is None else _check("engaged_length", engaged_length)
     if tapped and engaged > layers[-1].thickness * (1 + 1e-9):
         raise InputError("FE member stiffness: engaged_length exceeds the tapped layer's thickness")
-    return _Geometry(list(layers), d_h / 2, d_w / 2, d_w2 / 2, d_t / 2, min(engaged, layers[-1].thickness),
-                     bearing, interfaces, bool(tapped))
+    r_h, r_w, r_w2, r_t = d_h / 2, d_w / 2, d_w2 / 2, d_t / 2
+    snap = RADIUS_SNAP * (r_w - r_h)
+    if abs(r_t - r_h) < snap:
+        r_t = r_h
+    if abs(r_w2 - r_w) < snap:
+        r_w2 = r_w
+    if tapped and abs(r_t - r_w2) < snap:
+        r_w2 = r_t
+    return StackGeometry(list(layers), r_h, r_w, r_w2, r_t, min(engaged, layers[-1].thickness),
+                         bearing, interfaces, bool(tapped))
 
 
 def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_diameter: float,
