@@ -361,3 +361,28 @@ def test_drill_point_of_a_blind_hole_is_not_thread_depth():
     assert j.kind == "tapped"
     assert j.tapped_depth == pytest.approx(20.0, abs=TOL)
     assert j.layers[-1].hole.depth == pytest.approx(20.0 + h_cone, abs=TOL)
+
+
+def test_countersunk_screw_in_a_countersunk_cover():
+    # ISO 10642 M8 (from memory): head diameter about 16 mm, 90 deg head; modelled 16 mm, 4 mm high
+    head = cq.Solid.makeCone(4.0, 8.0, 4.0, cq.Vector(0, 0, -4), cq.Vector(0, 0, 1))
+    shank = cq.Solid.makeCylinder(4.0, 26.0, cq.Vector(0, 0, -30), cq.Vector(0, 0, 1))
+    screw = cq.Workplane().add(head.fuse(shank))
+    cover = (cq.Workplane("XY").box(40, 40, 12, centered=(True, True, False))
+             .faces(">Z").workplane().cskHole(9.0, 16.0, 90))
+    housing = (cq.Workplane("XY").box(40, 40, 30, centered=(True, True, False)).translate((0, 0, -30))
+               .faces(">Z").workplane().hole(6.8, 25))
+    a = cq.Assembly(name="csk")
+    a.add(housing, name="housing_steel")
+    a.add(cover, name="cover")
+    a.add(screw, name="screw_M8x30", loc=cq.Location(cq.Vector(0, 0, 12)))
+    (j,) = scan_model(a).joints
+    assert j.bolt.head_kind == "countersunk"
+    assert j.bolt.head_width == pytest.approx(16.0, abs=TOL)
+    assert j.bolt.length == pytest.approx(30.0, abs=TOL)     # overall, as ISO 10642 counts it
+    assert j.kind == "tapped"
+    # referred to the cover's top face (flush with the head)
+    assert j.grip == pytest.approx(12.0, abs=TOL)
+    assert j.layers[0].countersink == pytest.approx(16.0, abs=1e-6)
+    # 30 - 12 = 18 mm engaged in steel >= 1.0 d; 25 mm deep hole: no bottoming
+    assert not [f for f in j.findings if f.severity != "info"]

@@ -56,12 +56,12 @@ class Bolt:
     ref: np.ndarray           # a point on the axis
     direction: np.ndarray     # unit, from the head to the tip
     d: float                  # shank diameter (threads not modelled: the nominal)
-    length: float             # from under the head to the tip
-    head_kind: str            # "hex" | "socket"
+    length: float             # nominal length: under the head to the tip (countersunk: overall)
+    head_kind: str            # "hex" | "socket" | "countersunk"
     head_height: float
     head_width: float         # across flats (hex) or head diameter (socket)
     bearing_diameter: float   # outer diameter of the bearing face (hex: across flats)
-    bearing_point: np.ndarray  # centre of the bearing face (under the head)
+    bearing_point: np.ndarray  # centre of the bearing face (under the head; countersunk: the head's top)
     hint: SizeHint | None = None
     solid: TopoDS_Shape | None = field(default=None, repr=False, compare=False)
 
@@ -240,7 +240,19 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
     r = max(p.r0 for p in shank_secs)
     head_cyl = [p for p in group if p.r0 > SHANK_STEP_RATIO * r_long
                 and p.t0 >= head_range[0] - LINEAR_TOL and p.t1 <= head_range[1] + LINEAR_TOL]
+    head_cone = [p for p in faces.patches if p.kind == "cone" and not p.is_hole
+                 and np.linalg.norm(p.ref - ref) < 10 * LINEAR_TOL
+                 and abs(abs(float(np.dot(p.direction, d))) - 1) < ANGLE_TOL
+                 and p.t0 >= head_range[0] - LINEAR_TOL and p.t1 <= head_range[1] + LINEAR_TOL]
     af = _hex_width(faces, ref, d, head_range)
+    if head_cone and not head_cyl_wider(head_cone, group, head_range, r):
+        width = 2 * max(max(p.r0, p.r1) for p in head_cone)
+        if MIN_HEAD_WIDTH_RATIO * 2 * r <= width <= MAX_HEAD_WIDTH_RATIO * 2 * r:
+            # countersunk (ISO 10642): the length is overall, the reference is the head's top
+            direction = d if head_at_start else -d
+            top = a0 if head_at_start else a1
+            return Bolt(part, ref, direction, 2 * r, a1 - a0, "countersunk", head_h, width, width,
+                        ref + top * d, _hint(part), solid)
     if af and MIN_HEAD_WIDTH_RATIO * 2 * r <= af <= MAX_HEAD_WIDTH_RATIO * 2 * r:
         kind, width = "hex", af
     elif head_cyl and MIN_HEAD_WIDTH_RATIO * 2 * r <= 2 * max(p.r0 for p in head_cyl) <= MAX_HEAD_WIDTH_RATIO * 2 * r:
@@ -252,6 +264,13 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
     length = (a1 - s0) if head_at_start else (s1 - a0)
     return Bolt(part, ref, direction, 2 * r, length, kind, head_h, width, width,
                 ref + under * d, _hint(part), solid)
+
+
+def head_cyl_wider(cones, group, head_range, r) -> bool:
+    """True when a head cylinder is wider than the head cone (a chamfered round head)."""
+    rc = max(max(p.r0, p.r1) for p in cones)
+    return any(p.r0 > rc + LINEAR_TOL and p.t0 >= head_range[0] - LINEAR_TOL
+               and p.t1 <= head_range[1] + LINEAR_TOL for p in group)
 
 
 def _hint(name: str) -> SizeHint | None:

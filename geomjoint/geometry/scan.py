@@ -242,6 +242,11 @@ def add_findings(j: Joint) -> None:
             add(Finding("fail", "shank-in-nut" if j.kind == "through" else "shank-in-thread",
                         f"{j.bolt.part}: unthreaded shank {shank:.2f} mm (thread {b:.2f} mm by the standard rule) "
                         f"is longer than the grip {j.grip:.2f} mm and reaches {where}"))
+    if kind == "countersunk":
+        add(Finding("info", "grip", f"grip {j.grip:.3f} mm from the plate surface; a {t.designation} "
+                                    f"countersunk screw needs {needed:.2f} mm overall (no countersunk "
+                                    "length series in the catalog)"))
+        return
     try:
         j.shortest_length = catalog.shortest_length(t, needed, kind)
         what = (f"shortest standard {t.designation} {kind} length {j.shortest_length:g} mm "

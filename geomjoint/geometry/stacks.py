@@ -237,14 +237,16 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         e = _orientation(d, origin, layer_items, nuts)
     e = e / np.linalg.norm(e)
     ranges = {id(it): _s_range(it, origin, e) for it in comp}
-    # effective extent: a counterbore/countersink seat is where a head, nut or washer bears
+    # effective extent: a counterbore seat is where a head, nut or washer bears; a countersunk
+    # head is referred to the plate surface (its top, as ISO 10642 lengths are), so a
+    # countersink does not move the layer's start
     eff = {}
     for it in layer_items:
         r0, r1 = ranges[id(it)]
         s0, s1 = r0, r1
         if it.kind == "hole":
             h: Hole = it.obj
-            for feat in (h.counterbore, h.countersink):
+            for feat in (h.counterbore,):
                 if feat is None:
                     continue
                 seat_s = float(np.dot(h.point_at(feat[1]) - origin, e))
@@ -307,7 +309,11 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         h = it.obj
         role = "tapped" if (tapped and it is last) else "member"
         cb = h.counterbore[0] if h.counterbore and abs(eff[id(it)][0] - ranges[id(it)][0]) > LINEAR_TOL else None
-        cs = h.countersink[0] if h.countersink and cb is None and eff[id(it)][0] != ranges[id(it)][0] else None
+        cs = None
+        if h.countersink is not None:
+            open_s = float(np.dot(h.point_at(h.t0 if h.countersink[2] == "start" else h.t1) - origin, e))
+            if abs(open_s - ranges[id(it)][0]) < LINEAR_TOL:     # opens towards the head
+                cs = h.countersink[0]
         layers.append(Layer(it.part, role, s0 - s_b, s1 - s_b, h.diameter, h.through,
                             counterbore=cb, countersink=cs, material_hint=it.material_hint,
                             hole=h, solid=it.solid))
