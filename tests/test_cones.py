@@ -310,6 +310,45 @@ def test_two_close_bolts_each_lose_stiffness_and_shares_stay_physical():
     assert ra.stiffness == pytest.approx(1.0 / delta, rel=1e-7)
 
 
+def test_tilted_neighbour_bisector_moves_with_height():
+    # B's axis leans 3° towards +x: the bisecting plane is no longer parallel to A's axis
+    s, tilt = 24.0, math.radians(3.0)
+    a, b = _two_bolt_model(s)
+    b.axis_direction = (math.sin(tilt), 0.0, -math.cos(tilt))
+    res = clipped_cone_stiffness(a, [b])
+
+    # the plane, built independently: through the midpoint of A's mid-grip point c and the
+    # nearest point q of B's axis, normal q − c (mathematics)
+    c = (0.0, 0.0, 10.0)
+    p0, dirb = (s, 0.0, 20.0), b.axis_direction
+    t = sum((ci - pi) * di for ci, pi, di in zip(c, p0, dirb))
+    q = tuple(pi + t * di for pi, di in zip(p0, dirb))
+    w = tuple(qi - ci for qi, ci in zip(q, c))
+    m = tuple(0.5 * (qi + ci) for qi, ci in zip(q, c))
+    rh = HOLE / 2
+
+    def dist(z):  # distance from A's axis to the plane's trace at height 20 − z
+        zz = 20.0 - z
+        return abs(-m[0] * w[0] - m[1] * w[1] + (zz - m[2]) * w[2]) / math.hypot(w[0], w[1])
+
+    def radius(z):
+        return DW / 2 + min(z, 20.0 - z) * TAN
+
+    def area(z):
+        r = radius(z)
+        return math.pi * (r * r - rh * rh) - segment_area(r, dist(z))
+
+    from scipy.optimize import brentq
+    kinks = [brentq(lambda z: radius(z) - dist(z), lo, hi) for lo, hi in ((0.0, 10.0), (10.0, 20.0))]
+    delta, _ = integrate.quad(lambda z: 1.0 / (E_STEEL * area(z)), 0, 20.0,
+                              points=kinks + [10.0], epsabs=0.0, epsrel=1e-12, limit=200)
+    # independent integration of the exact disc-minus-segment area
+    assert res.stiffness == pytest.approx(1.0 / delta, rel=1e-8)
+    (name, head), _ = cone_solids(a, [b])
+    v_exact, _ = integrate.quad(area, 0.0, 10.0, points=kinks[:1], epsrel=1e-12, limit=200)
+    assert volume(head) == pytest.approx(v_exact, rel=1e-5)  # B-rep vs ∫ A dz
+
+
 def test_distant_neighbour_changes_nothing():
     a, b = _two_bolt_model(60.0)  # pitch beyond twice the largest cone radius
     assert clipped_cone_stiffness(a, [b]).stiffness == pytest.approx(

@@ -539,6 +539,24 @@ class _LayerSampler:
             self._edges[key] = _edges_of(self.clipped(local, mid, size))
         return self._edges[key]
 
+    def plane_contacts(self, side: str) -> list[float]:
+        """Heights where the cone disc of `side` first touches a bisecting line that moves
+        with z: r(z) = |c(z)|/√(a² + b²) with c(z) = c₀ + c₁·z (both linear in z)."""
+        cone = self.cone
+        out = []
+        r0, slope = (cone.rw, cone.tan) if side == "head" else (cone.rf + cone.L * cone.tan, -cone.tan)
+        for plane in self.planes:
+            h = math.hypot(float(cone.u @ plane.w), float(cone.v @ plane.w))
+            if h < 1e-12:
+                continue
+            c0 = float((cone.p0 - plane.m) @ plane.w) / h
+            c1 = float(cone.n @ plane.w) / h
+            for sign in (1.0, -1.0):
+                denom = slope - sign * c1
+                if abs(denom) > 1e-15:
+                    out.append((sign * c0 - r0) / denom)
+        return out
+
     def planes_fixed(self) -> bool:
         """True when every bisecting plane is parallel to the axis (cut independent of z)."""
         return all(abs(float(self.cone.n @ p.w)) < _PARALLEL_TOL for p in self.planes)
@@ -743,14 +761,15 @@ def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, 
         edges = sampler.fixed_edges(local, region_mid, size)
         # split where the disc radius meets a vertex or touches an edge
         cuts = [a, b]
-        if edges is not None:
-            ra, rb = sorted((float(cone.side_radius(a, side)), float(cone.side_radius(b, side))))
-            for rad in edges.breakpoints:
-                if ra < rad < rb:
-                    zc = cone.z_of_radius(float(rad), side)
-                    if a + _LENGTH_TOL < zc < b - _LENGTH_TOL:
-                        cuts.append(zc)
-        cuts = sorted(set(cuts))
+        # the part's own edges (with the neighbour cuts when those do not move with z)
+        fixed_geometry = edges if edges is not None else _edges_of(local.geom)
+        ra, rb = sorted((float(cone.side_radius(a, side)), float(cone.side_radius(b, side))))
+        for rad in fixed_geometry.breakpoints:
+            if ra < rad < rb:
+                cuts.append(cone.z_of_radius(float(rad), side))
+        if edges is None:
+            cuts.extend(sampler.plane_contacts(side))
+        cuts = sorted({c for c in cuts if a + _LENGTH_TOL < c < b - _LENGTH_TOL} | {a, b})
 
         def f_vec(z: np.ndarray) -> np.ndarray:
             r = cone.side_radius(z, side)
