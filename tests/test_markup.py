@@ -479,7 +479,7 @@ def plain_model(tmp_path_factory):
     pts = [(-30, 0), (30, 0)]
     a = cq.Assembly(name="cover")
     a.add(ms.plate(100, 40, 10, pts, 11.0), name="base plate (steel) ..v2", color=ms.STEEL)
-    a.add(ms.plate(100, 40, 8, pts, 11.0, z0=10.0), name="cover_plate:steel", color=ms.ALU)
+    a.add(ms.plate(100, 40, 8, pts, 11.0, z0=10.0), name="cover_plate:steel_part", color=ms.ALU)
     model = folder / "plain.step"
     ms.write_step(a, str(model))
     job = folder / "plain.toml"
@@ -499,7 +499,13 @@ def test_generated_hardware_from_catalog(plain_model):
     top = tree["tops"][0]
     parts = child(top, "parts")
     assert sorted(c["name"] for c in parts["children"]) == sorted(
-        [safe_name("base plate (steel) ..v2"), safe_name("cover_plate:steel")])
+        [safe_name("base plate (steel) ..v2"), "cover_plate_steel_part_"])
+    # cadquery's importer keeps both parts as leaves of "parts" (no "_part" ending swallowed)
+    import cadquery as cq
+
+    assy = cq.Assembly.importStep(str(plain_model["path"]))
+    cq_parts = next(c for c in assy.children if c.name == "parts")
+    assert sorted(c.name for c in cq_parts.children) == sorted(c["name"] for c in parts["children"])
     joints = child(top, "joints")
     t = catalog.thread("M10")
     head, nut = catalog.head(t, "hex"), catalog.nut(t)
@@ -528,6 +534,34 @@ def test_refuses_to_overwrite_the_input_model(plain_model):
     with pytest.raises(InputError):
         write_glb(plain_model["analysis"], model)
     assert digest(model) == before
+
+
+def test_node_names():
+    from geomjoint.geometry.markup import node_name
+
+    assert node_name("a/../b\x00c") == safe_name("a/../b\x00c")
+    assert "/" not in node_name("../../etc/passwd") and ".." not in node_name("../../etc/passwd")
+    assert node_name("bracket_part") == "bracket_part_"
+    long = node_name("x" * 300 + "_part")
+    assert len(long) <= 80 and not long.endswith("_part")
+
+
+def test_step_writer_keeps_stdout_clean(plain_model, tmp_path, capfd):
+    """`check --json` promises JSON alone on stdout: the kernel's transfer statistics must not leak."""
+    capfd.readouterr()
+    write_marked_step(plain_model["analysis"], tmp_path / "quiet.step")
+    out, _ = capfd.readouterr()
+    assert out == ""
+    assert (tmp_path / "quiet.step").read_bytes().startswith(b"ISO-10303-21")
+
+
+def test_shared_scene_gives_the_same_files(plain_model, tmp_path):
+    scene = markup_scene(plain_model["analysis"])
+    s1 = write_marked_step(plain_model["analysis"], tmp_path / "a.step", scene=scene)
+    write_glb(plain_model["analysis"], tmp_path / "a.glb", scene=scene)
+    assert s1.joints == plain_model["summary"].joints and s1.cones == pytest.approx(plain_model["summary"].cones)
+    tree, _ = glb_json(tmp_path / "a.glb")
+    assert sorted(n["name"] for n in tree["nodes"] if "extras" in n and n["name"] != "parts") == sorted(s1.joints)
 
 
 def test_crash_mid_write_leaves_no_file(plain_model, tmp_path, monkeypatch):

@@ -30,8 +30,7 @@ from OCP.TopExp import TopExp_Explorer
 from OCP.TopLoc import TopLoc_Location
 from OCP.TopoDS import TopoDS, TopoDS_Shape
 
-from geomjoint.errors import InputError
-from geomjoint.geometry.markup import MarkupItem, markup_scene, srgb_to_linear
+from geomjoint.geometry.markup import MarkupItem, MarkupScene, markup_scene, srgb_to_linear
 
 #: linear deflection of the tessellation as a fraction of the model's bounding-box diagonal
 TESSELLATION_FRACTION = 1e-3
@@ -105,11 +104,11 @@ def _mesh(item: MarkupItem, deflection: float):
     return mesh
 
 
-def build_scene(analysis):
+def build_scene(analysis, scene_data: MarkupScene | None = None):
     """The trimesh Scene of the marked-up model (joint nodes carry their results as metadata)."""
     import trimesh
 
-    scene_data = markup_scene(analysis)
+    scene_data = scene_data if scene_data is not None else markup_scene(analysis)
     deflection = tessellation_tolerance(scene_data.diagonal)
     scene = trimesh.Scene()
     base = scene.graph.base_frame
@@ -133,11 +132,12 @@ def build_scene(analysis):
     return scene
 
 
-def write_glb(analysis, path: Path) -> None:
+def write_glb(analysis, path: Path, *, scene: MarkupScene | None = None) -> None:
     """Write the marked-up model of ``analysis`` (geomjoint.analysis.Analysis) as GLB at ``path``.
 
     Written to a temporary name in the same folder and renamed (no half file under
-    ``path``); refuses to replace the input model.
+    ``path``); refuses to replace the input model.  ``scene``: a
+    :func:`~geomjoint.geometry.markup.markup_scene` already built (shared with the STEP writer).
     """
     from trimesh.exchange.gltf import export_glb
 
@@ -145,6 +145,6 @@ def write_glb(analysis, path: Path) -> None:
 
     path = Path(path)
     source = getattr(getattr(analysis.scan, "model", None), "source", None)
-    data = export_glb(build_scene(analysis))
+    data = export_glb(build_scene(analysis, scene))
     protect = [Path(source)] if source and source != "<memory>" and os.path.exists(source) else []
     write_atomic(path, data, protect=protect)

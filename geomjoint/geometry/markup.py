@@ -20,7 +20,8 @@ colour (palette in :mod:`geomjoint.report.palette`), by name, and by XCAF layer
 assembly and the assembly itself are on its verdict's layer).
 
 Node names are sanitised with :func:`geomjoint.outputs.safe_name` and made unique among
-siblings (a cadquery assembly demands that).  Each placed part gets its own prototype
+siblings (a cadquery assembly demands that); a name ending in "_part" gets a trailing "_",
+because cadquery's importer reads such a leaf as its parent's own shape.  Each placed part gets its own prototype
 (a part definition used by several instances is copied), so that hole faces of one
 instance can carry a colour without colouring the other instances.
 
@@ -29,8 +30,10 @@ writes it through XCAF and :func:`geomjoint.geometry.glb.write_glb` through trim
 """
 from __future__ import annotations
 
+import contextlib
 import math
 import os
+import sys
 import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -61,7 +64,7 @@ from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
 from OCP.XCAFDoc import XCAFDoc_ColorSurf, XCAFDoc_DocumentTool
 
 from geomjoint.errors import InputError
-from geomjoint.outputs import safe_name
+from geomjoint.outputs import MAX_NAME_LENGTH, safe_name
 from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
 
 #: prefix of the XCAF layer of each verdict ("geomjoint pass", ...)
@@ -143,12 +146,24 @@ class MarkupSummary:
 
 # ----------------------------------------------------------------------------- small helpers
 
-def _unique(name: str, taken: set[str]) -> str:
+#: cadquery's STEP importer takes a leaf named "*_part" for its parent's own shape: avoid that ending
+_IMPORTER_RESERVED_SUFFIX = "_part"
+
+
+def node_name(name: str) -> str:
+    """A node name made from a model's name: :func:`safe_name`, and never ending in "_part"."""
     base = safe_name(name)
+    if base.endswith(_IMPORTER_RESERVED_SUFFIX):
+        base = base[: MAX_NAME_LENGTH - 1] + "_"
+    return base
+
+
+def _unique(name: str, taken: set[str]) -> str:
+    base = node_name(name)
     out, k = base, 2
     while out in taken:
         suffix = f" #{k}"
-        out = base[: max(1, 80 - len(suffix))] + suffix
+        out = base[: max(1, MAX_NAME_LENGTH - len(suffix))] + suffix
         k += 1
     taken.add(out)
     return out
@@ -513,10 +528,33 @@ class _XcafBuilder:
         writer.SetNameMode(True)
         writer.SetColorMode(True)
         writer.SetLayerMode(True)
-        if not writer.Transfer(self.doc, STEPControl_AsIs):
+        with quiet_stdout():
+            done = writer.Transfer(self.doc, STEPControl_AsIs)
+            status = writer.Write(str(path)) if done else None
+        if not done:
             raise InputError("the marked-up model could not be transferred to STEP", where=str(path))
-        if writer.Write(str(path)) != IFSelect_RetDone:
+        if status != IFSelect_RetDone:
             raise InputError("the marked-up STEP file could not be written", where=str(path))
+
+
+@contextlib.contextmanager
+def quiet_stdout():
+    """Silence C++ writes to file descriptor 1 (OCCT prints transfer statistics there).
+
+    ``geomjoint check --json`` promises JSON alone on stdout, so the kernel's chatter
+    must not reach it.
+    """
+    sys.stdout.flush()
+    saved = os.dup(1)
+    try:
+        with open(os.devnull, "wb") as sink:
+            os.dup2(sink.fileno(), 1)
+            try:
+                yield
+            finally:
+                os.dup2(saved, 1)
+    finally:
+        os.close(saved)
 
 
 def _refuse_input(path: Path, analysis) -> None:
@@ -532,15 +570,16 @@ def _atomic_target(path: Path):
     return Path(tmp)
 
 
-def write_marked_step(analysis, path: Path) -> MarkupSummary:
+def write_marked_step(analysis, path: Path, *, scene: MarkupScene | None = None) -> MarkupSummary:
     """Write the marked-up model of ``analysis`` (geomjoint.analysis.Analysis) to ``path`` as STEP.
 
     The file is written to a temporary name in the same folder and renamed, so a crash
-    leaves no half file under ``path``; ``path`` must not be the input model.
+    leaves no half file under ``path``; ``path`` must not be the input model.  ``scene``:
+    a :func:`markup_scene` already built (shared with the GLB writer to build the cones once).
     """
     path = Path(path)
     _refuse_input(path, analysis)
-    scene = markup_scene(analysis)
+    scene = scene if scene is not None else markup_scene(analysis)
     b = _XcafBuilder()
     top = b.assembly(scene.title)
     parts_asm = b.assembly("parts")
