@@ -131,6 +131,15 @@ def _check_keys(table: Any, allowed: set[str], where: str) -> dict[str, Any]:
     return table
 
 
+def _inside(folder: Path, relative: str) -> bool:
+    """True when ``relative`` (a path from the job file) stays inside ``folder``, by its text (symlinks allowed)."""
+    import os
+
+    base = os.path.normpath(os.path.abspath(folder))
+    target = os.path.normpath(os.path.join(base, relative))
+    return os.path.commonpath([base, target]) == base
+
+
 def load_job(path: str | Path) -> Job:
     """Read and check a job file; raises :class:`InputError` naming the file and key."""
     path = Path(path)
@@ -168,6 +177,10 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
         if not isinstance(raw["model"], str) or not raw["model"].strip():
             raise InputError("expected a file path string", where=f"{name}: model")
         model = (path.parent / raw["model"]).resolve()
+        if not Path(raw["model"]).is_absolute() and not _inside(path.parent, raw["model"]):
+            # a job file from elsewhere must not reach up the tree; an absolute path is deliberate
+            raise InputError(f"model path {raw['model']!r} leads outside the job's folder; put the model "
+                             f"beside the job file (or below it), or give an absolute path", where=f"{name}: model")
         if not model.exists():
             raise InputError(f"model file {raw['model']!r} does not exist", where=f"{name}: model")
         if model.is_dir():

@@ -1,0 +1,337 @@
+"""Write the broken-input corpus under tests/corpus/ (run from anywhere; output is committed).
+
+    .venv/bin/python tests/corpus/make_corpus.py
+
+Every case is a file plus one row of ``manifest.json``:
+
+    {"name": ..., "command": "scan" | "check", "file": path relative to tests/corpus,
+     "exit": 2 (or 0 / 1 for inputs that are valid but tricky),
+     "names": [strings the one stderr line must contain: the file and the key/part/entity],
+     "joints": number of joints the scan must find (valid tricky models only),
+     "finding": a finding code the scan must (or, with "no_finding", must not) report,
+     "needs": "" or the change in cli/analysis/geometry the case waits for (the test is xfail)}
+
+STEP files that need a real writer (a face, a shell, plates with holes) are made with
+cadquery / OCP; the rest are text edits of those. The header time stamp is fixed so the
+script gives the same bytes on every run. All scenarios are invented (a small plate pair).
+"""
+from __future__ import annotations
+
+import json
+import random
+import re
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+STEP_DIR = HERE / "step"
+JOB_DIR = HERE / "jobs"
+
+#: the M10 clearance hole of the plate pairs, mm (ISO 273 medium series for M10)
+HOLE_M10_MEDIUM = 11.0
+#: nominal diameter of M10, mm (ISO 261)
+D_M10 = 10.0
+#: the change that wires the byte sniff of geomjoint/limits.py into the reader
+NEEDS_SNIFF = ("geometry/model.py _read_step: call geomjoint.limits.check_step_file(path) in place of "
+               "its own _check_step_file(path)")
+#: the change that catches solids the reader drops, splits or heals
+NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: count the MANIFOLD_SOLID_BREP / BREP_WITH_VOIDS entities of "
+                     "the file and compare with the solids after transfer; on a difference raise InputError naming "
+                     "the entity or product ('solid #N of P is not closed / non-manifold: the reader dropped or split "
+                     "it'); or run BRepCheck_Analyzer on the transferred solids")
+#: radial clearance of each plate: the bolt passes an offset of twice this (scan rule, DESIGN.md)
+RADIAL_CLEARANCE = (HOLE_M10_MEDIUM - D_M10) / 2
+PLATE = (40.0, 40.0, 10.0)   # invented demo plate, mm
+
+
+# ---------------------------------------------------------------- writing STEP
+def write_step(shapes: list[tuple[str, object]], path: Path) -> None:
+    """Write named cadquery shapes / workplanes as one AP214 assembly, in mm."""
+    import cadquery as cq
+    from cadquery.occ_impl.assembly import toCAF
+    from OCP.Interface import Interface_Static
+    from OCP.STEPCAFControl import STEPCAFControl_Writer
+    from OCP.STEPControl import STEPControl_AsIs
+
+    assy = cq.Assembly(name="corpus")
+    for name, shape in shapes:
+        assy.add(shape, name=name)
+    _, doc = toCAF(assy)
+    writer = STEPCAFControl_Writer()
+    writer.SetNameMode(True)
+    Interface_Static.SetCVal_s("write.step.unit", "MM")
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)   # no 2-D curves: smaller files
+    writer.Transfer(doc, STEPControl_AsIs)
+    writer.Write(str(path))
+    _fix_timestamp(path)
+
+
+def write_shape(shape, path: Path) -> None:
+    """Write one bare OCP shape (face, shell, solid) with the plain STEP writer."""
+    from OCP.Interface import Interface_Static
+    from OCP.STEPControl import STEPControl_AsIs, STEPControl_Writer
+
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)
+    writer = STEPControl_Writer()
+    writer.Transfer(shape, STEPControl_AsIs)
+    writer.Write(str(path))
+    _fix_timestamp(path)
+
+
+def _fix_timestamp(path: Path) -> None:
+    text = path.read_text()
+    text = re.sub(r"FILE_NAME\('([^']*)','[^']*'", r"FILE_NAME('\1','2026-01-01T00:00:00'", text, count=1)
+    text = text.replace(str(path), path.name)
+    path.write_text(text)
+
+
+def plate(holes: list[tuple[float, float]], z0: float, dia: float = HOLE_M10_MEDIUM, size=PLATE):
+    import cadquery as cq
+
+    lx, ly, t = size
+    w = cq.Workplane("XY").box(lx, ly, t, centered=(True, True, False))
+    if holes:
+        w = w.faces(">Z").workplane().pushPoints(holes).hole(dia)
+    return w.translate((0, 0, z0))
+
+
+def plate_pair(offset: float) -> list[tuple[str, object]]:
+    """Two 10 mm steel plates, one M10 clearance hole each, the upper hole offset in x."""
+    return [("upper_plate_steel", plate([(offset, 0.0)], PLATE[2])),
+            ("lower_plate_steel", plate([(0.0, 0.0)], 0.0))]
+
+
+# ---------------------------------------------------------------- STEP cases
+def step_cases() -> list[dict]:
+    import cadquery as cq
+
+    STEP_DIR.mkdir(parents=True, exist_ok=True)
+    cases: list[dict] = []
+
+    def case(name, file, exit=2, names=(), needs="", **extra):
+        cases.append({"name": name, "command": "scan", "file": f"step/{file}", "exit": exit,
+                      "names": [file, *names], "needs": needs, **extra})
+
+    good = STEP_DIR / "plate_pair.step"
+    write_step(plate_pair(0.0), good)
+    case("good plate pair (reference for the text edits)", "plate_pair.step", exit=0, names=(), joints=1,
+         no_finding="misaligned")
+    text = good.read_text()
+
+    (STEP_DIR / "empty.step").write_bytes(b"")
+    case("STEP empty", "empty.step", names=("empty",))
+
+    data_at = text.index("DATA;")
+    cut = text.index("\n", data_at + (len(text) - data_at) // 2)
+    (STEP_DIR / "truncated.step").write_text(text[:cut + 20])    # ends inside an entity
+    case("STEP truncated mid-entity", "truncated.step", names=("truncated",))
+
+    rng = random.Random(8)
+    (STEP_DIR / "junk.step").write_bytes(bytes(rng.randrange(256) for _ in range(4096)))
+    case("binary junk", "junk.step", names=("not a STEP file",))
+
+    junk = bytes(rng.randrange(256) for _ in range(2048))
+    (STEP_DIR / "junk_in_header.step").write_bytes(b"ISO-10303-21;\nHEADER;\n" + junk + b"\nEND-ISO-10303-21;\n")
+    case("binary junk behind a STEP header", "junk_in_header.step", names=("binary",), needs=NEEDS_SNIFF)
+
+    header = text[:data_at]
+    (STEP_DIR / "no_solids.step").write_text(header + "DATA;\nENDSEC;\nEND-ISO-10303-21;\n")
+    case("valid header, empty DATA, no solids", "no_solids.step", names=("no solids",), needs=NEEDS_SNIFF)
+
+    face = cq.Workplane("XY").rect(30, 20).val()
+    face = cq.Face.makeFromWires(face) if not isinstance(face, cq.Face) else face
+    write_shape(face.wrapped, STEP_DIR / "face_only.step")
+    case("only a surface (face), no solid", "face_only.step", names=("no solids",))
+
+    box = cq.Workplane("XY").box(30, 20, 10).val()
+    shell = cq.Shell.makeShell(box.Faces()[:5])              # an open box: five faces, no lid
+    write_shape(shell.wrapped, STEP_DIR / "open_shell.step")
+    case("only an open shell, no solid", "open_shell.step", names=("no solids",))
+
+    # A solid whose closed shell lacks a face: declared MANIFOLD_SOLID_BREP, not closed.
+    solid = cq.Workplane("XY").box(30, 20, 10).val()
+    write_shape(solid.wrapped, STEP_DIR / "box.step")
+    btext = (STEP_DIR / "box.step").read_text()
+    (STEP_DIR / "box.step").unlink()
+    m = re.search(r"(#\d+)\s*=\s*CLOSED_SHELL\('',\(([^)]*)\)\)", btext)
+    faces = [f.strip() for f in m.group(2).split(",")]
+    broken = btext.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1])}))")
+    (STEP_DIR / "solid_missing_face.step").write_text(broken)
+    case("solid whose closed shell has a face missing", "solid_missing_face.step", names=("no solids",))
+
+    # The same slip in one part of an assembly: the reader drops that solid without a word, so the
+    # joint it belongs to vanishes. An engineer expects to hear which part was lost.
+    m = re.search(r"(#\d+)\s*=\s*CLOSED_SHELL\('',\(([^)]*)\)\)", text)
+    faces = [f.strip() for f in m.group(2).split(",")]
+    lost = text.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1])}))")
+    (STEP_DIR / "assembly_part_lost.step").write_text(lost)
+    case("assembly with one solid broken (face missing): part silently lost", "assembly_part_lost.step",
+         names=("solid",), needs=NEEDS_SOLID_COUNT)
+
+    # Two cubes sharing one edge sewn into one shell and made one solid: the shared edge
+    # bounds four faces (non-manifold); OCCT's BRepCheck calls the solid invalid.
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeSolid, BRepBuilderAPI_Sewing
+    from OCP.TopoDS import TopoDS
+
+    a = cq.Workplane("XY").box(10, 10, 10, centered=False).val()
+    b = a.translate(cq.Vector(10, 10, 0))
+    sewing = BRepBuilderAPI_Sewing(1e-6, True, True, True, True)   # last flag: non-manifold mode
+    for f in a.Faces() + b.Faces():
+        sewing.Add(f.wrapped)
+    sewing.Perform()
+    shell = TopoDS.Shell_s(sewing.SewedShape())
+    write_shape(BRepBuilderAPI_MakeSolid(shell).Solid(), STEP_DIR / "non_manifold.step")
+    case("non-manifold solid: two cubes sharing an edge in one solid", "non_manifold.step",
+         names=("non-manifold",),
+         needs=NEEDS_SOLID_COUNT)
+
+    unit = text.replace(".MILLI.,.METRE.", ".MILLI.,.FURLONG.", 1)
+    assert unit != text
+    (STEP_DIR / "unknown_unit.step").write_text(unit)
+    case("unit the reader does not know (.FURLONG.)", "unknown_unit.step", names=("unit", "FURLONG", "#"),
+         needs=NEEDS_SNIFF)
+
+    (STEP_DIR / "huge_part.step").unlink(missing_ok=True)
+    write_step([("rail_steel", plate([], 0.0, size=(1.0e6, 40.0, 10.0)))], STEP_DIR / "huge_part.step")
+    case("a part a million mm long", "huge_part.step", names=("rail_steel", "long"),
+         needs="geometry/model.py load_model: limits.check_part_extent(part.name, bbox diagonal, path) "
+               "for each part")
+
+    # holes that almost line up: the bolt passes an offset of 2 x radial clearance (1.0 mm for M10 in 11 mm)
+    inside = 2 * RADIAL_CLEARANCE - 0.05
+    outside = 2 * RADIAL_CLEARANCE + 0.05
+    write_step(plate_pair(inside), STEP_DIR / "offset_inside.step")
+    case(f"holes offset {inside:g} mm, inside the clearance", "offset_inside.step", exit=0, joints=1,
+         no_finding="misaligned")
+    write_step(plate_pair(outside), STEP_DIR / "offset_outside.step")
+    case(f"holes offset {outside:g} mm, just outside the clearance", "offset_outside.step", exit=1, joints=1,
+         finding="misaligned")
+    apart = HOLE_M10_MEDIUM + 1.0            # the circles no longer overlap: two separate holes
+    write_step(plate_pair(apart), STEP_DIR / "offset_apart.step")
+    case(f"holes {apart:g} mm apart, no overlap: two lone holes, no joint", "offset_apart.step", exit=0, joints=0)
+
+    # the same plate twice in the same place (a copy-paste slip): an engineer expects to be told,
+    # and the grip must not silently count the plate twice
+    write_step(plate_pair(0.0) + [("upper_plate_steel_copy", plate([(0.0, 0.0)], PLATE[2]))],
+               STEP_DIR / "duplicate_instance.step")
+    case("duplicate instance on top of itself", "duplicate_instance.step", exit=1, joints=1,
+         finding="duplicate", names=(),
+         needs="geometry/stacks.py build_joint: two layers of one joint whose axial ranges coincide "
+               "(same start/end) -> Finding('fail', 'duplicate', 'P and P#2 occupy the same space')")
+    return cases
+
+
+# ---------------------------------------------------------------- job cases
+BASE = """\
+[defaults]
+fastener = "M12"
+grade = "8.8"
+
+[[joint]]
+id = "A1"
+layers = [ { material = "steel", thickness = "16 mm" },
+           { material = "steel", thickness = "16 mm" } ]
+load = { min = "0 kN", max = "10 kN" }
+"""
+
+GROUP = """
+[[joint]]
+id = "A2"
+layers = [ { material = "steel", thickness = "16 mm" },
+           { material = "steel", thickness = "16 mm" } ]
+
+[[group]]
+joints = ["A1", "A2"]
+positions = [["0 mm", "0 mm"], ["80 mm", "0 mm"]]
+point = ["40 mm", "0 mm", "50 mm"]
+force = { max = ["0 kN", "0 kN", "6 kN"] }
+moment = { max = ["0 N*m", "100 N*m", "0 N*m"] }
+"""
+
+#: (file stem, edit of BASE: (old, new) or a whole text, strings the error line must name)
+JOB_EDITS: list[tuple[str, object, tuple[str, ...]]] = [
+    ("syntax_error", BASE + "\n[[joint]\n", ("TOML syntax",)),
+    ("unknown_top_key", "modle = \"x.step\"\n" + BASE, ("modle", "model")),
+    ("unknown_joint_key", ('id = "A1"', 'id = "A1"\ncolour = "red"'), ("colour",)),
+    ("unknown_layer_key", ('material = "steel", thickness', 'materiel = "steel", thickness'), ("materiel",)),
+    ("wrong_type_thickness", ('thickness = "16 mm" },\n', 'thickness = true },\n'), ("thickness",)),
+    ("wrong_type_layers", ('layers = [ { material = "steel", thickness = "16 mm" },\n'
+                           '           { material = "steel", thickness = "16 mm" } ]', 'layers = "steel"'), ("layers",)),
+    ("wrong_type_tapped", ('id = "A1"', 'id = "A1"\ntapped = "yes"'), ("tapped",)),
+    ("wrong_type_defaults", BASE.replace('[defaults]\nfastener = "M12"\ngrade = "8.8"\n', 'defaults = "M12 8.8"\n'),
+     ("[defaults]", "table")),
+    ("missing_unit_thickness", ('thickness = "16 mm" },\n', 'thickness = 16 },\n'), ("thickness", "no unit")),
+    ("missing_unit_load", ('max = "10 kN"', 'max = 10'), ("max", "no unit")),
+    ("wrong_dimension", ('thickness = "16 mm" },\n', 'thickness = "16 kg" },\n'), ("thickness",)),
+    ("zero_thickness", ('thickness = "16 mm" },\n', 'thickness = "0 mm" },\n'), ("thickness",)),
+    ("negative_thickness", ('thickness = "16 mm" },\n', 'thickness = "-16 mm" },\n'), ("thickness",)),
+    ("nan_thickness", ('thickness = "16 mm" },\n', 'thickness = "nan mm" },\n'), ("thickness",)),
+    ("negative_load", ('max = "10 kN"', 'max = "-10 kN"'), ("load",)),
+    ("zero_torque", ('grade = "8.8"', 'grade = "8.8"\ntorque = "0 N*m"\nnut_factor = 0.2'), ("torque",)),
+    ("zero_length", ('id = "A1"', 'id = "A1"\nlength = "0 mm"'), ("length",)),
+    ("max_below_min", ('min = "0 kN"', 'min = "12 kN"'), ("load", "less than min")),
+    ("reliability_above_1", ('grade = "8.8"', 'grade = "8.8"\nreliability = 1.2'), ("reliability",)),
+    ("reliability_1", ('grade = "8.8"', 'grade = "8.8"\nreliability = 1.0'), ("reliability",)),
+    ("reliability_0", ('grade = "8.8"', 'grade = "8.8"\nreliability = 0'), ("reliability",)),
+    ("unknown_material", ('material = "steel"', 'material = "unobtainium"'), ("material", "unobtainium")),
+    ("unknown_grade", ('grade = "8.8"', 'grade = "8.9"'), ("grade",)),
+    ("unknown_fastener", ('fastener = "M12"', 'fastener = "M13"'), ("fastener",)),
+    ("unknown_criterion", ('grade = "8.8"', 'grade = "8.8"\ncriterion = "goodmann"'), ("criterion",)),
+    ("preload_over_120", ('grade = "8.8"', 'grade = "8.8"\npreload = "150%"'), ("preload",)),
+    ("cone_angle_90", ('grade = "8.8"', 'grade = "8.8"\ncone_angle = "90 deg"'), ("cone_angle",)),
+    ("friction_low", ('grade = "8.8"', 'grade = "8.8"\nfriction = { thread = 0.01, head = 0.12 }'), ("friction.thread",)),
+    ("friction_high", ('grade = "8.8"', 'grade = "8.8"\nfriction = { thread = 0.12, head = 0.9 }'), ("friction.head",)),
+    ("scatter_below_1", ('grade = "8.8"', 'grade = "8.8"\nscatter = 0.8'), ("scatter",)),
+    ("unknown_roughness", ('grade = "8.8"', 'grade = "8.8"\nmethod = "vdi"\nroughness = "mirror"'), ("roughness",)),
+    ("joint_without_id", ('id = "A1"\n', ''), ("joint[0]", "id")),
+    ("duplicate_id", BASE + BASE.split("\n", 3)[3], ("joint[1]", "A1")),
+    ("empty_layers", ('layers = [ { material = "steel", thickness = "16 mm" },\n'
+                      '           { material = "steel", thickness = "16 mm" } ]', 'layers = []'), ("layers",)),
+    ("group_one_bolt", BASE + GROUP.replace('joints = ["A1", "A2"]', 'joints = ["A1"]').replace(
+        'positions = [["0 mm", "0 mm"], ["80 mm", "0 mm"]]', 'positions = [["0 mm", "0 mm"]]'), ("group[0]", "2")),
+    ("group_coincident", BASE + GROUP.replace('["80 mm", "0 mm"]]', '["0 mm", "0 mm"]]'), ("group[0]", "coincide")),
+    ("group_moment_without_point", BASE + GROUP.replace('point = ["40 mm", "0 mm", "50 mm"]\n', ''),
+     ("group[0]", "point")),
+    ("model_missing", 'model = "nowhere.step"\n' + BASE, ("model", "nowhere.step")),
+    ("model_is_folder", 'model = "sub"\n' + BASE, ("model", "folder")),
+    ("model_outside_folder", 'model = "../step/plate_pair.step"\n' + BASE, ("model", "outside")),
+    ("model_broken", 'model = "sub/empty_model.step"\n' + BASE, ("empty_model.step", "empty")),
+]
+
+
+def job_cases() -> list[dict]:
+    JOB_DIR.mkdir(parents=True, exist_ok=True)
+    (JOB_DIR / "sub").mkdir(exist_ok=True)
+    (JOB_DIR / "sub" / "empty_model.step").write_bytes(b"")
+    cases = []
+    for stem, edit, names in JOB_EDITS:
+        if isinstance(edit, tuple):
+            old, new = edit
+            assert old in BASE, stem
+            text = BASE.replace(old, new, 1)
+        else:
+            text = edit
+        assert text != BASE, stem
+        (JOB_DIR / f"{stem}.toml").write_text(text)
+        cases.append({"name": stem.replace("_", " "), "command": "check", "file": f"jobs/{stem}.toml",
+                      "exit": 2, "names": [f"{stem}.toml" if stem != "model_broken" else "", *names],
+                      "needs": ""})
+    (JOB_DIR / "not_utf8.toml").write_bytes(BASE.encode() + b"# \xff\xfe latin-1 slip\n")
+    cases.append({"name": "job not UTF-8", "command": "check", "file": "jobs/not_utf8.toml", "exit": 2,
+                  "names": ["not_utf8.toml", "UTF-8"], "needs": ""})
+    cases.append({"name": "job path does not exist", "command": "check", "file": "jobs/no_such_job.toml", "exit": 2,
+                  "names": ["no_such_job.toml", "does not exist"], "needs": ""})
+    cases.append({"name": "job path is a folder", "command": "check", "file": "jobs/sub", "exit": 2,
+                  "names": ["sub", "folder"], "needs": ""})
+    for c in cases:
+        c["names"] = [n for n in c["names"] if n]
+    return cases
+
+
+def main() -> None:
+    cases = step_cases() + job_cases()
+    (HERE / "manifest.json").write_text(json.dumps(cases, indent=1) + "\n")
+    print(f"{len(cases)} cases written to {HERE}")
+
+
+if __name__ == "__main__":
+    main()
