@@ -59,8 +59,14 @@ MESH_TOLERANCE = 0.01
 RADIUS_TOLERANCE = 0.005
 #: quadrature order on each element (exact for the polynomial part of Quad2 products)
 INTORDER = 4
+#: most uniform refinements of the base mesh tried to meet MESH_TOLERANCE (each has 4x the elements)
+MAX_REFINEMENTS = 2
 #: most active-set passes for the interface contact before giving up
 MAX_CONTACT_PASSES = 60
+#: growth of the element size away from the bearing edge and from the layer faces
+GROWTH = 1.4
+#: the first axial step at a thick layer's faces is the annulus width over this
+Z_FIRST_STEP = 2.0
 #: radii (hole, thread, bearings) closer than this fraction of the bearing annulus's width are
 #: merged: a sliver element would be ill-conditioned, and the change of k_m is of this order
 RADIUS_SNAP = 0.02
@@ -260,6 +266,19 @@ def geometric_interval(a: float, b: float, h0: float, growth: float) -> np.ndarr
     return np.array(pts)
 
 
+def layer_interval(t: float, h0: float, n: int) -> np.ndarray:
+    """Node heights 0..t of one layer graded towards both faces.
+
+    Chebyshev spacing with n elements while its first step is not below h0; a thicker layer
+    gets steps growing geometrically (GROWTH) from h0 at both faces towards its middle.
+    """
+    z = graded_interval(0.0, t, n)
+    if z[1] <= h0:
+        return z
+    half = geometric_interval(0.0, 0.5 * t, h0, GROWTH)
+    return np.unique(np.concatenate([half, t - half]))
+
+
 def refine_grid(x: np.ndarray, times: int = 1) -> np.ndarray:
     """Halve every interval of a grid ``times`` times."""
     for _ in range(times):
@@ -349,13 +368,13 @@ def _grids(g: StackGeometry, r_out: float, level: int):
         lo = hi
     h0 = (r_parts[-1][-1] - r_parts[-1][-2]) if r_parts else 0.1 * g.r_w
     if r_out > lo * (1 + 1e-9):
-        r_parts.append(geometric_interval(lo, r_out, h0, 1.4))
+        r_parts.append(geometric_interval(lo, r_out, h0, GROWTH))
     r = np.unique(np.concatenate(r_parts))
     ref = g.r_w - g.r_h
     z_grids = []
     for i, lay in enumerate(g.layers):
         n = int(np.clip(np.ceil(2.0 * lay.thickness / ref), 4, 10))
-        z = graded_interval(0.0, lay.thickness, n)
+        z = layer_interval(lay.thickness, ref / Z_FIRST_STEP, n)
         if g.tapped and i == len(g.layers) - 1 and g.engaged < lay.thickness * (1 - 1e-9):
             cut = lay.thickness - g.engaged
             z = np.unique(np.concatenate([graded_interval(0.0, cut, max(2, n // 2)),
@@ -608,7 +627,7 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
             fine = solve_member_stack(g, r_out, level, sol.contact_diameters)
             change = abs(fine.stiffness - sol.stiffness) / fine.stiffness
             sol = fine
-            if change < MESH_TOLERANCE or level >= 3:
+            if change < MESH_TOLERANCE or level >= MAX_REFINEMENTS:
                 break
     return FeResult(sol.stiffness, sol.approach, sol.contact_diameters, 2 * r_out, change,
                     sol.elements, time.perf_counter() - t0)
