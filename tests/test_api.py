@@ -24,7 +24,7 @@ def test_in_memory_assembly_equals_step_file(tmp_path):
     assembly = example.build()
     in_memory = assembly.check_bolted_joints(example.JOB)
     step = tmp_path / "foot.step"
-    assembly.save(str(step))     # cadquery's own STEP writer
+    assembly.export(str(step))   # cadquery own STEP writer
     job = geomjoint.parse_job(example.JOB, tmp_path / "foot.toml")
     from_file = geomjoint.analyze(job, step)
     assert len(in_memory) == 2
