@@ -52,6 +52,7 @@ from geomjoint.geometry.sections import (
     PlaneFrame,
     SectionCache,
     as_occ_shape,
+    local_block,
     section_polygons,
 )
 
@@ -66,6 +67,7 @@ _ADAPT_RTOL = 1e-9          # relative agreement of Gauss on a piece vs on its t
 _ADAPT_DEPTH = 6            # max halvings of a prismatic piece
 _ADAPT_DEPTH_SECTIONED = 1  # max halvings where every point costs a true section
 _MANY_VERTICES = 64         # rings with more vertices give only min/max breakpoints
+_FEW_FACES = 40             # parts with more faces are cut to a box before per-point sections
 
 
 @dataclass
@@ -458,6 +460,7 @@ class _LayerSampler:
         self.planes = [p for p in planes if layer.part in p.parts]
         self._prepared: dict = {}
         self._edges: dict = {}
+        self._blocks: dict = {}
 
     # -- region decomposition from the face catalogue --------------------------------
     def regions(self, za: float, zb: float) -> list[tuple[float, float, bool]]:
@@ -513,8 +516,24 @@ class _LayerSampler:
         offset = cone.frame.offset_of(cone.point(z))
         cx, cy = cone.centre
         window = (cx - size, cy - size, cx + size, cy + size)
-        sec = section_polygons(self.shape, cone.frame, offset, window, self.cache.sections.deflection)
+        sec = section_polygons(self._block(size), cone.frame, offset, window,
+                               self.cache.sections.deflection)
         return _localise(sec, cone, self.rh)
+
+    def _block(self, size: float):
+        """The part itself, or (when it has many faces) the part cut to a box around the
+        axis over the layer, so that each of the many per-point sections is cheap."""
+        if len(self.cache.sections.faces(self.shape).kind) <= _FEW_FACES:
+            return self.shape
+        key = round(size, 6)
+        if key not in self._blocks:
+            cone, layer = self.cone, self.layer
+            s0 = cone.frame.offset_of(cone.point(layer.z_start))
+            s1 = cone.frame.offset_of(cone.point(layer.z_end))
+            pad = 1.0 + 0.01 * abs(s1 - s0)
+            self._blocks[key] = local_block(self.shape, cone.frame, tuple(cone.centre), 1.01 * size,
+                                            (min(s0, s1) - pad, max(s0, s1) + pad))
+        return self._blocks[key]
 
     def clipped(self, local: _Local, z: float, size: float) -> MultiPolygon:
         """The local section cut by the neighbours' bisecting half-planes at height z."""
