@@ -32,9 +32,15 @@ Modelling choices (why, briefly):
 * Rigid-body motion: the only one in axisymmetry is an axial translation; the loads
   are self-equilibrated, so one axial dof is fixed (it does not change f . u).
 * Mesh: structured, graded towards the hole, the bearing edge (r = d_w/2) and every
-  layer face; the outer region grows geometrically.  One uniform refinement (every
-  interval halved) measures the discretisation error; it is refined again until the
-  change is under 1 %.
+  layer face; the outer region (and the middle of very thick layers) grows
+  geometrically.  One uniform refinement (every interval halved) measures the
+  discretisation error; it is refined again (at most MAX_REFINEMENTS times) until the
+  change is under 1 %, and the finest result is returned.  Radii closer than
+  RADIUS_SNAP of the annulus width are merged (no sliver elements).
+* Plate radius: unless given, doubled from beyond the cone's reach until k_m changes
+  by under 0.5 % (on the base mesh), then the refinement check runs at that radius.
+* Solver: the constraints (rigid faces, ties, the fixed dof) are eliminated by a 0/1
+  map u = T q, and K_r = T' K T is factorised by SuperLU with a symmetric ordering.
 
 Coordinates: r = x[0], z = x[1]; z = 0 is the far (nut) face, z = grip the head face.
 """
