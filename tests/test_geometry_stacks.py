@@ -386,3 +386,14 @@ def test_countersunk_screw_in_a_countersunk_cover():
     assert j.layers[0].countersink == pytest.approx(16.0, abs=1e-6)
     # 30 - 12 = 18 mm engaged in steel >= 1.0 d; 25 mm deep hole: no bottoming
     assert not [f for f in j.findings if f.severity != "info"]
+
+
+def test_fine_clearance_at_the_far_end_is_not_a_thread():
+    a = cq.Assembly(name="mixed_clearance")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 11.0, z0=10.0), name="upper")
+    a.add(ms.plate(40, 40, 10, [(0, 0)], 10.5), name="lower")
+    (j,) = scan_model(a).joints
+    # ISO 273: 10.5 mm is the fine clearance of M10, not a tap drill (8.5, ISO 2306, from memory)
+    assert j.kind == "through"
+    assert [l.role for l in j.layers] == ["member", "member"]
+    assert j.grip == pytest.approx(20.0, abs=TOL)

@@ -27,6 +27,8 @@ from geomjoint.geometry.holes import LINEAR_TOL, Hole, canonical_direction
 STACK_ANGLE_TOL = math.radians(0.5)
 #: layers closer than this along the axis are in contact, mm
 GAP_TOL = 1e-3
+#: a bore matches a tap drill or nominal diameter within this, mm (the catalog's default)
+THREAD_MATCH_TOL = 0.05
 #: holes larger than this are bores, not fastener holes, mm (ISO 273 coarse for M64 is 70 mm)
 MAX_FASTENER_HOLE = 80.0
 
@@ -291,7 +293,10 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         closed_far = (not h.through) and _closed_end_s(h, origin, e) > 0.5 * (s0 + s1)
         others = [it.obj.diameter if it.kind == "hole" else it.obj.inner
                   for it in layer_items[:-1]]
-        smaller = bool(others) and h.diameter < min(others) - LINEAR_TOL
+        # a smaller bore at the far end is tapped when blind, or when it is a tap-drill or
+        # nominal size (a 10.5 mm hole under 11 mm ones is a fine clearance, not a thread)
+        smaller = (bool(others) and h.diameter < min(others) - LINEAR_TOL
+                   and (not h.through or _threaded_size(h.diameter, min(others))))
         engaged = bolt is not None and bolt.d >= h.diameter - LINEAR_TOL
         if not nuts and (smaller or engaged):
             tapped = True
@@ -366,6 +371,21 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         last_w = bool(washers) and layers[-1].role == "washer"
         j.nut_bearing_diameter = washers[-1].outer if (last_w and washers) else nut.bearing_diameter
     return j
+
+
+def _threaded_size(diameter: float, clearance: float) -> bool:
+    """True when `diameter` is the tap drill or nominal of a thread that `clearance` clears.
+
+    Without a thread for the clearance, the catalog's best match for the bore decides.
+    """
+    from geomjoint import catalog
+
+    tol = THREAD_MATCH_TOL
+    cleared = [t for t, how in catalog.nominal_from_hole(clearance) if how not in ("tap drill", "nominal")]
+    if cleared:
+        return any(abs(diameter - t.d) <= tol or abs(diameter - catalog.tap_drill(t)) <= tol for t in cleared)
+    found = catalog.nominal_from_hole(diameter)
+    return bool(found) and found[0][1] in ("tap drill", "nominal")
 
 
 def _closed_end_s(h: Hole, origin, e) -> float:
