@@ -140,7 +140,8 @@ def glb_json(path: Path) -> tuple[dict, bytes]:
     assert magic == 0x46546C67 and version == 2 and length == len(data)
     json_len, json_type = struct.unpack_from("<II", data, 12)
     assert json_type == 0x4E4F534A and json_len % 4 == 0
-    tree = json.loads(data[20:20 + json_len])
+    # strict JSON (RFC 8259): no NaN / Infinity, which Python's parser would accept
+    tree = json.loads(data[20:20 + json_len], parse_constant=lambda c: pytest.fail(f"non-JSON constant {c}"))
     off = 20 + json_len
     bin_len, bin_type = struct.unpack_from("<II", data, off)
     assert bin_type == 0x004E4942 and bin_len % 4 == 0 and off + 8 + bin_len == len(data)

@@ -310,6 +310,11 @@ def _layer_hole_faces(layer, joint) -> list[int]:
 
 # ----------------------------------------------------------------------------- joint name
 
+def _finite(value) -> float | None:
+    """A factor as a JSON-safe number: unbounded or missing -> None (JSON has no infinity)."""
+    return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else None
+
+
 def _governing_factor(result) -> float | None:
     for c in result.checks:
         if c.name == result.governing and isinstance(c.value, (int, float)) and math.isfinite(c.value):
@@ -435,8 +440,7 @@ def markup_scene(analysis) -> MarkupScene:
         jm = JointMarkup(id=j.id, name=_unique(joint_node_name(result), joint_names), verdict=result.verdict,
                          governing=result.governing, factor=_governing_factor(result),
                          fastener=_fastener_record(result.spec),
-                         factors={k: (float(v) if isinstance(v, (int, float)) else None)
-                                  for k, v in result.factors.items()})
+                         factors={k: _finite(v) for k, v in result.factors.items()})
         taken: set[str] = set()
         neighbours = [c for key, c in cone_joints.items() if key != j.id]
         for cname, shape in cone_solids(cone_joints[j.id], neighbours):
