@@ -27,28 +27,21 @@ from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.patches import Polygon, Rectangle  # noqa: E402
 
 from geomjoint.mechanics.joint import JointResult  # noqa: E402
+from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: E402,F401 (re-exported)
 from geomjoint.units import convert  # noqa: E402
 
 #: figure size of every drawing, inches (small enough for a page with many joints)
 FIGSIZE = (5.0, 3.5)
 
-# Verdict colours: our own palette, chosen to differ in lightness as well as hue so that it
-# stays readable for colour-blind readers and in greyscale print (pass dark, marginal light,
-# fail dark-but-warm).  The verdict is always written out as text too.
-VERDICT_COLOURS = {
-    "pass": "#163e7a",      # dark blue
-    "marginal": "#f2b134",  # light amber
-    "fail": "#c4441c",      # dark vermilion
-}
-#: text colour to use on top of each verdict colour (contrast)
-VERDICT_TEXT = {"pass": "#ffffff", "marginal": "#1a1a1a", "fail": "#ffffff"}
+# Verdict colours: one palette for every output (geomjoint.report.palette), chosen to differ
+# in lightness as well as hue; the verdict is always written out as text too.
 
 # Line colours of the diagrams (same colour-blind-safe family as the verdict palette).
-BOLT_COLOUR = "#163e7a"
-MEMBER_COLOUR = "#c4441c"
+BOLT_COLOUR = VERDICT_COLOURS["pass"]
+MEMBER_COLOUR = VERDICT_COLOURS["fail"]
 LOAD_COLOUR = "#2b2b2b"
-WINDOW_COLOUR = "#f2b134"
-CONE_COLOUR = "#163e7a"
+WINDOW_COLOUR = VERDICT_COLOURS["marginal"]
+CONE_COLOUR = VERDICT_COLOURS["pass"]
 
 # Fill colours of the layers in the section drawing, by material family; light tones of
 # different lightness so adjacent layers of different materials stand apart.
