@@ -375,6 +375,8 @@ def test_step_cadquery_import_names_and_cone_volumes(sample, results, expected_c
             shape = got.obj.moved(got.loc) if got.obj is not None else None
             assert shape is not None
             assert shape.Volume() == pytest.approx(vol, rel=1e-6)
+            # translucent in the file too (STEP surface transparency, read by cadquery as alpha)
+            assert got.color is not None and got.color.toTuple()[3] == pytest.approx(CONE_ALPHA, abs=1e-3)
             found += 1
     assert found > 0
     # the summary's volumes are those of the file too
@@ -525,6 +527,27 @@ def test_generated_hardware_from_catalog(plain_model):
         assert volume(nut_node["shape"]) == pytest.approx(want_nut, rel=1e-9)
         assert f"{jid}/{bolt['name']}" in summary.generated
     assert len(summary.generated) == 2 * len(ids)
+
+
+def test_every_verdict_gets_its_colour_layer_and_name(plain_model, tmp_path):
+    """Force one joint marginal and one fail: each lands on its own layer with its own colour."""
+    from dataclasses import replace as dc_replace
+
+    from geomjoint.analysis import Analysis
+
+    a = plain_model["analysis"]
+    ids = [mj.scan.id for mj in a.model_joints]
+    forced = {ids[0]: "marginal", ids[1]: "fail"}
+    results = [dc_replace(r, verdict=forced[r.id]) if r.id in forced else r for r in a.results]
+    summary = write_marked_step(Analysis(results, a.scan, a.model_joints), tmp_path / "v.step")
+    joints = child(read_step_tree(tmp_path / "v.step")["tops"][0], "joints")
+    for node in joints["children"]:
+        verdict = forced[node["name"].split(" ")[0]]
+        assert node["name"].split(" ")[3] == verdict
+        for c in node["children"]:
+            assert layer_name(verdict) in c["layers"]
+            assert max(abs(x - y) for x, y in zip(c["colour"], VERDICT_RGB[verdict])) < COLOUR_TOL
+    assert sorted(summary.layers) == sorted(layer_name(v) for v in forced.values())
 
 
 def test_refuses_to_overwrite_the_input_model(plain_model):
