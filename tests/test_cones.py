@@ -458,3 +458,21 @@ def test_cone_solid_volumes_equal_integral_of_area():
     res = clipped_cone_stiffness(a, [b])
     z, A, E = res.samples[len(res.samples) // 3]
     assert cone_area(a, z, [b]) == pytest.approx(A, rel=1e-4)
+
+
+def test_many_faced_part_is_cut_to_a_block_without_changing_the_result(monkeypatch):
+    import geomjoint.geometry.cones as cones_mod
+    # the chamfered plate again, with 45 small holes far from the joint (> 40 faces)
+    e, c = 14.0, 4.0
+    far_holes = [(-90.0 + 5.0 * i, 40.0 + 5.0 * j) for i in range(9) for j in range(5)]
+    top = slab(-100, e, -100, 100, 10.0, 20.0, holes=[(0, 0)])
+    top = top.cut(*[cq.Solid.makeCylinder(1.0, 12.0, pnt=cq.Vector(x, y, 9.0)) for x, y in far_holes])
+    top = cq.Workplane(obj=top).edges(cq.selectors.NearestToPointSelector((e, 0, 10.0))).chamfer(c).val()
+    bot = slab(-100, 100, -100, 100, 0.0, 10.0, holes=[(0, 0)])
+    joint = joint_on([(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")])
+    blocked = clipped_cone_stiffness(joint)
+    assert any(not p for *_, p in blocked.prismatic)
+    monkeypatch.setattr(cones_mod, "_FEW_FACES", 10 ** 9)
+    whole = clipped_cone_stiffness(joint)
+    # the same sections from the whole part and from the block around the axis (identity)
+    assert blocked.stiffness == pytest.approx(whole.stiffness, rel=1e-10)
