@@ -151,3 +151,11 @@ def test_unknown_hole_size_gives_null_nominal_and_valid_json(schema):
     doc = scan_to_json(res)
     jsonschema.validate(doc, schema)
     assert doc["joints"][0]["nominal"] is None and doc["joints"][0]["hardware"]["bolt"] is None
+
+
+def test_every_finding_code_is_documented(scans):
+    from geomjoint.geometry.scan import FINDING_CODES
+
+    seen = {f.code for res in scans.values() for j in res.joints for f in j.findings}
+    assert seen <= set(FINDING_CODES)
+    assert {"misaligned", "gap", "bolt-short", "bolt-long", "grip"} <= seen

@@ -2,7 +2,7 @@
 
 ``scan_model(source)`` runs model -> holes -> hardware -> stacks and adds the
 stack-up findings; ``scan_to_json`` gives the scan document of DESIGN.md and
-``scan_table`` a readable table.
+``scan_table`` a readable table.  The finding codes are stable (FINDING_CODES).
 """
 from __future__ import annotations
 
@@ -16,6 +16,23 @@ from geomjoint.geometry.hardware import Bolt, Nut, Washer, recognise, thread_for
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.geometry.stacks import Finding, Joint, find_joints
+
+#: every finding code a scan can give, with what it means
+FINDING_CODES = {
+    "misaligned": "fail: hole axes offset more than the sum of the radial clearances",
+    "gap": "warn: the layers (or head / nut and a layer) do not touch",
+    "overlap": "warn: two solids of the stack overlap along the axis",
+    "interference": "fail: the modelled bolt is wider than a clearance hole",
+    "bolt-short": "fail: under one pitch past the nut, or too little thread engagement",
+    "bolt-long": "fail: bottoms in a blind tapped hole; warn: protrudes more than 1 d past the nut",
+    "shank-in-nut": "fail: the unthreaded shank of a hex bolt is longer than the grip (through)",
+    "shank-in-thread": "fail: the unthreaded shank reaches the tapped hole",
+    "hole-not-standard": "warn: a clearance hole is none of the ISO 273 / ASME B18.2.8 sizes",
+    "seat-too-small": "fail: head or washer wider than the counterbore it sits in",
+    "no-hardware": "info: no bolt modelled, size inferred; warn: and no size matches",
+    "name-mismatch": "warn: the size in a bolt's name disagrees with its geometry",
+    "grip": "info: the grip and the shortest standard bolt length that fits",
+}
 
 #: thread protrusion past the nut: at least this many pitches (common practice: one full
 #: thread beyond the nut, so the chamfered end does not sit in the nut)

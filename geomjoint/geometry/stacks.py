@@ -10,6 +10,13 @@ Orientation of a joint (``direction``, from the head side to the nut / tapped si
 a modelled bolt decides (head -> tip); else a blind or tapped hole is last; else a
 modelled nut is last; else a counterbore or countersink marks the head side; else
 the canonical direction (z > 0, else y > 0, else x > 0) is used.
+
+Positions (``start``/``end``) run along that direction from the head bearing face:
+the underside of a modelled head, else the counterbore seat or the top face of the
+first layer.  A counterbore seat starts (or, on the nut side, ends) its layer; a
+countersunk head is referred to the plate surface, as ISO 10642 lengths are.  A
+modelled bolt (head to tip) and nut bound the stack: coaxial holes beyond them are
+not part of the joint.
 """
 from __future__ import annotations
 
