@@ -41,6 +41,7 @@ from typing import Callable, Sequence
 
 import numpy as np
 import shapely
+from shapely import affinity
 from shapely.geometry import MultiPolygon, Point, Polygon
 from shapely.geometry.polygon import orient
 
@@ -292,12 +293,8 @@ class _Cone:
         self.centre = np.array(self.frame.to_plane(self.p0))
         self.tan = math.tan(math.radians(joint.cone_angle_deg))
         last = max(layer.z_end for layer in joint.layers)
-        if joint.tapped and joint.effective_grip is not None:
-            self.L = float(joint.effective_grip)
-        elif joint.effective_grip is not None:
-            self.L = float(joint.effective_grip)
-        else:
-            self.L = float(last)
+        # tapped: the far cone starts at l′ (Shigley Table 8-7), given by the caller
+        self.L = float(joint.effective_grip) if joint.effective_grip is not None else float(last)
         if self.L <= 0:
             raise InputError(f"joint {joint.id}: grip must be positive")
         self.z_mid = 0.5 * self.L
@@ -421,7 +418,7 @@ def _to_multi(geom) -> MultiPolygon:
 def _localise(windowed: MultiPolygon, cone: _Cone, hole_radius: float) -> _Local:
     """Shift a windowed plane-coordinate section to the axis and fill the bolt hole."""
     cx, cy = cone.centre
-    local = shapely.affinity.translate(windowed, -cx, -cy) if not windowed.is_empty else windowed
+    local = affinity.translate(windowed, -cx, -cy) if not windowed.is_empty else windowed
     polys = []
     origin = Point(0.0, 0.0)
     fill_radius = hole_radius

@@ -23,7 +23,6 @@ import numpy as np
 import shapely
 from shapely.geometry import MultiPolygon, Polygon
 
-from OCP.BRep import BRep_Tool
 from OCP.BRepAdaptor import BRepAdaptor_Curve, BRepAdaptor_Surface
 from OCP.BRepAlgoAPI import BRepAlgoAPI_Common
 from OCP.BRepBndLib import BRepBndLib
