@@ -8,7 +8,6 @@ its bytes against the GLB container layout of the glTF 2.0 specification.
 import hashlib
 import json
 import math
-import os
 import struct
 import sys
 from pathlib import Path
@@ -60,7 +59,6 @@ def read_step_tree(path: Path) -> dict:
     from OCP.Quantity import Quantity_Color, Quantity_TOC_sRGB
     from OCP.STEPCAFControl import STEPCAFControl_Reader
     from OCP.TCollection import TCollection_ExtendedString
-    from OCP.TColStd import TColStd_HSequenceOfExtendedString
     from OCP.TDF import TDF_Label, TDF_LabelSequence
     from OCP.TDocStd import TDocStd_Document
     from OCP.TopAbs import TopAbs_FACE
@@ -89,7 +87,6 @@ def read_step_tree(path: Path) -> dict:
         out = {"name": _name(comp) or _name(ref), "assembly": XCAFDoc_ShapeTool.IsAssembly_s(ref),
                "children": [], "layers": [], "colour": srgb(ref) or srgb(comp),
                "shape": XCAFDoc_ShapeTool.GetShape_s(comp)}
-        seq = TColStd_HSequenceOfExtendedString()
         for lab in (ref, comp):
             got = layers.GetLayers(lab)
             for i in range(1, got.Length() + 1):

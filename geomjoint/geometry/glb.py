@@ -19,7 +19,6 @@ colours, which glTF defines in linear RGB (the palette is sRGB and is converted)
 from __future__ import annotations
 
 import os
-import tempfile
 from pathlib import Path
 
 import numpy as np

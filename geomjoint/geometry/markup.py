@@ -412,9 +412,8 @@ def markup_scene(analysis) -> MarkupScene:
     from geomjoint.analysis import _cone_joint
     from geomjoint.geometry.cones import cone_solids
 
-    if analysis.scan is None or not analysis.model_joints:
-        if analysis.scan is None:
-            raise InputError("the marked-up model needs a job with a model")
+    if analysis.scan is None:
+        raise InputError("the marked-up model needs a job with a model")
     model = analysis.scan.model
     by_id = {r.id: r for r in analysis.results}
     stem = Path(model.source).stem if model.source and model.source != "<memory>" else "model"
