@@ -8,6 +8,7 @@ stripping → slip when the joint carries shear → verdict.
 from __future__ import annotations
 
 import fnmatch
+import math
 import multiprocessing
 import os
 import sys
@@ -75,11 +76,45 @@ def _vdi_result(spec: JointSpec) -> JointResult:
     return result
 
 
+def fe_stiffness(spec: JointSpec, outer_diameter: float | None = None):
+    """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe)."""
+    from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
+
+    layers = [FeLayer(layer.thickness, layer.E, layer.poisson)
+              for layer in engine._layers_over(spec, engine.effective_grip_of(spec))]
+    return fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
+                               None if spec.tapped else spec.far_bearing_diameter,
+                               outer_diameter=outer_diameter or spec.outside_diameter, bearing=spec.fe_bearing,
+                               tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None)
+
+
+def stiffness_comparison(spec: JointSpec, chosen: float) -> dict[str, float]:
+    """Member stiffness by every method that applies, N/mm (``compare_stiffness = true``)."""
+    out = {"frustum": engine.member_side(replace(spec, member_stiffness="frustum", members_value=None),
+                                         engine.effective_grip_of(spec))[0],
+           "exponential": engine.member_side(replace(spec, member_stiffness="exponential", members_value=None),
+                                             engine.effective_grip_of(spec))[0],
+           "vdi": vdi_member_stiffness(spec),
+           "fe": fe_stiffness(spec).stiffness}
+    out[spec.member_stiffness] = chosen
+    return out
+
+
 def evaluate_joint(spec: JointSpec) -> JointResult:
     """Run every check the joint's settings call for."""
+    fe_details = None
     if spec.member_stiffness == "vdi" and spec.members_value is None and spec.method != "vdi":
         spec = replace(spec, members_value=vdi_member_stiffness(spec))
+    if spec.member_stiffness == "fe" and spec.members_value is None:
+        fe = fe_stiffness(spec)
+        fe_details = {"stiffness": fe.stiffness, "outer_diameter": fe.outer_diameter,
+                      "mesh_change": fe.mesh_change, "contact_diameters": fe.contact_diameters}
+        spec = replace(spec, members_value=fe.stiffness)
     result = _vdi_result(spec) if spec.method == "vdi" else engine.evaluate(spec)
+    if fe_details:
+        result.details["fe"] = fe_details
+    if spec.compare_stiffness:
+        result.details["stiffness_comparison"] = stiffness_comparison(spec, result.member_stiffness)
     result.checks.append(stripping_check(spec))
     if spec.shear > 0 and spec.method != "vdi":
         result.checks.append(slip_check(spec, result))
@@ -227,16 +262,11 @@ def _members_from_geometry(state: _ModelState, index: int) -> tuple[JointSpec, d
                        "lost_to_edges": cone.lost_to_edges, "lost_to_neighbours": cone.lost_to_neighbours}
     if spec.member_stiffness == "cone":
         return replace(spec, members_value=cone.stiffness), details
-    from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
-    from geomjoint.mechanics.checks import effective_grip_of, _layers_over
-
     outer = None
     if cone.area_fraction_mid_grip < 1.0 - 1e-6:
         # the plate the cone really finds: the annulus of the clipped mid-grip area
-        outer = (4.0 * cone.area_mid_grip / 3.141592653589793 + spec.hole_diameter ** 2) ** 0.5
-    layers = [FeLayer(l.thickness, l.E, l.poisson) for l in _layers_over(spec, effective_grip_of(spec))]
-    fe = fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter, spec.far_bearing_diameter,
-                             outer_diameter=outer, tapped=spec.tapped, thread_diameter=spec.fastener.d)
+        outer = (4.0 * cone.area_mid_grip / math.pi + spec.hole_diameter ** 2) ** 0.5
+    fe = fe_stiffness(spec, outer)
     details["fe"] = {"stiffness": fe.stiffness, "outer_diameter": fe.outer_diameter,
                      "mesh_change": fe.mesh_change, "contact_diameters": fe.contact_diameters}
     return replace(spec, members_value=fe.stiffness), details

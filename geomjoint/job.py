@@ -63,9 +63,13 @@ ROUGHNESS = ("fine", "medium", "coarse")
 SURFACES = ("ground", "machined", "cold-drawn", "hot-rolled", "as-forged")
 LAYER_ROLES = ("member", "washer", "tapped")
 REPORT_UNITS = ("SI", "inch")
+FE_BEARINGS = ("rigid", "pressure")
 
 #: range of friction coefficients accepted (VDI 2230-1 Table A5 spans about 0.04-0.5; wider is a typo)
 FRICTION_RANGE = (0.02, 0.6)
+
+#: absolute zero, degC (SI definition of the kelvin: 0 K = -273.15 degC)
+ABSOLUTE_ZERO_C = -273.15
 
 #: default required factors for the checks (1.0: the check passes at exactly its limit)
 DEFAULT_REQUIRED = {"yield": 1.0, "load": 1.0, "separation": 1.0, "fatigue": 1.0, "length": 1.0}
@@ -205,8 +209,14 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
             raise InputError(f"joint id {jid!r} is used twice", where=where)
         seen.add(jid)
 
+    for key in ("load", "group", "fasteners"):
+        if not isinstance(raw.get(key, []), list):
+            raise InputError(f"use [[{key}]] (an array of tables)", where=f"{name}: {key}")
     loads = [_read_load_rule(rule, f"{name}: load[{i}]") for i, rule in enumerate(raw.get("load", []))]
     groups = raw.get("group", [])
+    for i, group in enumerate(groups):
+        if not isinstance(group, dict):
+            raise InputError(f"expected a table, got {type(group).__name__}", where=f"{name}: group[{i}]")
     fastener_rules = raw.get("fasteners", [])
     for i, rule in enumerate(fastener_rules):
         _check_keys(rule, FASTENER_RULE_KEYS, f"{name}: fasteners[{i}]")
@@ -215,12 +225,14 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
     units = raw.get("units", "SI")
     if units not in REPORT_UNITS:
         raise InputError(f"must be one of {', '.join(REPORT_UNITS)}", where=f"{name}: units")
+    if not isinstance(raw.get("title", ""), str):
+        raise InputError("expected a string", where=f"{name}: title")
+    if "default_material" in raw and not isinstance(raw["default_material"], (str, dict)):
+        raise InputError("expected a material name or an inline table", where=f"{name}: default_material")
     job = Job(path=path, model=model, defaults=defaults, materials=materials,
               default_material=raw.get("default_material"), joints=joints, loads=loads,
               groups=groups, fastener_rules=fastener_rules, units=units,
               title=str(raw.get("title", "")), raw=raw)
-    if not isinstance(groups, list):
-        raise InputError("use [[group]] (an array of tables)", where=f"{name}: group")
     # Resolve every typed-in joint now, so all bad input is reported before any work starts.
     typed_joint_specs(job)
     return job
@@ -399,6 +411,13 @@ def _friction_table(s: dict[str, Any], where: str) -> dict[str, float]:
     return {k: _friction(v, f"{where}.friction.{k}") for k, v in table.items()}
 
 
+def _temperature(value: Any, where: str) -> float:
+    t = parse_quantity(value, "temperature", where=where)
+    if t <= ABSOLUTE_ZERO_C:
+        raise InputError(f"{value!r} is at or below absolute zero", where=where)
+    return t
+
+
 def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
     """(assembly, service) in degC; a single value is the service temperature."""
     value = s.get("temperature")
@@ -406,10 +425,10 @@ def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
         return 20.0, 20.0
     if isinstance(value, dict):
         table = _check_keys(value, TEMPERATURE_KEYS, f"{where}.temperature")
-        assembly = parse_quantity(table.get("assembly", "20 degC"), "temperature", where=f"{where}.temperature.assembly")
-        service = parse_quantity(table.get("service", "20 degC"), "temperature", where=f"{where}.temperature.service")
+        assembly = _temperature(table.get("assembly", "20 degC"), f"{where}.temperature.assembly")
+        service = _temperature(table.get("service", "20 degC"), f"{where}.temperature.service")
         return assembly, service
-    return 20.0, parse_quantity(value, "temperature", where=f"{where}.temperature")
+    return 20.0, _temperature(value, f"{where}.temperature")
 
 
 def _required(s: dict[str, Any], where: str) -> dict[str, float]:
@@ -535,7 +554,10 @@ def build_spec(
             needed = clamped + min(layers[-1].thickness, thread.d)
         else:
             needed = grip + geometry.get("gaps", 0.0) + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
-        length = catalog.shortest_length(thread, needed, fastener.spec.head)
+        try:
+            length = catalog.shortest_length(thread, needed, fastener.spec.head)
+        except InputError as exc:
+            raise InputError(str(exc), where=f"{where}.length") from None
         notes.append(f"bolt length {length:g} mm chosen: shortest standard length >= {needed:.1f} mm")
     friction = _friction_table(s, where)
     preload = _preload_spec(s, where, friction)
@@ -564,7 +586,9 @@ def build_spec(
     return JointSpec(
         id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
         bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
-        outside_diameter=outside, method=method, member_stiffness=stiffness, cone_angle=cone_angle,
+        outside_diameter=outside, method=method, member_stiffness=stiffness,
+        fe_bearing=_choice(s.get("fe_bearing", "rigid"), FE_BEARINGS, f"{where}.fe_bearing"),
+        compare_stiffness=_bool(s.get("compare_stiffness", False), f"{where}.compare_stiffness"), cone_angle=cone_angle,
         preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
         engagement=engagement, nut_height=nut_height, gaps=geometry.get("gaps", 0.0),
         required=_required(s, where), notes=tuple(notes),

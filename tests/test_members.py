@@ -155,3 +155,32 @@ def test_slicing_invariance_property(stack, n, extra_far):
     a = frustum_stiffness(stack, 18.0, 18.0 + extra_far, 13.0, 30.0)
     b = frustum_stiffness(sliced, 18.0, 18.0 + extra_far, 13.0, 30.0)
     assert a == pytest.approx(b, rel=1e-10)
+
+
+# ---------------------------------------------------------------- cones bounded by an outside diameter
+
+def test_bounded_frustum_equals_vdi_cone_plus_sleeve():
+    """Two cones that meet the outside diameter D_A and go on as a sleeve: the VDI 2230-1
+    cone + sleeve closed form (VDI 2230-1:2015 §5.1.2.2, from memory) is the same geometry."""
+    from geomjoint.mechanics.members import frustum_stiffness
+    from geomjoint.mechanics.vdi import member_resilience_cone_sleeve
+
+    d_W, d_h, D_A, l_K, E, tan_phi = 16.0, 11.0, 24.0, 30.0, 205_000.0, 0.55
+    alpha = math.degrees(math.atan(tan_phi))
+    ours = 1.0 / frustum_stiffness([(l_K, E)], d_W, None, d_h, alpha, outside_diameter=D_A)
+    assert ours == pytest.approx(member_resilience_cone_sleeve(d_W, d_h, D_A, l_K, E, tan_phi, 1.0), rel=1e-12)
+
+
+def test_bounded_frustum_limits():
+    """A very wide part changes nothing; a part no wider than the bearing face is a sleeve
+    (identities of the geometry)."""
+    from geomjoint.mechanics.members import frustum_stiffness
+
+    layers = [(12.0, 207_000.0), (10.0, 71_000.0)]
+    free = frustum_stiffness(layers, 17.0, None, 11.0, 30.0)
+    assert frustum_stiffness(layers, 17.0, None, 11.0, 30.0, outside_diameter=1e6) == pytest.approx(free, rel=1e-12)
+    narrow = frustum_stiffness(layers, 17.0, None, 11.0, 30.0, outside_diameter=17.0 + 1e-9)
+    area = math.pi / 4 * (17.0**2 - 11.0**2)
+    sleeve = 1.0 / (12.0 / (207_000.0 * area) + 10.0 / (71_000.0 * area))
+    assert narrow == pytest.approx(sleeve, rel=1e-6)
+    assert narrow < frustum_stiffness(layers, 17.0, None, 11.0, 30.0, outside_diameter=25.0) < free

@@ -134,12 +134,14 @@ def member_side(spec: JointSpec, grip: float) -> tuple[float, str, list[str]]:
         return float(spec.members_value), method, []
     layers = _layers_over(spec, grip)
     notes = []
-    if spec.outside_diameter is not None:
-        notes.append(f"outside diameter not used by the {method} member model (unbounded cones)")
-    if method == "frustum":
+    if spec.outside_diameter is not None and method == "exponential":
+        notes.append("outside diameter not used by the exponential member model (a fit for wide plates)")
+    if method in ("frustum", "cone"):
+        # a typed-in joint has no part geometry: its "cone" is the frustum clipped by a round
+        # part of the outside diameter, which is exact for that shape
         far = spec.bearing_diameter if spec.tapped else spec.far_bearing_diameter
         k_m = M.frustum_stiffness(layers, spec.bearing_diameter, far, spec.hole_diameter,
-                                  spec.cone_angle, grip)
+                                  spec.cone_angle, grip, spec.outside_diameter)
     elif method == "exponential":
         if len({(layer.E, layer.wileman) for layer in layers}) > 1:
             notes.append("exponential (Wileman) member stiffness is a one-material fit; the layers differ "

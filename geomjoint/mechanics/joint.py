@@ -118,6 +118,8 @@ class JointSpec:
     member_stiffness: str = "frustum"
     cone_angle: float = 30.0        # deg
     members_value: float | None = None  # k_m computed outside (cone / FE), N/mm
+    fe_bearing: str = "rigid"       # FE bearing model: "rigid" | "pressure"
+    compare_stiffness: bool = False  # report every member-stiffness method side by side
     preload: PreloadSpec = field(default_factory=lambda: PreloadSpec("proof_fraction", 0.75))
     load_min: float = 0.0           # external axial load per bolt, N
     load_max: float = 0.0

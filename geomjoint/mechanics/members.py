@@ -90,15 +90,34 @@ def frustum_layer_compliance(E: float, thickness: float, d_start: float, d_h: fl
     return math.log1p(ratio_minus_one) / (E * math.pi * d_h * tan_a)
 
 
+def sleeve_compliance(E: float, thickness: float, d_outer: float, d_h: float) -> float:
+    """Compliance of a hollow cylinder in compression, t / (E π (D² − d_h²)/4), mm/N.
+
+    >>> round(sleeve_compliance(200000.0, 10.0, 30.0, 10.0) * 1e9, 3)
+    79.577
+    """
+    return thickness / (E * math.pi * (d_outer ** 2 - d_h ** 2) / 4.0)
+
+
 def _cone_compliance(pairs: Sequence[tuple[float, float]], d_start: float, d_h: float,
-                     alpha: float) -> float:
-    """Compliance of one cone running through consecutive (thickness, E) segments."""
+                     alpha: float, d_outer: float | None = None) -> float:
+    """Compliance of one cone running through consecutive (thickness, E) segments.
+
+    With ``d_outer`` the cone grows until it meets that diameter and continues as a sleeve
+    (a part no wider than D_A cannot spread the pressure further).
+    """
     total = 0.0
     diameter = d_start
     tan_a = math.tan(math.radians(alpha))
     for t, E in pairs:
-        total += frustum_layer_compliance(E, t, diameter, d_h, alpha)
-        diameter += 2.0 * t * tan_a
+        cone = t
+        if d_outer is not None:
+            cone = min(t, max(0.0, (d_outer - diameter) / (2.0 * tan_a)))
+        if cone > 0:
+            total += frustum_layer_compliance(E, cone, diameter, d_h, alpha)
+            diameter += 2.0 * cone * tan_a
+        if t - cone > 0:
+            total += sleeve_compliance(E, t - cone, d_outer, d_h)
     return total
 
 
@@ -115,7 +134,8 @@ def _cut(pairs: Sequence[tuple[float, float]], start: float, end: float) -> list
 
 
 def frustum_stiffness(layers, d_w: float, d_w_far: float | None, d_h: float,
-                      alpha: float = 30.0, grip: float | None = None) -> float:
+                      alpha: float = 30.0, grip: float | None = None,
+                      outside_diameter: float | None = None) -> float:
     """Member stiffness k_m of a layered stack by two pressure cones meeting at mid-grip, N/mm.
 
     One cone of half-angle ``alpha`` grows from the head-side bearing face (diameter
@@ -143,6 +163,10 @@ def frustum_stiffness(layers, d_w: float, d_w_far: float | None, d_h: float,
     grip : float or None
         Length of the stack the cones span, mm; None: the sum of the layers.  A shorter
         grip cuts the stack there (a tapped part counts up to the effective grip).
+    outside_diameter : float or None
+        Diameter of the part around the bolt, mm: where a cone reaches it, it goes on as a
+        sleeve of that diameter (cone + sleeve, as VDI 2230-1 bounds its deformation body).
+        None: plates wide enough for the whole cone.
 
     Examples
     --------
@@ -161,7 +185,10 @@ def frustum_stiffness(layers, d_w: float, d_w_far: float | None, d_h: float,
     half = grip / 2.0
     near_part = _cut(pairs, 0.0, half)
     far_part = list(reversed(_cut(pairs, half, grip)))
-    compliance = _cone_compliance(near_part, d_w, d_h, alpha) + _cone_compliance(far_part, far, d_h, alpha)
+    if outside_diameter is not None and outside_diameter <= max(d_w, far):
+        raise InputError(f"outside diameter {outside_diameter} mm must exceed the bearing diameter")
+    compliance = (_cone_compliance(near_part, d_w, d_h, alpha, outside_diameter)
+                  + _cone_compliance(far_part, far, d_h, alpha, outside_diameter))
     return 1.0 / compliance
 
 
