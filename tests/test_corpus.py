@@ -81,11 +81,11 @@ def test_bad_input_exit_2_one_line(case, tmp_path, capfd):
 
 
 @pytest.mark.parametrize("case", VALID)
-def test_tricky_valid_model_scans(case, tmp_path, capfd):
+def test_tricky_valid_input_runs(case, tmp_path, capfd):
     code, out, err = _run(case, tmp_path, capfd)
     assert "Traceback" not in out + err
-    doc = json.loads(out)
     assert code == case["exit"], err
+    doc = json.loads(out)
     assert len(doc["joints"]) == case["joints"]
     codes = {f["code"] for j in doc["joints"] for f in j["findings"]}
     if "finding" in case:

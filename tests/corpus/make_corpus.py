@@ -291,6 +291,14 @@ JOB_EDITS: list[tuple[str, object, tuple[str, ...]]] = [
     ("group_coincident", BASE + GROUP.replace('["80 mm", "0 mm"]]', '["0 mm", "0 mm"]]'), ("group[0]", "coincide")),
     ("group_moment_without_point", BASE + GROUP.replace('point = ["40 mm", "0 mm", "50 mm"]\n', ''),
      ("group[0]", "point")),
+    ("load_not_array", "load = 5\n" + BASE, ("load", "[[load]]")),
+    ("fasteners_not_array", "fasteners = 5\n" + BASE, ("fasteners", "[[fasteners]]")),
+    ("group_entry_not_table", "group = [5]\n" + BASE, ("group[0]", "table")),
+    ("title_not_string", "title = { a = 1 }\n" + BASE, ("title",)),
+    ("default_material_number", "default_material = 5\n" + BASE, ("default_material",)),
+    ("below_absolute_zero", ('grade = "8.8"', 'grade = "8.8"\ntemperature = "-500 degC"'),
+     ("temperature", "absolute zero")),
+    ("grip_beyond_catalog", ('"16 mm" },\n', '"160 mm" },\n'), ("length", "no standard")),
     ("model_missing", 'model = "nowhere.step"\n' + BASE, ("model", "nowhere.step")),
     ("model_is_folder", 'model = "sub"\n' + BASE, ("model", "folder")),
     ("model_outside_folder", 'model = "../step/plate_pair.step"\n' + BASE, ("model", "outside")),
@@ -315,6 +323,13 @@ def job_cases() -> list[dict]:
         cases.append({"name": stem.replace("_", " "), "command": "check", "file": f"jobs/{stem}.toml",
                       "exit": 2, "names": [f"{stem}.toml" if stem != "model_broken" else "", *names],
                       "needs": ""})
+    (JOB_DIR / "long_bolt_fails.toml").write_text(BASE.replace('id = "A1"', 'id = "A1"\nlength = "140 mm"').replace(
+        '"16 mm" },\n', '"60 mm" },\n').replace('"16 mm" } ]', '"50 mm" } ]').replace('"10 kN"', '"45 kN"'))
+    cases.append({"name": "explicit bolt length beyond the catalogue, joint fails: exit 1 with remedies",
+                  "command": "check", "file": "jobs/long_bolt_fails.toml", "exit": 1, "names": [], "joints": 1,
+                  "needs": "remedies.py find_remedies/_washer_candidates: skip a candidate whose "
+                           "catalog.shortest_length raises InputError (no standard length) instead of "
+                           "letting it abort the run with exit 2 and no file name"})
     (JOB_DIR / "not_utf8.toml").write_bytes(BASE.encode() + b"# \xff\xfe latin-1 slip\n")
     cases.append({"name": "job not UTF-8", "command": "check", "file": "jobs/not_utf8.toml", "exit": 2,
                   "names": ["not_utf8.toml", "UTF-8"], "needs": ""})
