@@ -159,3 +159,28 @@ def test_every_finding_code_is_documented(scans):
     seen = {f.code for res in scans.values() for j in res.joints for f in j.findings}
     assert seen <= set(FINDING_CODES)
     assert {"misaligned", "gap", "bolt-short", "bolt-long", "grip"} <= seen
+
+
+def test_inch_model_without_hardware_infers_an_inch_size(tmp_path):
+    import sys
+
+    import cadquery as cq
+    sys.path.insert(0, SAMPLES)
+    import make_samples as ms
+    from geomjoint.geometry.model import load_model
+
+    hole = 17 / 32 * 25.4   # 13.49 mm: ASME B18.2.8 normal fit of 1/2 in; also ISO 273 medium of M12 (13.5)
+    a = cq.Assembly(name="inch_plates")
+    a.add(ms.plate(60, 60, 12.7, [(0, 0)], hole), name="lower")
+    a.add(ms.plate(60, 60, 12.7, [(0, 0)], hole, z0=12.7), name="upper")
+    path = tmp_path / "plates_inch.step"
+    ms.write_step(a, str(path), unit="INCH")
+    assert load_model(str(path)).file_unit == "inch"
+    (j,) = scan_model(str(path)).joints
+    assert j.nominal == "1/2-13 UNC" and j.nominal_source == "clearance hole"
+    assert j.grip == pytest.approx(25.4, abs=1e-6)
+    mm = tmp_path / "plates_mm.step"
+    ms.write_step(a, str(mm))
+    assert load_model(str(mm)).file_unit == "mm"
+    (k,) = scan_model(str(mm)).joints
+    assert k.nominal == "M12"

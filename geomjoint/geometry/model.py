@@ -76,6 +76,7 @@ class Model:
 
     source: str                          # file path or "<memory>"
     parts: list[Part]
+    file_unit: str | None = None         # length unit the file was written in: "mm", "inch", "m", ...
 
     def part(self, name: str) -> Part:
         for p in self.parts:
@@ -223,6 +224,20 @@ def _check_step_file(path: str) -> None:
         raise InputError("truncated STEP file (no END-ISO-10303-21 trailer)", where=path)
 
 
+def step_length_unit(path: str) -> str | None:
+    """The length unit named in a STEP file's unit context ("mm", "inch", "m", "cm", "foot")."""
+    with open(path, "rb") as fh:
+        text = fh.read(2_000_000).upper()
+    m = re.search(rb"CONVERSION_BASED_UNIT\s*\(\s*'([A-Z]+)'", text)
+    if m and b"LENGTH_UNIT" in text[max(0, m.start() - 200): m.end() + 200]:
+        return {b"INCH": "inch", b"FOOT": "foot", b"FEET": "foot"}.get(m.group(1), m.group(1).decode().lower())
+    m = re.search(rb"LENGTH_UNIT\s*\(\s*\)\s*NAMED_UNIT\s*\(\s*\*\s*\)\s*SI_UNIT\s*\(\s*(\.[A-Z]+\.|\$)\s*,\s*\.METRE\.",
+                  text)
+    if m:
+        return {b".MILLI.": "mm", b".CENTI.": "cm", b"$": "m"}.get(m.group(1), m.group(1).decode().strip(".").lower())
+    return None
+
+
 def _read_step(path: str) -> list[Part]:
     _check_step_file(path)
     reader = STEPCAFControl_Reader()
@@ -269,15 +284,17 @@ def load_model(source: Any) -> Model:
     Lengths come back in mm whatever the file's unit.  Raises InputError naming the
     file when it is missing, empty, not STEP, truncated, or has no solids.
     """
+    unit = None
     if isinstance(source, (str, os.PathLike)):
         where = os.fspath(source)
         parts = _read_step(where)
+        unit = step_length_unit(where)
     else:
         where = "<memory>"
         parts = _from_memory(source)
     if not parts:
         raise InputError("the model has no solids", where=where)
-    return Model(source=where, parts=parts)
+    return Model(source=where, parts=parts, file_unit=unit)
 
 
 def compound(shapes: list[TopoDS_Shape]) -> TopoDS_Shape:

@@ -90,8 +90,11 @@ def scan_model(source: Any) -> ScanResult:
         else:
             holes.extend(part_holes)
     joints = find_joints(holes, bolts, nuts, washers, hints)
+    # the file's unit suggests the fastener system when a size is inferred from holes
+    system = {"inch": "inch", "foot": "inch", "mm": "metric", "cm": "metric", "m": "metric"}.get(
+        model.file_unit or "")
     for j in joints:
-        add_findings(j)
+        add_findings(j, system)
     used = {j.bolt.part for j in joints if j.bolt} | {j.nut.part for j in joints if j.nut} | \
         {w.part for j in joints for w in j.washers}
     loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
@@ -99,15 +102,15 @@ def scan_model(source: Any) -> ScanResult:
                       washers=washers, hole_count=len(holes), unmatched_hardware=loose)
 
 
-def _system_hint(j: Joint) -> str | None:
+def _system_hint(j: Joint, default: str | None = None) -> str | None:
     for name in [l.part for l in j.layers] + ([j.bolt.part] if j.bolt else []):
         low = name.lower()
         if "unc" in low or "unf" in low or "inch" in low:
             return "inch"
-    return None
+    return default
 
 
-def _resolve_nominal(j: Joint):
+def _resolve_nominal(j: Joint, default_system: str | None = None):
     """The thread of the joint: modelled bolt (name hint cross-checked), nut, or holes."""
     if j.bolt is not None:
         b = j.bolt
@@ -124,30 +127,34 @@ def _resolve_nominal(j: Joint):
                                       f"{b.d:.2f} mm ({t.designation})"))
         j.nominal_source = "bolt"
         return t
-    system = _system_hint(j)
-    if j.nut is not None:
-        for t, how in catalog.nominal_from_hole(j.nut.d, system):
-            if how in ("nominal", "tap drill") and t.series in ("coarse", "UNC"):
-                j.nominal_source = "nut"
-                return t
+    preferred = _system_hint(j, default_system)
     tapped = [l for l in j.layers if l.role == "tapped"]
     clear = [l for l in j.layers if l.role != "tapped"]
+    clearance_fits = ("fine", "medium", "coarse", "close", "normal", "loose")
+    probes = []
+    if j.nut is not None:
+        probes.append((j.nut.d, ("nominal", "tap drill"), "nut"))
     if clear:
-        for t, how in catalog.nominal_from_hole(j.hole_diameter, system):
-            if how in ("fine", "medium", "coarse", "close", "normal", "loose") and t.series in ("coarse", "UNC"):
-                j.nominal_source = "clearance hole"
-                return t
+        probes.append((j.hole_diameter, clearance_fits, "clearance hole"))
     if tapped:
-        for t, how in catalog.nominal_from_hole(tapped[0].hole_diameter, system):
-            if how in ("nominal", "tap drill") and t.series in ("coarse", "UNC"):
-                j.nominal_source = "tapped hole"
-                return t
+        probes.append((tapped[0].hole_diameter, ("nominal", "tap drill"), "tapped hole"))
+    # the preferred system first (a model written in inches), then any
+    for system in dict.fromkeys((preferred, None)):
+        for diameter, kinds, what in probes:
+            for t, how in catalog.nominal_from_hole(diameter, system):
+                if how in kinds and t.series in ("coarse", "UNC"):
+                    j.nominal_source = what
+                    return t
     return None
 
 
-def add_findings(j: Joint) -> None:
-    """Stack-up findings of one joint (appended to j.findings), nominal and bolt length."""
-    t = _resolve_nominal(j)
+def add_findings(j: Joint, system: str | None = None) -> None:
+    """Stack-up findings of one joint (appended to j.findings), nominal and bolt length.
+
+    `system` ("inch" / "metric" / None) is preferred when a size is inferred from holes
+    (a model written in inches suggests inch fasteners).
+    """
+    t = _resolve_nominal(j, system)
     j.nominal = t.designation if t else None
     d = t.d if t else (j.bolt.d if j.bolt else None)
     add = j.findings.append
