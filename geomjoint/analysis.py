@@ -16,6 +16,8 @@ import time
 from dataclasses import dataclass, field, replace
 from typing import Any, Callable
 
+import numpy as np
+
 from geomjoint import catalog
 from geomjoint.errors import InputError
 from geomjoint.job import (
@@ -230,6 +232,8 @@ class _ModelState:
 
     joints: list[ModelJoint]
     cone_joints: dict[str, Any]
+    neighbours: dict[str, list[str]] = field(default_factory=dict)
+    cone_cache: Any = None           # geometry.cones.ConeCache shared by the joints of the model
 
 
 def _cone_joint(mj: ModelJoint):
@@ -245,6 +249,38 @@ def _cone_joint(mj: ModelJoint):
                      cone_angle_deg=spec.cone_angle)
 
 
+def cone_reach(spec: JointSpec) -> float:
+    """Largest radius either pressure cone of the joint reaches, mm (at mid-grip)."""
+    from geomjoint.mechanics.checks import effective_grip_of
+
+    tan_a = math.tan(math.radians(spec.cone_angle))
+    widest = max(spec.bearing_diameter, spec.far_bearing_diameter or 0.0)
+    return 0.5 * widest + 0.5 * effective_grip_of(spec) * tan_a
+
+
+def cone_neighbours(joints: list[ModelJoint]) -> dict[str, list[str]]:
+    """For each joint, the joints whose cones can reach into the same material as its own.
+
+    Two cones can share material only if their axes come closer than the sum of their reaches
+    and they clamp a common part; a k-d tree over the axis points keeps this near-linear.
+    """
+    from scipy.spatial import cKDTree
+
+    if len(joints) < 2:
+        return {}
+    points = np.array([mj.scan.point for mj in joints], dtype=float)
+    reach = np.array([cone_reach(mj.spec) for mj in joints])
+    # an axis point may sit anywhere along a grip: widen the search by the longest grip
+    span = max(mj.spec.grip for mj in joints)
+    tree = cKDTree(points)
+    parts = [{layer.part for layer in mj.spec.layers} for mj in joints]
+    out: dict[str, list[str]] = {}
+    for i, mj in enumerate(joints):
+        near = tree.query_ball_point(points[i], r=reach[i] + reach.max() + span)
+        out[mj.spec.id] = [joints[k].spec.id for k in sorted(near) if k != i and parts[i] & parts[k]]
+    return out
+
+
 def _members_from_geometry(state: _ModelState, index: int) -> tuple[JointSpec, dict]:
     """k_m by the clipped cone or the FE model; the spec carries it to the engine."""
     from geomjoint.geometry.cones import clipped_cone_stiffness
@@ -255,8 +291,8 @@ def _members_from_geometry(state: _ModelState, index: int) -> tuple[JointSpec, d
     if spec.member_stiffness not in ("cone", "fe"):
         return spec, details
     cone_joint = state.cone_joints[spec.id]
-    neighbours = [c for key, c in state.cone_joints.items() if key != spec.id]
-    cone = clipped_cone_stiffness(cone_joint, neighbours)
+    neighbours = [state.cone_joints[key] for key in state.neighbours.get(spec.id, ())]
+    cone = clipped_cone_stiffness(cone_joint, neighbours, cache=state.cone_cache)
     details["cone"] = {"stiffness": cone.stiffness, "ideal_stiffness": cone.ideal_stiffness,
                        "area_fraction_mid_grip": cone.area_fraction_mid_grip,
                        "lost_to_edges": cone.lost_to_edges, "lost_to_neighbours": cone.lost_to_neighbours}
@@ -365,7 +401,11 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     model_joints = [model_joint(job, j, shares) for j in scan.joints]
     state = _ModelState(model_joints, {})
     if any(mj.spec.member_stiffness in ("cone", "fe") for mj in model_joints):
+        from geomjoint.geometry.cones import ConeCache
+
         state.cone_joints = {mj.spec.id: _cone_joint(mj) for mj in model_joints}
+        state.neighbours = cone_neighbours(model_joints)
+        state.cone_cache = ConeCache()
     total = len(model_joints)
     workers = workers or os.cpu_count() or 1
     model_results: list[JointResult] = []

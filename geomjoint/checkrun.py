@@ -37,16 +37,17 @@ class CheckRun:
 def _model_outputs(job: Job, analysis: Analysis) -> dict[str, bytes]:
     """The marked-up STEP and GLB of a model job (written by the kernel to a temp folder)."""
     from geomjoint.geometry.glb import write_glb
-    from geomjoint.geometry.markup import write_marked_step
+    from geomjoint.geometry.markup import markup_scene, write_marked_step
 
     stem = safe_name(job.model.stem) + "-checked"
     files = {}
+    scene = markup_scene(analysis)   # cone solids built once for both files
     with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
         step = Path(tmp) / f"{stem}.step"
-        write_marked_step(analysis, step)
+        write_marked_step(analysis, step, scene=scene)
         files[step.name] = step.read_bytes()
         glb = Path(tmp) / f"{stem}.glb"
-        write_glb(analysis, glb)
+        write_glb(analysis, glb, scene=scene)
         files[glb.name] = glb.read_bytes()
     return files
 

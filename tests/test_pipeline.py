@@ -155,3 +155,38 @@ def test_init_writes_starter_and_never_overwrites(tmp_path, capsys):
     assert main(["init", str(model)]) == 2
     assert starter.read_bytes() == before
     assert model.read_bytes() == MODEL.read_bytes()
+
+
+def test_model_joints_by_cone_and_fe(tmp_path, scan):
+    """Every model joint can be analysed with the clipped cone and with the FE model."""
+    frustum = by_id(analyze_job(load_job(write_job(tmp_path)), scan=scan).results)
+    cone_job = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nmember_stiffness = "cone"')
+    cone = by_id(analyze_job(load_job(write_job(tmp_path, cone_job, "cone.toml")), scan=scan).results)
+    for jid, r in cone.items():
+        assert r.stiffness_method == "cone"
+        ideal = r.details["cone"]["ideal_stiffness"]
+        # clipping only removes material: never stiffer than the same cones unclipped
+        assert r.member_stiffness <= ideal * (1 + 1e-9)
+        assert 0 < r.details["cone"]["area_fraction_mid_grip"] <= 1 + 1e-9
+    fe_job = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nmember_stiffness = "fe"')
+    fe = by_id(analyze_job(load_job(write_job(tmp_path, fe_job, "fe.toml")), scan=scan).results)
+    assert set(fe) == set(frustum)
+    for r in fe.values():
+        assert r.stiffness_method == "fe" and 0 < r.joint_constant < 1
+        assert r.details["fe"]["mesh_change"] < 0.01
+
+
+def test_neighbour_search_changes_nothing(tmp_path, scan):
+    """Only joints whose cones can meet are passed as neighbours; passing all gives the same k_m."""
+    from geomjoint.analysis import _cone_joint, cone_neighbours, model_joint
+    from geomjoint.geometry.cones import clipped_cone_stiffness
+
+    job = load_job(write_job(tmp_path))
+    joints = [model_joint(job, j, {}) for j in scan.joints]
+    cones = {mj.spec.id: _cone_joint(mj) for mj in joints}
+    near = cone_neighbours(joints)
+    for jid, cone in cones.items():
+        everyone = [c for k, c in cones.items() if k != jid]
+        chosen = [cones[k] for k in near[jid]]
+        assert clipped_cone_stiffness(cone, chosen).stiffness == pytest.approx(
+            clipped_cone_stiffness(cone, everyone).stiffness, rel=1e-12)

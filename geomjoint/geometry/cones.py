@@ -853,14 +853,28 @@ def cone_solids(joint: ConeJoint, neighbours: Sequence[ConeJoint] = ()) -> list[
         pad = 1.0
         hole_axis = gp_Ax2(gp_Pnt(*(base - pad * cone.n)), gp_Dir(*cone.n))
         hole = BRepPrimAPI_MakeCylinder(hole_axis, rh, zb - za + 2 * pad).Shape()
-        shape = BRepAlgoAPI_Cut(frustum, hole).Shape()
-        shape = BRepAlgoAPI_Common(shape, as_occ_shape(layer.solid)).Shape()
+        shape = _boolean(BRepAlgoAPI_Cut(frustum, hole), joint, layer.part)
+        shape = _boolean(BRepAlgoAPI_Common(shape, as_occ_shape(layer.solid)), joint, layer.part)
+        reach = max(ra, rb) + _LENGTH_TOL
+        ends = (cone.point(za), cone.point(zb))
         for plane in planes:
             if layer.part not in plane.parts:
                 continue
+            if all(float(np.dot(np.asarray(p) - plane.m, plane.w)) < -reach for p in ends):
+                continue  # the whole piece lies on our side: the boolean would only cost (and can fail)
             face = BRepBuilderAPI_MakeFace(gp_Pln(gp_Pnt(*plane.m), gp_Dir(*plane.w))).Face()
             keep = plane.m - plane.w  # a point on our side
             half = BRepPrimAPI_MakeHalfSpace(face, gp_Pnt(*keep)).Solid()
-            shape = BRepAlgoAPI_Common(shape, half).Shape()
+            shape = _boolean(BRepAlgoAPI_Common(shape, half), joint, layer.part)
         out.append((f"{joint.id}:{layer.part}:{side}", shape))
     return out
+
+
+def _boolean(operation, joint: ConeJoint, part: str):
+    """The result of an OCCT boolean; a null shape when the kernel failed (the markup notes it,
+    the stiffness, computed from 2-D sections, does not depend on it)."""
+    if not operation.IsDone():
+        from OCP.TopoDS import TopoDS_Shape
+
+        return TopoDS_Shape()
+    return operation.Shape()
