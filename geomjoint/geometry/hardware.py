@@ -245,7 +245,7 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
                  and abs(abs(float(np.dot(p.direction, d))) - 1) < ANGLE_TOL
                  and p.t0 >= head_range[0] - LINEAR_TOL and p.t1 <= head_range[1] + LINEAR_TOL]
     af = _hex_width(faces, ref, d, head_range)
-    if head_cone and not head_cyl_wider(head_cone, group, head_range, r):
+    if head_cone and not _head_cyl_wider(head_cone, group, head_range, r):
         width = 2 * max(max(p.r0, p.r1) for p in head_cone)
         if MIN_HEAD_WIDTH_RATIO * 2 * r <= width <= MAX_HEAD_WIDTH_RATIO * 2 * r:
             # countersunk (ISO 10642): the length is overall, the reference is the head's top
@@ -266,7 +266,7 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None) -> Bo
                 ref + under * d, _hint(part), solid)
 
 
-def head_cyl_wider(cones, group, head_range, r) -> bool:
+def _head_cyl_wider(cones, group, head_range, r) -> bool:
     """True when a head cylinder is wider than the head cone (a chamfered round head)."""
     rc = max(max(p.r0, p.r1) for p in cones)
     return any(p.r0 > rc + LINEAR_TOL and p.t0 >= head_range[0] - LINEAR_TOL

@@ -14,7 +14,6 @@ import re
 from dataclasses import dataclass, field
 from typing import Any
 
-from OCP.BRep import BRep_Builder
 from OCP.IFSelect import IFSelect_RetDone
 from OCP.Quantity import Quantity_Color
 from OCP.STEPCAFControl import STEPCAFControl_Reader
@@ -296,14 +295,3 @@ def load_model(source: Any) -> Model:
         raise InputError("the model has no solids", where=where)
     return Model(source=where, parts=parts, file_unit=unit)
 
-
-def compound(shapes: list[TopoDS_Shape]) -> TopoDS_Shape:
-    """A compound of shapes (used by tests and the benchmark)."""
-    from OCP.TopoDS import TopoDS_Compound
-
-    comp = TopoDS_Compound()
-    builder = BRep_Builder()
-    builder.MakeCompound(comp)
-    for s in shapes:
-        builder.Add(comp, s)
-    return comp
