@@ -92,7 +92,7 @@ class Joint:
     nut: Nut | None = None
     washers: list[Washer] = field(default_factory=list)
     nominal: str | None = None         # thread designation, e.g. "M10", "1/2-13 UNC"
-    nominal_source: str | None = None  # "bolt" | "name" | "clearance hole" | "tapped hole"
+    nominal_source: str | None = None  # "bolt" | "nut" | "clearance hole" | "tapped hole"
     misalignment: float = 0.0          # largest pairwise axis offset, mm
     head_bearing_diameter: float | None = None  # modelled head (or washer under it), mm
     nut_bearing_diameter: float | None = None   # modelled nut (or washer under it), mm
