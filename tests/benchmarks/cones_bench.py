@@ -8,7 +8,7 @@ Prints seconds for: the STEP import of the model (cadquery.importers.importStep)
 joint with a cold cache, every joint with a shared cache, the cone solids of one joint;
 and the ratio of the cone work to the STEP import.
 
-Run: .venv/bin/python benchmarks/cones_bench.py [--rows 10 --cols 20]
+Run: .venv/bin/python tests/benchmarks/cones_bench.py [--rows 10 --cols 20]
 """
 from __future__ import annotations
 

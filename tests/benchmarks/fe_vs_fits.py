@@ -8,7 +8,7 @@ Table 8-8) and by two 30 deg frusta (Shigley eq. 8-20); deviations in % from the
 contact-zone diameter over d; the wall and CPU time per FE joint (2 cores shared, so the wall
 time depends on the load of the machine).
 
-Run:  .venv/bin/python benchmarks/fe_vs_fits.py
+Run:  .venv/bin/python tests/benchmarks/fe_vs_fits.py
 """
 from __future__ import annotations
 
