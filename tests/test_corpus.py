@@ -258,3 +258,41 @@ def test_cli_joint_timeout(monkeypatch, tmp_path, capfd):
     out = capfd.readouterr().out
     assert code == 1                   # a joint not analysed cannot pass
     assert limits.TIMEOUT_NOTE in out
+
+
+def _distinct_solids(model) -> int:
+    reps = []
+    for part in model.parts:
+        if not any(part.solid.IsPartner(r) for r in reps):    # instances share one solid
+            reps.append(part.solid)
+    return len(reps)
+
+
+@pytest.mark.parametrize("file, in_file, after_reading", [
+    ("plate_pair.step", 2, 2),
+    ("assembly_part_lost.step", 2, 1),     # the reader dropped the solid with a face missing
+    ("non_manifold.step", 1, 2),           # the reader split the non-manifold solid in two
+])
+def test_count_step_solids_shows_what_the_reader_lost(file, in_file, after_reading):
+    from geomjoint.geometry.model import load_model
+
+    path = CORPUS / "step" / file
+    assert limits.count_step_solids(path) == in_file
+    assert _distinct_solids(load_model(str(path))) == after_reading
+
+
+def test_count_step_solids_instances_share_one_entity(tmp_path):
+    import cadquery as cq
+
+    from geomjoint.geometry.model import load_model
+
+    sub = cq.Assembly(name="clip")
+    sub.add(cq.Workplane().box(10, 10, 2), name="clip_plate")
+    top = cq.Assembly(name="top")
+    top.add(sub, name="clip_a", loc=cq.Location((0, 0, 0)))
+    top.add(sub, name="clip_b", loc=cq.Location((50, 0, 0)))
+    path = tmp_path / "twice.step"
+    top.save(str(path))
+    model = load_model(str(path))
+    assert len(model.parts) == 2
+    assert limits.count_step_solids(path) == 1 == _distinct_solids(model)

@@ -34,8 +34,9 @@ D_M10 = 10.0
 NEEDS_SNIFF = ("geometry/model.py _read_step: call geomjoint.limits.check_step_file(path) in place of "
                "its own _check_step_file(path)")
 #: the change that catches solids the reader drops, splits or heals
-NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: count the MANIFOLD_SOLID_BREP / BREP_WITH_VOIDS entities of "
-                     "the file and compare with the solids after transfer; on a difference raise InputError naming "
+NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: compare geomjoint.limits.count_step_solids(path) with the "
+                     "distinct solids after transfer (instances share one: TopoDS_Shape.IsPartner); on a "
+                     "difference raise InputError naming "
                      "the entity or product ('solid #N of P is not closed / non-manifold: the reader dropped or split "
                      "it'); or run BRepCheck_Analyzer on the transferred solids")
 #: radial clearance of each plate: the bolt passes an offset of twice this (scan rule, DESIGN.md)
@@ -132,6 +133,16 @@ def step_cases() -> list[dict]:
     junk = bytes(rng.randrange(256) for _ in range(2048))
     (STEP_DIR / "junk_in_header.step").write_bytes(b"ISO-10303-21;\nHEADER;\n" + junk + b"\nEND-ISO-10303-21;\n")
     case("binary junk behind a STEP header", "junk_in_header.step", names=("binary",), needs=NEEDS_SNIFF)
+
+    # text garbage inside DATA: the kernel's reader skips the bad entity, prints to stdout
+    # ("**** ERR StepFile ...", which spoils --json) and carries on as if the file were whole
+    body = text.index("\n", data_at) + 1
+    (STEP_DIR / "syntax_in_data.step").write_text(text[:body] + "#1 = CARTESIAN_POINT('',(0.,0.,0.)\n"
+                                                  "#2 = @@@ this is not STEP;\n" + text[body:])
+    case("syntax error inside the DATA section (text, not binary)", "syntax_in_data.step", names=("syntax",),
+         needs="geometry/model.py _read_step: keep OCCT's Message printers off stdout while reading, and turn the "
+               "reader's syntax fails (reader.Reader().WS() check list / StepData fails count) into "
+               "InputError('syntax error at line N', where=path)")
 
     header = text[:data_at]
     (STEP_DIR / "no_solids.step").write_text(header + "DATA;\nENDSEC;\nEND-ISO-10303-21;\n")
