@@ -296,3 +296,31 @@ def test_count_step_solids_instances_share_one_entity(tmp_path):
     model = load_model(str(path))
     assert len(model.parts) == 2
     assert limits.count_step_solids(path) == 1 == _distinct_solids(model)
+
+
+def test_hostile_part_names_stay_names(tmp_path, capfd):
+    # a "../" in a part name must never become a path: every output lands in the output folder,
+    # and results.json carries the names as the file gives them (ISO 10303-21 \X2\ decoded)
+    import shutil
+    import sys
+
+    sys.path.insert(0, str(CORPUS))
+    from make_corpus import HOSTILE_NAMES
+
+    folder = tmp_path / "deep" / "job"
+    folder.mkdir(parents=True)
+    model = folder / "hostile_names.step"
+    shutil.copyfile(CORPUS / "step" / "hostile_names.step", model)
+    job = folder / "job.toml"
+    job.write_text('model = "hostile_names.step"\ndefault_material = "steel"\n'
+                   '[[load]]\njoints = "*"\naxial = { max = "3 kN" }\n')
+    before = {p: _digest(p) for p in (model, job)}
+    code = main(["check", str(job), "--out", str(folder / "out"), "--json"])
+    out, err = capfd.readouterr()
+    assert code in (0, 1) and "Traceback" not in err
+    assert {p: _digest(p) for p in (model, job)} == before
+    created = {p for p in tmp_path.rglob("*") if p.is_file()} - set(before)
+    assert created and all((folder / "out") in p.parents for p in created), created
+    assert all(".." not in p.name for p in created)
+    (joint,) = json.loads(out)["joints"]
+    assert {layer["part"] for layer in joint["layers"]} == set(HOSTILE_NAMES)

@@ -30,6 +30,10 @@ JOB_DIR = HERE / "jobs"
 HOLE_M10_MEDIUM = 11.0
 #: nominal diameter of M10, mm (ISO 261)
 D_M10 = 10.0
+#: part names of hostile_names.step as written in the file, and as a reader must return them
+HOSTILE_NAMES_STEP = ("../../evil_pl\\X2\\00FC\\X0\\te_steel", "o''brien_" + "x" * 2000 + "_steel")
+HOSTILE_NAMES = ("../../evil_pl\u00fcte_steel", "o'brien_" + "x" * 2000 + "_steel")
+
 #: the change that wires the byte sniff of geomjoint/limits.py into the reader
 NEEDS_SNIFF = ("geometry/model.py _read_step: call geomjoint.limits.check_step_file(path) in place of "
                "its own _check_step_file(path)")
@@ -178,6 +182,19 @@ def step_cases() -> list[dict]:
     case("assembly with one solid broken (face missing): part silently lost", "assembly_part_lost.step",
          names=("solid",), needs=NEEDS_SOLID_COUNT)
 
+    # One point of the upper plate moved to 1e300 mm, or to 1e400 (beyond a double), or one face
+    # reference left dangling: the reader drops that plate without an error and the joint vanishes.
+    points = re.findall(r"CARTESIAN_POINT\('',\(([^)]*)\)\)", text)
+    far = f"CARTESIAN_POINT('',({points[5]}))"
+    for file, value, what in (("far_point.step", "1.E+300", "a point 1e300 mm away"),
+                              ("overflow_point.step", "1.E+400", "a coordinate beyond a double (1e400)")):
+        (STEP_DIR / file).write_text(text.replace(far, f"CARTESIAN_POINT('',({value},0.,0.))", 1))
+        case(f"{what}: the plate is dropped", file, names=("solid",), needs=NEEDS_SOLID_COUNT)
+    dangling = text.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1] + ['#999999'])}))")
+    (STEP_DIR / "dangling_reference.step").write_text(dangling)
+    case("a reference to an entity that is not there (#999999)", "dangling_reference.step", names=("solid",),
+         needs=NEEDS_SOLID_COUNT + "; and keep OCCT's 'Unresolved Reference' print off stdout")
+
     # Two cubes sharing one edge sewn into one shell and made one solid: the shared edge
     # bounds four faces (non-manifold); OCCT's BRepCheck calls the solid invalid.
     from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeSolid, BRepBuilderAPI_Sewing
@@ -219,6 +236,14 @@ def step_cases() -> list[dict]:
     apart = HOLE_M10_MEDIUM + 1.0            # the circles no longer overlap: two separate holes
     write_step(plate_pair(apart), STEP_DIR / "offset_apart.step")
     case(f"holes {apart:g} mm apart, no overlap: two lone holes, no joint", "offset_apart.step", exit=0, joints=0)
+
+    # hostile part names (valid STEP): a path that climbs, an escaped quote, non-ASCII in the
+    # ISO 10303-21 \\X2\\ encoding, 2000 characters; they must come through as names, never as paths
+    hostile = (text.replace("upper_plate_steel", HOSTILE_NAMES_STEP[0])
+               .replace("lower_plate_steel", HOSTILE_NAMES_STEP[1]))
+    (STEP_DIR / "hostile_names.step").write_text(hostile)
+    case("hostile part names: ../, quote, non-ASCII, 2000 characters", "hostile_names.step", exit=0, joints=1,
+         no_finding="misaligned")
 
     # the same plate twice in the same place (a copy-paste slip): an engineer expects to be told,
     # and the grip must not silently count the plate twice
