@@ -49,17 +49,20 @@ PLATE = (40.0, 40.0, 10.0)   # invented demo plate, mm
 
 
 # ---------------------------------------------------------------- writing STEP
-def write_step(shapes: list[tuple[str, object]], path: Path) -> None:
-    """Write named cadquery shapes / workplanes as one AP214 assembly, in mm."""
+def write_step(shapes, path: Path) -> None:
+    """Write named cadquery shapes / workplanes (or a ready cadquery Assembly) as AP214, in mm."""
     import cadquery as cq
     from cadquery.occ_impl.assembly import toCAF
     from OCP.Interface import Interface_Static
     from OCP.STEPCAFControl import STEPCAFControl_Writer
     from OCP.STEPControl import STEPControl_AsIs
 
-    assy = cq.Assembly(name="corpus")
-    for name, shape in shapes:
-        assy.add(shape, name=name)
+    if isinstance(shapes, cq.Assembly):
+        assy = shapes
+    else:
+        assy = cq.Assembly(name="corpus")
+        for name, shape in shapes:
+            assy.add(shape, name=name)
     _, doc = toCAF(assy)
     writer = STEPCAFControl_Writer()
     writer.SetNameMode(True)
@@ -253,6 +256,16 @@ def step_cases() -> list[dict]:
          finding="duplicate", names=(),
          needs="geometry/stacks.py build_joint: two layers of one joint whose axial ranges coincide "
                "(same start/end) -> Finding('fail', 'duplicate', 'P and P#2 occupy the same space')")
+    # the same part definition placed twice at the same location (two instances, "P" and "P#2")
+    upper = cq.Assembly(name="upper")
+    upper.add(plate([(0.0, 0.0)], PLATE[2]), name="upper_plate_steel")
+    assy = cq.Assembly(name="corpus")
+    assy.add(upper, name="upper_a")
+    assy.add(upper, name="upper_b")
+    assy.add(plate([(0.0, 0.0)], 0.0), name="lower_plate_steel")
+    write_step(assy, STEP_DIR / "duplicate_placement.step")
+    case("one part placed twice at the same location", "duplicate_placement.step", exit=1, joints=1,
+         finding="duplicate", needs=cases[-1]["needs"])
     return cases
 
 
