@@ -63,7 +63,7 @@ class Part:
 
     name: str                           # unique per instance: "foot", "foot#2"
     solid: TopoDS_Shape = field(repr=False, compare=False)  # located solid
-    colour: tuple[float, float, float] | None = None          # sRGB 0..1
+    colour: tuple[float, float, float] | None = None          # linear RGB 0..1 as OCCT stores it (Quantity_Color)
     colour_name: str | None = None      # OCCT's nearest named colour, e.g. "GRAY"
     material_hint: str | None = None    # from the name or the colour name
     product: str | None = None          # name of the part definition (shared by instances)

@@ -1,6 +1,6 @@
 """Scan time for a plate pair with N matching holes (no timed test; this prints numbers).
 
-    python benchmarks/scan_large.py [N ...]      # default: 100 300 1000
+    python tests/benchmarks/scan_large.py [N ...]      # default: 100 300 1000
 
 Builds two 10 mm plates with an N-hole grid (11 mm holes at 25 mm pitch), scans the
 in-memory assembly and prints the time per hole for the whole scan and for the
