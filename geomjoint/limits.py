@@ -145,6 +145,10 @@ def check_step_file(path: str | os.PathLike, limits: Limits | None = None) -> No
         tail = fh.read()
     if b"ISO-10303-21" not in head[:HEADER_WINDOW]:
         raise InputError("not a STEP file (it does not start with ISO-10303-21)", where=where)
+    # an old DOS tool may end a text file with Ctrl-Z (0x1a): allowed after the trailer only
+    tail = tail.rstrip(b" \t\r\n\x1a")
+    if size <= SNIFF_BYTES:          # the head is the whole file: the same allowance
+        head = head.rstrip(b" \t\r\n\x1a")
     for chunk in (head, tail):
         bad = _BINARY.search(chunk)
         if bad:

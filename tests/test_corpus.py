@@ -352,3 +352,26 @@ def test_check_of_duplicate_placement_does_not_pass(tmp_path, capfd):
     (joint,) = json.loads(capfd.readouterr().out)["joints"]
     assert code == 1 and not joint["ok"]
     assert not next(c for c in joint["checks"] if c["name"] == "stack-up")["ok"]
+
+
+def test_sniff_allows_ctrl_z_after_the_trailer_only(tmp_path):
+    text = (CORPUS / "step" / "plate_pair.step").read_bytes()
+    dos = tmp_path / "dos.step"
+    dos.write_bytes(text.replace(b"\n", b"\r\n") + b"\x1a")        # DOS line ends and end-of-file mark
+    limits.check_step_file(dos)
+    inside = tmp_path / "inside.step"
+    cut = text.index(b"DATA;")
+    inside.write_bytes(text[:cut] + b"\x1a" + text[cut:])
+    with pytest.raises(InputError, match=r"inside\.step: binary bytes \(0x1a\)"):
+        limits.check_step_file(inside)
+
+
+def test_run_with_timeout_nested_keeps_the_outer_limit():
+    def inner():
+        with pytest.raises(limits.JointTimeout):
+            limits.run_with_timeout(time.sleep, 0.05, 30.0)
+        return signal.getitimer(signal.ITIMER_REAL)[0]
+
+    left = limits.run_with_timeout(inner, 5.0)
+    assert 0.0 < left < 5.0                                          # the outer timer runs on
+    assert signal.getitimer(signal.ITIMER_REAL)[0] == 0.0
