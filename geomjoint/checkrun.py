@@ -63,10 +63,19 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
     results = analysis.results
     document = result_document(results, version)
     table = result_table(results)
+    overview = None
+    if analysis.scan is not None and analysis.model_joints:
+        from geomjoint.geometry.overview import model_overview
+        from geomjoint.report.plots import overview_svg
+
+        scan = analysis.scan
+        hardware = {h.part for h in (*scan.bolts, *scan.nuts, *scan.washers)}
+        overview = overview_svg(model_overview(scan, hardware), {r.id: r.verdict for r in results})
     files = {
         RESULTS_JSON: dumps(document).encode("utf-8"),
         REPORT_TEXT: table.encode("utf-8"),
-        REPORT_HTML: html_report(results, title=job.title or job.path.stem, units=job.units).encode("utf-8"),
+        REPORT_HTML: html_report(results, title=job.title or job.path.stem, units=job.units,
+                                 overview_svg=overview).encode("utf-8"),
     }
     if analysis.scan is not None and analysis.model_joints:
         files.update(_model_outputs(job, analysis))

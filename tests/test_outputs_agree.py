@@ -87,3 +87,19 @@ def test_part_names_cannot_escape_the_output_folder(tmp_path):
     doc = json.loads((out / "results.json").read_text())
     assert len(doc["joints"]) == 1 and len(doc["joints"][0]["layers"]) == 4   # one joint through the 4 plates
     assert (out / "hostile-checked.step").exists() and (out / "hostile-checked.glb").exists()
+
+
+def test_overview_shows_every_model_joint(demo_outputs):
+    from geomjoint.geometry.overview import model_overview
+    from geomjoint.geometry.scan import scan_model
+
+    scan = scan_model(SAMPLES / "conveyor_bracket.step")
+    view = model_overview(scan)
+    # the sample's bolts point along z: the overview is the plan, x right and y up (identity)
+    assert view.view == pytest.approx((0.0, 0.0, 1.0))
+    for (jid, u, v), joint in zip(view.joints, scan.joints):
+        assert jid == joint.id and (u, v) == pytest.approx(joint.point[:2])
+    html = (demo_outputs / "report.html").read_text()
+    section = html[html.index("Model overview"):]
+    for jid in ("J01", "J02", "J03", "J04"):
+        assert f"{jid} " in section

@@ -468,3 +468,28 @@ def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
     ax.legend(fontsize=6.5, loc="upper right", frameon=False)
     ax.set_title(f"{result.id}: fatigue ({crit})", fontsize=9)
     return _svg(fig)
+
+
+def overview_svg(overview, verdicts: dict[str, str]) -> str:
+    """The model seen along the bolt axes: part outlines, each joint numbered and coloured by verdict.
+
+    ``overview`` is a :class:`geomjoint.geometry.overview.Overview` (plain arrays); ``verdicts``
+    maps joint id to "pass" | "marginal" | "fail".  The verdict is also written beside the id
+    (never colour alone).
+    """
+    fig = Figure(figsize=(7.0, 5.0))
+    fig.subplots_adjust(left=0.08, right=0.98, bottom=0.08, top=0.92)
+    ax = fig.add_subplot(1, 1, 1)
+    for name, poly in overview.outlines:
+        ax.fill(poly[:, 0], poly[:, 1], facecolor="#eef0f3", edgecolor="#5b6470", linewidth=0.6, alpha=0.6)
+    marker = {"pass": "o", "marginal": "s", "fail": "X"}
+    for jid, u, v in overview.joints:
+        verdict = verdicts.get(jid, "fail")
+        ax.plot([u], [v], marker=marker.get(verdict, "o"), markersize=9, linestyle="none",
+                color=VERDICT_COLOURS.get(verdict, "#000000"), markeredgecolor="#000000", markeredgewidth=0.6)
+        ax.annotate(f"{jid} {verdict.upper()}", (u, v), textcoords="offset points",
+                    xytext=(7, 5), fontsize=7)
+    ax.set_aspect("equal", adjustable="datalim")
+    ax.set_xlabel("mm")
+    ax.set_title("model seen along the bolt axes", fontsize=9)
+    return _svg(fig)
