@@ -93,6 +93,13 @@ def _length_candidates(spec: JointSpec, result: JointResult) -> Iterator[Candida
         yield Candidate("length", "fully threaded screw of the same length", replace(spec, fastener=replace(f, fully_threaded=True)))
     if not failing & {"length", "stripping"}:
         return
+    if spec.tapped and f.length - spec.clamped_thickness > spec.layers[-1].thickness:
+        # bottoming in the blind hole: the longest standard length that fits is the least change
+        for length in sorted(catalog.standard_lengths(thread, f.head), reverse=True):
+            if length < f.length and length - spec.clamped_thickness <= spec.layers[-1].thickness:
+                yield Candidate("length", f"bolt length {f.length:g} -> {length:g} mm",
+                                replace(spec, fastener=replace(f, length=length), engagement=None))
+        return
     for length in catalog.standard_lengths(thread, f.head):
         if length > f.length:
             if spec.tapped and length - spec.clamped_thickness > spec.layers[-1].thickness:

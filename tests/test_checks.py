@@ -9,7 +9,7 @@ from scipy.optimize import brentq
 from conftest import load_schema
 from geomjoint.mechanics import checks
 from geomjoint.mechanics.checks import MARGINAL_BAND, evaluate
-from geomjoint.mechanics.joint import FastenerSpec, FatigueSpec, JointSpec, LayerSpec, PreloadSpec
+from geomjoint.mechanics.joint import Check, FastenerSpec, FatigueSpec, JointSpec, LayerSpec, PreloadSpec
 from geomjoint.mechanics.members import WILEMAN_CONSTANTS, frustum_stiffness, wileman_stiffness
 
 TAN30 = math.tan(math.pi / 6)
@@ -140,9 +140,9 @@ def test_tapped_joint_effective_grip_and_far_cone():
                      bearing_diameter=16.0, hole_diameter=11.0, tapped=True, load_max=5000.0)
     r = evaluate(spec)
     assert r.grip == 12.0 and r.effective_grip == pytest.approx(17.0)
-    # bolt: L_T = 2d + 6 = 26, l_d = 4, l_t = 17 - 4 = 13
-    A_d = math.pi * 100 / 4
-    assert r.bolt_stiffness == pytest.approx(A_d * 58.0 * 207000.0 / (A_d * 13.0 + 58.0 * 4.0), rel=1e-12)
+    # bolt: a socket cap screw has b = 2d + 12 = 32 mm (ISO 4762, from memory) >= L = 30: threaded to
+    # the head, so l_d = 0 and l_t = l' = 17 mm
+    assert r.bolt_stiffness == pytest.approx(58.0 * 207000.0 / 17.0, rel=1e-12)
     # members by hand, eq. 8-19: head cone 8.5 mm of aluminium; far cone from l' with the same D:
     # 5 mm steel, then 3.5 mm aluminium starting at D + 2*5*tan30
     def frustum(E, D, t):
@@ -251,3 +251,13 @@ def test_result_document_matches_schema(criterion):
                evaluate(metric_joint(preload=PreloadSpec("none", 0.0))),
                evaluate(metric_joint(load_max=0.0))]
     jsonschema.validate(result_document(results, "test"), load_schema("result.schema.json"))
+
+
+def test_design_utilisation_checks_do_not_make_a_joint_marginal():
+    # our rule: VDI tightening to nu = 0.9 puts S_F near 1.1 by design; load-driven checks set "marginal"
+    from geomjoint.mechanics.checks import MARGINAL_BAND, rate
+
+    near = MARGINAL_BAND - 0.05
+    assert rate([Check("working_stress", near, 1.0, True), Check("fatigue", 2.0, 1.0, True)]) == ("pass", "working_stress")
+    assert rate([Check("working_stress", 2.0, 1.0, True), Check("fatigue", near, 1.0, True)])[0] == "marginal"
+    assert rate([Check("assembly_preload", 0.9, 1.0, False), Check("fatigue", 2.0, 1.0, True)])[0] == "fail"

@@ -167,7 +167,7 @@ def nominal_from_hole(diameter: float, system: str | None = None, tol: float = 0
     return [(t, label) for *_, t, label in found]
 
 
-def thread_length(t: Thread, length: float) -> float:
+def thread_length(t: Thread, length: float, kind: str = "hex") -> float:
     """Thread length L_T of a bolt of nominal length `length` [mm] by the standard rule, mm.
 
     metric: L_T = 2d + 6 (L <= 125), 2d + 12 (125 < L <= 200), 2d + 25 (L > 200);
@@ -180,7 +180,7 @@ def thread_length(t: Thread, length: float) -> float:
     """
     if length <= 0:
         raise InputError(f"bolt length must be positive, got {length:g} mm")
-    return min(thread_length_rule(t.d, length, t.system), length)
+    return min(thread_length_rule(t.d, length, t.system, kind), length)
 
 
 def _kind_key(kind: str) -> str:

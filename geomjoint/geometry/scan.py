@@ -256,10 +256,9 @@ def add_findings(j: Joint, system: str | None = None) -> None:
                 add(Finding("warn", "bolt-long",
                             f"{j.bolt.part}: protrudes {protr:.2f} mm past the nut (limit {MAX_PROTRUSION_DIAMETERS:g} d = "
                             f"{MAX_PROTRUSION_DIAMETERS * t.d:.2f} mm)"))
-    # the catalog's thread-length rule is the hex-bolt one (ISO 4014 / ASME B18.2.1);
-    # socket head cap screws (ISO 4762) have longer threads, so they are not judged by it
-    if j.bolt is not None and j.bolt.head_kind == "hex":
-        b = catalog.thread_length(t, j.bolt.length)
+    # thread lengths by the standard rule of the head kind (ISO 4014 / ISO 4762; ASME B18.2.1 / B18.3)
+    if j.bolt is not None and j.bolt.head_kind in ("hex", "socket"):
+        b = catalog.thread_length(t, j.bolt.length, j.bolt.head_kind)
         shank = j.bolt.length - b
         if shank > j.grip + LINEAR_TOL and j.kind != "blind":
             where = "the nut" if j.kind == "through" else f"the tapped hole of {j.layers[-1].part}"

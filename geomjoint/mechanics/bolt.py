@@ -28,7 +28,13 @@ INCH_THREAD_LENGTH_RULE = ((6.0 * INCH, 0.25 * INCH), (math.inf, 0.5 * INCH))
 MIN_PROTRUSION_PITCHES = 1.0
 
 
-def thread_length_rule(d: float, length: float, system: str) -> float:
+#: socket head cap screws: metric b = 2d + 12 mm (ISO 4762:2004 b ref, from memory: M8 28, M12 36,
+#: M16 44 mm); inch L_T = 2D + 1/2 in (ASME B18.3, from memory)
+METRIC_SOCKET_THREAD_EXTRA = 12.0
+INCH_SOCKET_THREAD_EXTRA = 0.5 * INCH
+
+
+def thread_length_rule(d: float, length: float, system: str, head: str = "hex") -> float:
     """Standard thread length L_T of a bolt of nominal diameter ``d`` and length ``length``.
 
     Metric (ISO 4014 b(ref)):  L_T = 2d + 6 mm (L <= 125), 2d + 12 mm (125 < L <= 200),
@@ -44,6 +50,9 @@ def thread_length_rule(d: float, length: float, system: str) -> float:
         Bolt length under the head, mm.
     system : str
         "metric" or "inch".
+    head : str
+        "hex" (the rules above) or "socket": socket head cap screws have the longer thread
+        of ISO 4762 (b = 2d + 12 mm) and ASME B18.3 (2D + 1/2 in).
 
     Examples
     --------
@@ -51,9 +60,13 @@ def thread_length_rule(d: float, length: float, system: str) -> float:
     30.0
     >>> round(thread_length_rule(12.7, 50.8, "inch") / INCH, 4)   # 1/2 in x 2 in
     1.25
+    >>> thread_length_rule(8.0, 35.0, "metric", "socket")
+    28.0
     """
     if d <= 0 or length <= 0:
         raise InputError(f"diameter and length must be positive, got d={d}, L={length}")
+    if head == "socket" and system in ("metric", "inch"):
+        return 2.0 * d + (METRIC_SOCKET_THREAD_EXTRA if system == "metric" else INCH_SOCKET_THREAD_EXTRA)
     if system == "metric":
         rule = METRIC_THREAD_LENGTH_RULE
     elif system == "inch":
@@ -64,6 +77,16 @@ def thread_length_rule(d: float, length: float, system: str) -> float:
         if length <= limit:
             return 2.0 * d + extra
     raise AssertionError("unreachable: the last rule row has no limit")
+
+
+def bolt_thread_length(fastener) -> float | None:
+    """Thread length L_T of a FastenerSpec: the given one, else the standard rule for its head
+    kind; None when the length is unknown."""
+    if fastener.length is None:
+        return None
+    if fastener.thread_length is not None:
+        return float(fastener.thread_length)
+    return thread_length_rule(fastener.d, fastener.length, fastener.system, fastener.head)
 
 
 def effective_grip(clamped: float, tapped_depth: float | None, d: float) -> float:

@@ -30,6 +30,11 @@ MARGINAL_BAND = 1.10
 #: K = 0.2 for plain steel threads (Shigley 10th ed., Sec. 8-8; common practice)
 DEFAULT_NUT_FACTOR = 0.2
 
+#: checks whose margin the tightening sets by design (VDI 2230-1 tightens to ν = 0.9 of the
+#: yield, so S_F ≈ 1.1 on every well-tightened joint): they pass or fail, but never make a
+#: joint "marginal" (our own rule)
+DESIGN_UTILISATION_CHECKS = ("working_stress", "assembly_preload")
+
 #: the checks whose values are factors against a required value
 FACTOR_CHECKS = ("yield", "load", "separation", "fatigue")
 
@@ -106,7 +111,7 @@ def bolt_side(spec: JointSpec, grip: float) -> BoltSide:
         L_T, shank = None, 0.0
         notes.append("bolt length unknown: taken as threaded over the grip")
     else:
-        L_T = f.thread_length if f.thread_length is not None else B.thread_length_rule(f.d, f.length, f.system)
+        L_T = B.bolt_thread_length(f)
         shank = B.unthreaded_length(f.length, L_T, f.fully_threaded)
     l_d, l_t = B.grip_lengths(grip, shank)
     k_b = B.bolt_stiffness(B.shank_area(f.d), f.stress_area, f.E, l_d, l_t)
@@ -221,6 +226,10 @@ def length_check(spec: JointSpec, side: BoltSide) -> Check:
     if f.length <= clamped + 1e-9:
         return Check("length", None, None, False,
                      f"bolt length {f.length:.1f} mm does not reach through the grip {clamped:.1f} mm")
+    if spec.tapped and f.length - clamped > spec.layers[-1].thickness + 1e-9:
+        return Check("length", None, None, False,
+                     f"screw reaches {f.length - clamped:.1f} mm into a tapped hole {spec.layers[-1].thickness:.1f} mm "
+                     f"deep: it bottoms before it clamps")
     if not spec.tapped and spec.nut_height:
         needed = clamped + spec.gaps + spec.nut_height + B.MIN_PROTRUSION_PITCHES * f.pitch
         if f.length < needed - 1e-9:
@@ -248,7 +257,8 @@ def rate(checks: list[Check]) -> tuple[str, str]:
         return c.value / c.required
 
     governing = min(checks, key=key)
-    smallest = key(governing)
+    banded = [c for c in checks if c.name not in DESIGN_UTILISATION_CHECKS]
+    smallest = min((key(c) for c in banded), default=math.inf)
     if any(not c.ok for c in checks):
         verdict = "fail"
     elif smallest < MARGINAL_BAND:

@@ -947,7 +947,7 @@ def _clamped_layers(spec: JointSpec):
 
 def _bolt_lengths(spec: JointSpec, l_K: float, notes: list[str]) -> tuple[float, float]:
     """(shank inside l_K, free loaded thread inside l_K), mm."""
-    from geomjoint.mechanics.bolt import grip_lengths, thread_length_rule, unthreaded_length
+    from geomjoint.mechanics.bolt import bolt_thread_length, grip_lengths, unthreaded_length
 
     f = spec.fastener
     if f.fully_threaded:
@@ -956,7 +956,7 @@ def _bolt_lengths(spec: JointSpec, l_K: float, notes: list[str]) -> tuple[float,
         notes.append("bolt length unknown: the clamp length taken as unthreaded shank "
                      "(stiffest bolt, the larger load factor)")
         return l_K, 0.0
-    L_T = f.thread_length if f.thread_length is not None else thread_length_rule(f.d, f.length, f.system)
+    L_T = bolt_thread_length(f)
     return grip_lengths(l_K, unthreaded_length(f.length, L_T))
 
 

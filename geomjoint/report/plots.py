@@ -177,12 +177,10 @@ def _thread_length(result: JointResult) -> float | None:
         return f.length
     if result.details.get("thread_length"):
         return float(result.details["thread_length"])   # what the engine used
-    if f.thread_length is not None:
-        return f.thread_length
-    try:
-        from geomjoint.mechanics.bolt import thread_length_rule
+    from geomjoint.mechanics.bolt import bolt_thread_length
 
-        return thread_length_rule(f.d, f.length, f.system)
+    try:
+        return bolt_thread_length(f)
     except Exception:  # a drawing must not fail on a rule's edge case
         return None
 
