@@ -62,7 +62,7 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
     analysis = analyze_job(job, workers=workers, quiet=quiet)
     results = analysis.results
     document = result_document(results, version)
-    table = result_table(results)
+    table = result_table(results, job.units)
     overview = None
     if analysis.scan is not None and analysis.model_joints:
         from geomjoint.geometry.overview import model_overview

@@ -207,3 +207,15 @@ def test_sample_jobs_end_to_end(job, expected):
         assert all(r.details["fatigue_criterion"] == "vdi" and r.tightening["torque"] > 0 for r in results)
     else:
         assert all(r.spec.fastener.designation == "1/2-13 UNC" and r.stiffness_method == "cone" for r in results)
+
+
+def test_inch_job_reports_in_inch_units():
+    from geomjoint.report.text import result_table
+
+    job = load_job(SAMPLES / "pump_skid_inch.toml")
+    table = result_table(analyze_job(job).results, job.units)
+    header, _, first = table.splitlines()[:3]
+    assert "grip in" in header and "preload kip" in header
+    # grip 5/8 in foot + 1/2 in rail (make_samples.py); preload 75 % of 85 kpsi x 0.1419 in^2
+    # (SAE J429 grade 5 proof strength; ASME B1.1 tensile stress area) = 9.05 kip
+    assert " 1.125 " in first and " 9.05 " in first

@@ -22,16 +22,22 @@ def _length_label(length_mm: float, system: str) -> str:
     return f"x{length_mm:g}"
 
 
-def result_table(results: list[JointResult]) -> str:
-    head = ["joint", "fastener", "grip mm", "C", "preload kN", "n yield", "n load", "n sep", "n fat",
+#: units of the table's two dimensional columns: (grip label, factor from mm, preload label, factor from N)
+TABLE_UNITS = {"SI": ("grip mm", 1.0, "preload kN", 1e-3),
+               "inch": ("grip in", 1 / 25.4, "preload kip", 1 / 4448.2216152605)}  # 1 in = 25.4 mm; 1 kip = 1000 lbf
+
+
+def result_table(results: list[JointResult], units: str = "SI") -> str:
+    grip_label, per_mm, preload_label, per_newton = TABLE_UNITS[units]
+    head = ["joint", "fastener", grip_label, "C", preload_label, "n yield", "n load", "n sep", "n fat",
             "verdict", "governing"]
     rows = []
     for r in results:
         f = r.spec.fastener
         size = f.designation + (_length_label(f.length, f.system) if f.length else "")
         rows.append([
-            r.id, f"{size} {f.grade}", _fmt(r.grip, ".1f"), _fmt(r.joint_constant, ".3f"),
-            _fmt(r.preload / 1000.0, ".1f"), _fmt(r.factors.get("yield")), _fmt(r.factors.get("load")),
+            r.id, f"{size} {f.grade}", _fmt(r.grip * per_mm, ".3f" if units == "inch" else ".1f"),
+            _fmt(r.joint_constant, ".3f"), _fmt(r.preload * per_newton, ".2f" if units == "inch" else ".1f"), _fmt(r.factors.get("yield")), _fmt(r.factors.get("load")),
             _fmt(r.factors.get("separation")), _fmt(r.factors.get("fatigue")), r.verdict.upper(), r.governing,
         ])
     widths = [max(len(str(x)) for x in col) for col in zip(head, *rows)]
