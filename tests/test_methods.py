@@ -55,3 +55,14 @@ def test_compare_stiffness_lists_every_method():
     assert set(table) == {"frustum", "exponential", "vdi", "fe"}
     assert table["frustum"] == pytest.approx(result.member_stiffness)
     assert all(v > 0 for v in table.values())
+
+
+def test_comparison_reaches_json_and_html():
+    from geomjoint.report.html import html_report
+    from geomjoint.report.json_doc import result_document
+
+    result = run("frustum", "compare_stiffness = true")
+    doc = result_document([result], "t")["joints"][0]
+    assert doc["stiffness"]["comparison"] == result.details["stiffness_comparison"]
+    page = html_report([result], title="t")
+    assert "Member stiffness by every method" in page and "axisymmetric finite elements" in page

@@ -347,6 +347,13 @@ _GEOMETRY_ROWS = {
         ("outer_diameter", "outer diameter of the modelled members", "len"),
         ("mesh_change", "change on mesh refinement (fraction)", "1"),
     )),
+    "stiffness_comparison": ("Member stiffness by every method (compare_stiffness)", (
+        ("frustum", "frustum (Shigley eq. 8-20)", "k"),
+        ("exponential", "exponential fit (Wileman et al. 1991)", "k"),
+        ("vdi", "VDI 2230-1 substitute deformation body", "k"),
+        ("cone", "pressure cone clipped by the parts", "k"),
+        ("fe", "axisymmetric finite elements", "k"),
+    )),
 }
 
 

@@ -30,7 +30,9 @@ def joint_document(r: JointResult) -> dict[str, Any]:
         "layers": [{"part": layer.part, "material": layer.material, "thickness": layer.thickness,
                     "role": layer.role} for layer in r.spec.layers],
         "stiffness": {"bolt": r.bolt_stiffness, "members": r.member_stiffness, "C": r.joint_constant,
-                      "method": r.stiffness_method},
+                      "method": r.stiffness_method,
+                      **({"comparison": r.details["stiffness_comparison"]}
+                         if r.details.get("stiffness_comparison") else {})},
         "preload": r.preload,
         "load": {"min": r.spec.load_min, "max": r.spec.load_max, "shear": r.spec.shear},
         "fatigue": {"criterion": r.spec.fatigue.criterion if r.details.get("fatigue_criterion") is None
