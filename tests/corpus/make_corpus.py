@@ -6,7 +6,9 @@ Every case is a file plus one row of ``manifest.json``:
 
     {"name": ..., "command": "scan" | "check", "file": path relative to tests/corpus,
      "exit": 2 (or 0 / 1 for inputs that are valid but tricky),
-     "names": [strings the one stderr line must contain: the file and the key/part/entity],
+     "names": [strings the one stderr line must contain: the file and the key/part/entity;
+               "a|b" means either],
+     "subprocess": true when the case crashes the CAD kernel (the test runs it in a child process),
      "joints": number of joints the scan must find (valid tricky models only),
      "finding": a finding code the scan must (or, with "no_finding", must not) report,
      "needs": "" or the change in cli/analysis/geometry the case waits for (the test is xfail)}
@@ -37,6 +39,11 @@ HOSTILE_NAMES = ("../../evil_pl\u00fcte_steel", "o'brien_" + "x" * 2000 + "_stee
 #: the change that wires the byte sniff of geomjoint/limits.py into the reader
 NEEDS_SNIFF = ("geometry/model.py _read_step: call geomjoint.limits.check_step_file(path) in place of "
                "its own _check_step_file(path)")
+#: the change that refuses a file the reader found damaged, before the transfer (which may crash)
+NEEDS_CHECK_LIST = ("geometry/model.py _read_step, after ReadFile and before Transfer: checks = "
+                    "reader.Reader().WS().ModelCheckList(); if checks.Complies(Interface_CheckStatus.Interface_CheckFail): "
+                    "raise InputError(f'damaged STEP file: {first failed check CFail(1)} (entity #{checks.Number()})', "
+                    "where=path); and keep OCCT's Message printers off stdout while reading")
 #: the change that catches solids the reader drops, splits or heals
 NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: compare geomjoint.limits.count_step_solids(path) with the "
                      "distinct solids after transfer (instances share one: TopoDS_Shape.IsPartner); on a "
@@ -141,15 +148,24 @@ def step_cases() -> list[dict]:
     (STEP_DIR / "junk_in_header.step").write_bytes(b"ISO-10303-21;\nHEADER;\n" + junk + b"\nEND-ISO-10303-21;\n")
     case("binary junk behind a STEP header", "junk_in_header.step", names=("binary",), needs=NEEDS_SNIFF)
 
+    # One letter lost or one character changed, as a damaged download or a hand edit leaves it: the
+    # kernel's transfer dies with a segmentation fault (the whole process, no message, exit -11).
+    # Run in a subprocess by the test. ReadFile's check list flags every one of them beforehand.
+    for file, old, new in (("misspelt_entity.step", "#4 = PRODUCT_DEFINITION_SHAPE(", "#4 = PRODUCT_EFINITION_SHAPE("),
+                           ("misspelt_point.step", "#20 = CARTESIAN_POINT(", "#20 = CARTESIN_POINT("),
+                           ("lost_semicolon.step", "#66 = VECTOR('',#67,1.);\n#67 = ", "#66 = VECTOR('',#67,) = ")):
+        assert old in text, file
+        (STEP_DIR / file).write_text(text.replace(old, new, 1))
+        case(f"damaged entity ({new.strip()}): the kernel crashes in transfer", file, names=("#|line",),
+             subprocess=True, needs=NEEDS_CHECK_LIST)
+
     # text garbage inside DATA: the kernel's reader skips the bad entity, prints to stdout
     # ("**** ERR StepFile ...", which spoils --json) and carries on as if the file were whole
     body = text.index("\n", data_at) + 1
     (STEP_DIR / "syntax_in_data.step").write_text(text[:body] + "#1 = CARTESIAN_POINT('',(0.,0.,0.)\n"
                                                   "#2 = @@@ this is not STEP;\n" + text[body:])
     case("syntax error inside the DATA section (text, not binary)", "syntax_in_data.step", names=("syntax",),
-         needs="geometry/model.py _read_step: keep OCCT's Message printers off stdout while reading, and turn the "
-               "reader's syntax fails (reader.Reader().WS() check list / StepData fails count) into "
-               "InputError('syntax error at line N', where=path)")
+         needs=NEEDS_CHECK_LIST)
 
     header = text[:data_at]
     (STEP_DIR / "no_solids.step").write_text(header + "DATA;\nENDSEC;\nEND-ISO-10303-21;\n")
