@@ -9,7 +9,12 @@ that names the file:
   reader silently falls back to millimetres on such a file, so every length would be wrong).
 * :func:`check_model_size` and :func:`check_part_extent` refuse a model with too many
   solids or faces, or a part longer than any machine (a unit slip, usually).
-* :func:`run_with_timeout` runs one joint under a wall-clock limit.
+* :func:`count_step_solids` counts the solid entities of a file, to compare with the solids
+  the reader returns (it drops or splits damaged ones without an error).
+* :func:`run_with_timeout` runs one joint under a wall-clock limit (SIGALRM, same process);
+  :func:`run_in_child` runs a call in a forked child, so a crash of the CAD kernel (some
+  damaged STEP files make its transfer die with SIGSEGV) or a call that hangs inside C++
+  comes back as an exception instead of ending the program.
 
 The limits have defaults (:class:`Limits`) and can be changed without code through the
 environment variables listed in :data:`ENV`, e.g. ``GEOMJOINT_MAX_SOLIDS=20000``;
@@ -278,3 +283,71 @@ def count_step_solids(path: str | os.PathLike) -> int:
             count += sum(1 for m in _SOLID_ENTITY.finditer(text) if m.end() > len(carry))
             carry = text[-64:]
     return count
+
+
+class ChildCrashed(RuntimeError):
+    """The child process died without an answer (killed by a signal, e.g. a segmentation fault)."""
+
+    def __init__(self, message: str, signal_number: int | None = None):
+        super().__init__(message)
+        self.signal_number = signal_number
+
+
+def run_in_child(fn: Callable[..., T], *args: Any, seconds: float | None = None, **kwargs: Any) -> T:
+    """Call ``fn(*args, **kwargs)`` in a forked child process and return its (picklable) result.
+
+    A crash of native code in the child (the CAD kernel's STEP transfer dies with SIGSEGV on
+    some damaged files) cannot take the caller down: it comes back as :class:`ChildCrashed`.
+    An exception raised by ``fn`` is raised again here (it must pickle; InputError does).
+    With ``seconds`` the child is killed when the time is up and :class:`JointTimeout` is
+    raised: a hard limit that also stops a long call inside C++, unlike :func:`run_with_timeout`.
+    Needs the ``fork`` start method (Linux, macOS); elsewhere ``fn`` runs in this process.
+
+    >>> run_in_child(pow, 2, 10)
+    1024
+    """
+    import multiprocessing
+    import pickle
+
+    if "fork" not in multiprocessing.get_all_start_methods():
+        return fn(*args, **kwargs)
+    ctx = multiprocessing.get_context("fork")
+    receive, send = ctx.Pipe(duplex=False)
+
+    def child() -> None:
+        receive.close()
+        try:
+            payload = (True, fn(*args, **kwargs))
+        except BaseException as exc:        # everything goes back to the parent
+            payload = (False, exc)
+        try:
+            send.send_bytes(pickle.dumps(payload))
+        except Exception as exc:            # an answer that does not pickle
+            send.send_bytes(pickle.dumps((False, RuntimeError(f"child result not picklable: {exc}"))))
+        send.close()
+
+    proc = ctx.Process(target=child, daemon=True)
+    proc.start()
+    send.close()
+    try:
+        ready = receive.poll(seconds if seconds and seconds > 0 else None)
+        if not ready:
+            proc.kill()
+            proc.join()
+            raise JointTimeout(f"time limit of {seconds:g} s reached")
+        try:
+            ok, value = pickle.loads(receive.recv_bytes())
+        except EOFError:                    # the child died before it answered
+            proc.join()
+            code = proc.exitcode
+            signum = -code if code is not None and code < 0 else None
+            name = signal.Signals(signum).name if signum else f"exit status {code}"
+            raise ChildCrashed(f"the child process died ({name})", signum) from None
+    finally:
+        receive.close()
+        if proc.is_alive():
+            proc.join(5)
+    proc.join()
+    if ok:
+        return value
+    raise value

@@ -386,3 +386,39 @@ def test_run_with_timeout_nested_keeps_the_outer_limit():
     left = limits.run_with_timeout(inner, 5.0)
     assert 0.0 < left < 5.0                                          # the outer timer runs on
     assert signal.getitimer(signal.ITIMER_REAL)[0] == 0.0
+
+
+# ----------------------------------------------------------------------------- limits: a child process
+
+def _read_and_transfer(path: str) -> bool:
+    from OCP.STEPCAFControl import STEPCAFControl_Reader
+
+    from geomjoint.geometry.model import _new_doc
+
+    reader = STEPCAFControl_Reader()
+    reader.ReadFile(path)
+    return bool(reader.Transfer(_new_doc()))
+
+
+def test_run_in_child_contains_a_kernel_crash():
+    # the kernel's STEP transfer dies with SIGSEGV on this damaged file (tests/corpus/make_corpus.py)
+    with pytest.raises(limits.ChildCrashed) as err:
+        limits.run_in_child(_read_and_transfer, str(CORPUS / "step" / "point_2d.step"))
+    assert err.value.signal_number == signal.SIGSEGV
+    assert limits.run_in_child(_read_and_transfer, str(CORPUS / "step" / "plate_pair.step")) is True
+
+
+def test_run_in_child_results_errors_and_time_limit():
+    import ctypes
+
+    assert limits.run_in_child(divmod, 17, 5) == (3, 2)
+    with pytest.raises(limits.ChildCrashed, match="SIGSEGV"):
+        limits.run_in_child(ctypes.string_at, 0)                       # a null read: native crash
+    with pytest.raises(InputError, match=r"^f\.step: bad$"):
+        limits.run_in_child(_raise_input_error)
+    with pytest.raises(limits.JointTimeout):
+        limits.run_in_child(time.sleep, 30.0, seconds=0.2)            # the child is killed, not waited for
+
+
+def _raise_input_error():
+    raise InputError("bad", where="f.step")

@@ -44,6 +44,10 @@ NEEDS_CHECK_LIST = ("geometry/model.py _read_step, after ReadFile and before Tra
                     "reader.Reader().WS().ModelCheckList(); if checks.Complies(Interface_CheckStatus.Interface_CheckFail): "
                     "raise InputError(f'damaged STEP file: {first failed check CFail(1)} (entity #{checks.Number()})', "
                     "where=path); and keep OCCT's Message printers off stdout while reading")
+#: the change that contains a crash of the kernel itself (no check before the transfer sees it)
+NEEDS_CHILD = ("geometry/model.py load_model: run one probe read + transfer of the file in "
+               "geomjoint.limits.run_in_child (returning the solid count) and turn limits.ChildCrashed into "
+               "InputError('the CAD kernel crashed reading this file (SIGSEGV): it is damaged', where=path)")
 #: the change that catches solids the reader drops, splits or heals
 NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: compare geomjoint.limits.count_step_solids(path) with the "
                      "distinct solids after transfer (instances share one: TopoDS_Shape.IsPartner); on a "
@@ -158,6 +162,14 @@ def step_cases() -> list[dict]:
         (STEP_DIR / file).write_text(text.replace(old, new, 1))
         case(f"damaged entity ({new.strip()}): the kernel crashes in transfer", file, names=("#|line",),
              subprocess=True, needs=NEEDS_CHECK_LIST)
+
+    # A point with two coordinates in a 3-D model: the check list is silent and the transfer
+    # still dies with a segmentation fault; only a child process can contain that.
+    pts = re.findall(r"CARTESIAN_POINT\('',\(([^)]*)\)\)", text)
+    p3 = f"CARTESIAN_POINT('',({pts[5]}))"
+    (STEP_DIR / "point_2d.step").write_text(text.replace(p3, f"CARTESIAN_POINT('',({','.join(pts[5].split(',')[:2])}))", 1))
+    case("a point with two coordinates: the kernel crashes in transfer", "point_2d.step", names=("damaged|crash",),
+         subprocess=True, needs=NEEDS_CHILD)
 
     # text garbage inside DATA: the kernel's reader skips the bad entity, prints to stdout
     # ("**** ERR StepFile ...", which spoils --json) and carries on as if the file were whole
