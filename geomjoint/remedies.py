@@ -170,12 +170,19 @@ def _size_candidates(spec: JointSpec, hole_limit: float | None) -> Iterator[Cand
 
 
 def candidates(spec: JointSpec, result: JointResult, hole_limit: float | None = None) -> Iterator[Candidate]:
-    """Every candidate change, least disruptive first."""
-    yield from _length_candidates(spec, result)
-    yield from _preload_candidates(spec)
-    yield from _grade_candidates(spec)
-    yield from _washer_candidates(spec)
-    yield from _size_candidates(spec, hole_limit)
+    """Every candidate change, least disruptive first.
+
+    A family that cannot be built for this joint (no standard length, no washer in the
+    catalogue for the size) simply offers nothing: a remedy search never stops a run.
+    """
+    families = (lambda: _length_candidates(spec, result), lambda: _preload_candidates(spec),
+                lambda: _grade_candidates(spec), lambda: _washer_candidates(spec),
+                lambda: _size_candidates(spec, hole_limit))
+    for family in families:
+        try:
+            yield from family()
+        except InputError:
+            continue
 
 
 def find_remedies(spec: JointSpec, result: JointResult, evaluate: Callable[[JointSpec], JointResult],
