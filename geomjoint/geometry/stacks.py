@@ -348,6 +348,13 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         elif g < -GAP_TOL:
             findings.append(Finding("warn", "overlap",
                                     f"{pa} and {pb} overlap by {-g:.3f} mm along the axis"))
+    # two parts filling the same axial range: a part placed twice on top of itself (a copy
+    # left behind in the CAD model); the stack cannot be real
+    for la, lb in zip(layers, layers[1:]):
+        if abs(la.start - lb.start) <= GAP_TOL and abs(la.end - lb.end) <= GAP_TOL:
+            findings.append(Finding("fail", "duplicate",
+                                    f"{la.part} and {lb.part} occupy the same space along the axis "
+                                    f"({la.start:.3f} to {la.end:.3f} mm): a duplicated part?"))
     # --- axis: of the head-side hole (or the bolt)
     head_item = bolts[0] if bolts else layer_items[0]
     p0 = head_item.ref + float(np.dot(origin + s_b * e - head_item.ref, head_item.direction)) * head_item.direction
