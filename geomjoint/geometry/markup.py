@@ -64,6 +64,7 @@ from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
 from OCP.XCAFDoc import XCAFDoc_ColorSurf, XCAFDoc_DocumentTool
 
 from geomjoint.errors import InputError
+from geomjoint.geometry.model import quiet_stdout
 from geomjoint.outputs import MAX_NAME_LENGTH, safe_name
 from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
 
@@ -538,26 +539,6 @@ class _XcafBuilder:
             raise InputError("the marked-up model could not be transferred to STEP", where=str(path))
         if status != IFSelect_RetDone:
             raise InputError("the marked-up STEP file could not be written", where=str(path))
-
-
-@contextlib.contextmanager
-def quiet_stdout():
-    """Silence C++ writes to file descriptor 1 (OCCT prints transfer statistics there).
-
-    ``geomjoint check --json`` promises JSON alone on stdout, so the kernel's chatter
-    must not reach it.
-    """
-    sys.stdout.flush()
-    saved = os.dup(1)
-    try:
-        with open(os.devnull, "wb") as sink:
-            os.dup2(sink.fileno(), 1)
-            try:
-                yield
-            finally:
-                os.dup2(saved, 1)
-    finally:
-        os.close(saved)
 
 
 def _refuse_input(path: Path, analysis) -> None:

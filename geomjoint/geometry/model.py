@@ -9,8 +9,11 @@ An in-memory cadquery Assembly, Workplane or Shape goes through the same path
 """
 from __future__ import annotations
 
+import contextlib
+import math
 import os
 import re
+import sys
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -21,7 +24,7 @@ from OCP.TCollection import TCollection_ExtendedString
 from OCP.TDataStd import TDataStd_Name
 from OCP.TDF import TDF_Label, TDF_LabelSequence
 from OCP.TDocStd import TDocStd_Document
-from OCP.TopAbs import TopAbs_SOLID
+from OCP.TopAbs import TopAbs_FACE, TopAbs_SOLID
 from OCP.TopExp import TopExp_Explorer
 from OCP.TopLoc import TopLoc_Location
 from OCP.TopoDS import TopoDS, TopoDS_Shape
@@ -34,6 +37,7 @@ from OCP.XCAFDoc import (
     XCAFDoc_ShapeTool,
 )
 
+from geomjoint import limits
 from geomjoint.errors import InputError
 
 #: words in a part or colour name that hint at a material (common practice in part naming);
@@ -198,29 +202,31 @@ def _unique_parts(raw) -> list[Part]:
     return parts
 
 
+@contextlib.contextmanager
+def quiet_stdout():
+    """Silence C++ writes to file descriptor 1 (OCCT prints transfer statistics there).
+
+    ``geomjoint check --json`` promises JSON alone on stdout, so the kernel's chatter
+    must not reach it.
+    """
+    sys.stdout.flush()
+    saved = os.dup(1)
+    try:
+        with open(os.devnull, "wb") as sink:
+            os.dup2(sink.fileno(), 1)
+            try:
+                yield
+            finally:
+                os.dup2(saved, 1)
+    finally:
+        os.close(saved)
+
+
 def _new_doc() -> TDocStd_Document:
     doc = TDocStd_Document(TCollection_ExtendedString("XmlOcaf"))
     # the reader scales the file's length unit to the document's unit: ask for mm
     XCAFDoc_DocumentTool.SetLengthUnit_s(doc, 1.0, UnitsMethods_LengthUnit_Millimeter)
     return doc
-
-
-def _check_step_file(path: str) -> None:
-    if not os.path.exists(path):
-        raise InputError("file not found", where=path)
-    if os.path.isdir(path):
-        raise InputError("is a directory, not a STEP file", where=path)
-    size = os.path.getsize(path)
-    if size == 0:
-        raise InputError("empty file, not a STEP model", where=path)
-    with open(path, "rb") as fh:
-        head = fh.read(4096)
-        fh.seek(max(0, size - 4096))
-        tail = fh.read()
-    if b"ISO-10303-21" not in head[:200]:
-        raise InputError("not a STEP file (no ISO-10303-21 header)", where=path)
-    if b"END-ISO-10303-21" not in tail:
-        raise InputError("truncated STEP file (no END-ISO-10303-21 trailer)", where=path)
 
 
 def step_length_unit(path: str) -> str | None:
@@ -238,19 +244,56 @@ def step_length_unit(path: str) -> str | None:
 
 
 def _read_step(path: str) -> list[Part]:
-    _check_step_file(path)
+    limits.check_step_file(path)      # empty, binary, truncated, too big: before the kernel sees it
     reader = STEPCAFControl_Reader()
     reader.SetNameMode(True)
     reader.SetColorMode(True)
     reader.SetLayerMode(False)
-    if reader.ReadFile(path) != IFSelect_RetDone:
-        raise InputError("unreadable STEP file (the reader rejected it)", where=path)
-    doc = _new_doc()
-    if not reader.Transfer(doc):
-        raise InputError("STEP file could not be transferred to shapes", where=path)
+    with quiet_stdout():              # the reader prints its messages on stdout
+        if reader.ReadFile(path) != IFSelect_RetDone:
+            raise InputError("unreadable STEP file (the reader rejected it)", where=path)
+        doc = _new_doc()
+        if not reader.Transfer(doc):
+            raise InputError("STEP file could not be transferred to shapes", where=path)
     col = _Collector(doc)
     col.run()
-    return _unique_parts(col.raw)
+    parts = _unique_parts(col.raw)
+    _check_transfer(path, parts)
+    return parts
+
+
+def _check_transfer(path: str, parts: list[Part]) -> None:
+    """Every solid entity of the file must arrive as one solid: the reader silently drops a
+    solid whose shell is not closed and splits a non-manifold one."""
+    expected = limits.count_step_solids(path)
+    if expected == 0:
+        return  # no solid entities: the caller reports "no solids"
+    # instances of one part share one solid: count distinct shapes, placement removed
+    distinct = len({hash(p.solid.Located(TopLoc_Location())) for p in parts})
+    if distinct != expected:
+        raise InputError(f"the file has {expected} solid entities but the reader made {distinct} solids of them: "
+                         f"a solid whose shell is not closed, or a non-manifold one", where=path)
+
+
+def _check_size(parts: list[Part], where: str) -> None:
+    """Size limits (solids, faces, extent of each part) before any scan work starts."""
+    from OCP.Bnd import Bnd_Box
+    from OCP.BRepBndLib import BRepBndLib
+
+    faces = 0
+    for part in parts:
+        exp = TopExp_Explorer(part.solid, TopAbs_FACE)
+        while exp.More():
+            faces += 1
+            exp.Next()
+    limits.check_model_size(len(parts), faces, where)
+    for part in parts:
+        box = Bnd_Box()
+        BRepBndLib.Add_s(part.solid, box)
+        if box.IsVoid():
+            continue
+        x0, y0, z0, x1, y1, z1 = box.Get()
+        limits.check_part_extent(part.name, math.dist((x0, y0, z0), (x1, y1, z1)), where)
 
 
 def _from_memory(obj: Any) -> list[Part]:
@@ -293,5 +336,6 @@ def load_model(source: Any) -> Model:
         parts = _from_memory(source)
     if not parts:
         raise InputError("the model has no solids", where=where)
+    _check_size(parts, where)
     return Model(source=where, parts=parts, file_unit=unit)
 
