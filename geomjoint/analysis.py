@@ -320,11 +320,46 @@ def _analyse_model_joint(index: int) -> JointResult:
     return _analyse_one(_STATE, index)
 
 
+def timed_out(spec: JointSpec, seconds: float) -> JointResult:
+    """A joint whose analysis ran past its time limit: the closed-form numbers, and a failing
+    check that says it was not analysed (a joint that was not analysed cannot pass)."""
+    from geomjoint.limits import TIMEOUT_NOTE
+
+    fallback = replace(spec, member_stiffness="frustum" if spec.method != "vdi" else "vdi", members_value=None,
+                       compare_stiffness=False)
+    result = _vdi_result(fallback) if fallback.method == "vdi" else engine.evaluate(fallback)
+    result.spec = spec
+    result.checks.append(Check("analysis", None, None, False,
+                               f"{TIMEOUT_NOTE}: {spec.member_stiffness} stiffness took over {seconds:g} s; "
+                               f"the numbers shown are the closed-form ones"))
+    result.notes.append(TIMEOUT_NOTE)
+    result.verdict, result.governing = engine.rate(result.checks)
+    result.ok = False
+    return result
+
+
+def within_time_limit(spec: JointSpec, work: Callable[[], JointResult]) -> JointResult:
+    """Run one joint's analysis under the per-joint wall-clock limit (geomjoint.limits)."""
+    from geomjoint.limits import JointTimeout, current_limits, run_with_timeout
+
+    seconds = current_limits().joint_seconds
+    try:
+        return run_with_timeout(work, seconds)
+    except JointTimeout:
+        return timed_out(spec, seconds)
+
+
 def _analyse_one(state: _ModelState, index: int) -> JointResult:
     mj = state.joints[index]
-    spec, details = _members_from_geometry(state, index)
-    result = evaluate_joint(spec)
-    result.details.update(details)
+
+    def work() -> JointResult:
+        spec, details = _members_from_geometry(state, index)
+        result = evaluate_joint(spec)
+        result.details.update(details)
+        return result
+
+    result = within_time_limit(mj.spec, work)
+    spec = result.spec
     result.findings = list(mj.findings)
     result.checks.append(stackup_check(mj.findings))
     result.verdict, result.governing = engine.rate(result.checks)
@@ -337,8 +372,8 @@ def with_remedies(spec: JointSpec, result: JointResult, hole_limit: float | None
     """Attach computed remedies to a failing or marginal result."""
     from geomjoint.remedies import find_remedies, stackup_remedies
 
-    if result.verdict == "pass":
-        return result
+    if result.verdict == "pass" or any(c.name == "analysis" and not c.ok for c in result.checks):
+        return result  # nothing to mend, or nothing known to mend (not analysed)
     remedies = stackup_remedies(result.findings)
     bolt_failing = [c for c in result.checks if not c.ok and c.name != "stack-up"]
     if bolt_failing or (result.verdict == "marginal" and not remedies):
@@ -381,7 +416,8 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
         scan = scan_model(model)
     if not job.joints and job.model is None and scan is None:
         raise InputError("no [[joint]] and no model: nothing to check", where=job.path.name)
-    results = [with_remedies(spec, evaluate_joint(spec)) for spec in typed_joint_specs(job)]
+    results = [with_remedies(spec, within_time_limit(spec, lambda spec=spec: evaluate_joint(spec)))
+               for spec in typed_joint_specs(job)]
     if job.model is None and scan is None:
         if job.groups:
             raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))

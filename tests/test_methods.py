@@ -66,3 +66,18 @@ def test_comparison_reaches_json_and_html():
     assert doc["stiffness"]["comparison"] == result.details["stiffness_comparison"]
     page = html_report([result], title="t")
     assert "Member stiffness by every method" in page and "axisymmetric finite elements" in page
+
+
+def test_timed_out_joint_fails_with_valid_document(monkeypatch):
+    import jsonschema
+    from conftest import load_schema
+    from geomjoint.limits import TIMEOUT_NOTE
+    from geomjoint.report.json_doc import result_document
+
+    monkeypatch.setenv("GEOMJOINT_JOINT_SECONDS", "0.001")   # the FE model cannot finish in 1 ms
+    result = run("fe")
+    assert not result.ok and result.verdict == "fail" and result.governing == "analysis"
+    assert TIMEOUT_NOTE in next(c.note for c in result.checks if c.name == "analysis")
+    doc = result_document([result], "t")
+    jsonschema.validate(doc, load_schema("result.schema.json"))
+    assert doc["summary"]["failed"] == 1

@@ -252,6 +252,7 @@ def _read_step(path: str) -> list[Part]:
     with quiet_stdout():              # the reader prints its messages on stdout
         if reader.ReadFile(path) != IFSelect_RetDone:
             raise InputError("unreadable STEP file (the reader rejected it)", where=path)
+        _check_entities(reader, path)
         doc = _new_doc()
         if not reader.Transfer(doc):
             raise InputError("STEP file could not be transferred to shapes", where=path)
@@ -260,6 +261,25 @@ def _read_step(path: str) -> list[Part]:
     parts = _unique_parts(col.raw)
     _check_transfer(path, parts)
     return parts
+
+
+def _check_entities(reader: STEPCAFControl_Reader, path: str) -> None:
+    """A syntax error or an entity of the wrong type is a damaged file: name the first one
+    (the reader would otherwise skip it and quietly lose geometry)."""
+    from OCP.Interface import Interface_CheckStatus
+
+    checks = reader.Reader().WS().ModelCheckList()
+    if not checks.Complies(Interface_CheckStatus.Interface_CheckFail):
+        return
+    checks.Start()
+    while checks.More():
+        check = checks.Value()
+        if check.HasFailed():
+            number = checks.Number()
+            where = f"entity #{number}: " if number else ""
+            raise InputError(f"damaged STEP file: {where}{str(check.CFail(1)).strip()}", where=path)
+        checks.Next()
+    raise InputError("damaged STEP file (the reader found failing entities)", where=path)
 
 
 def _check_transfer(path: str, parts: list[Part]) -> None:
