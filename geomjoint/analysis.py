@@ -389,11 +389,11 @@ def _progress(label: str, done: int, total: int, started: float, quiet: bool) ->
     print(f"\r{label}: {done}/{total} joints", end=end, file=sys.stderr, flush=True)
 
 
-def group_shares(job: Job, scanned: list) -> dict[str, tuple[float, float, float]]:
-    """[[group]] resultants shared over the group's joints by the rigid-plate pattern method."""
+def group_shares(job: Job, scanned: list, groups: list[dict] | None = None) -> dict[str, tuple[float, float, float]]:
+    """[[group]] resultants shared over the model joints by the rigid-plate pattern method."""
     from geomjoint.grouping import group_loads
 
-    return group_loads(job, {j.id: (j.point, j.direction) for j in scanned})
+    return group_loads(job, {j.id: (j.point, j.direction) for j in scanned}, groups)
 
 
 @dataclass
@@ -433,7 +433,7 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
                              f"(joints: {', '.join(sorted(ids)[:8])}{'...' if len(ids) > 8 else ''})",
                              where=rule.where)
     model_groups = [g for g in job.groups if "positions" not in g]
-    shares = group_shares(replace(job, groups=model_groups), scan.joints) if model_groups else {}
+    shares = group_shares(job, scan.joints, model_groups) if model_groups else {}
     model_joints = [model_joint(job, j, shares) for j in scan.joints]
     state = _ModelState(model_joints, {})
     if any(mj.spec.member_stiffness in ("cone", "fe") for mj in model_joints):

@@ -85,15 +85,18 @@ def _members(group: dict, known: list[str], where: str) -> list[str]:
     return ids
 
 
-def group_loads(job, axes: dict[str, tuple[Any, Any]]) -> dict[str, tuple[float, float, float]]:
-    """Per joint id: (axial min, axial max, shear) added by the job's [[group]] tables.
+def group_loads(job, axes: dict[str, tuple[Any, Any]], groups: list[dict] | None = None
+                ) -> dict[str, tuple[float, float, float]]:
+    """Per joint id: (axial min, axial max, shear) added by [[group]] tables (all of the job's,
+    or ``groups``, a selection of them).
 
     ``axes`` maps model joint ids to (axis point, axis direction); typed-in joints take
     their positions from the group's ``positions`` list.
     """
     out: dict[str, list[float]] = {}
     typed_ids = [j["id"] for j in job.joints]
-    for gi, group in enumerate(job.groups):
+    for group in (job.groups if groups is None else groups):
+        gi = job.groups.index(group)
         where = f"{job.path.name}: group[{gi}]"
         _keys(group, GROUP_KEYS, where)
         ids = _members(group, list(axes) + typed_ids, where)

@@ -19,6 +19,7 @@ except ModuleNotFoundError:  # pragma: no cover - Python 3.10
 
 from geomjoint import catalog
 from geomjoint.errors import InputError, did_you_mean
+from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
 from geomjoint.mechanics.joint import (
     CRITERIA,
     STIFFNESS_METHODS,
@@ -74,8 +75,6 @@ ABSOLUTE_ZERO_C = -273.15
 #: default required factors for the checks (1.0: the check passes at exactly its limit)
 DEFAULT_REQUIRED = {"yield": 1.0, "load": 1.0, "separation": 1.0, "fatigue": 1.0, "length": 1.0}
 
-#: thread protrusion beyond the nut when the bolt length is chosen: two pitches (common practice)
-PROTRUSION_PITCHES = 2.0
 
 #: preload when the job gives neither preload nor torque: 75 % of the proof load, the usual
 #: figure for reusable joints (Shigley 10th ed., eq. 8-31; common practice)
@@ -553,7 +552,7 @@ def build_spec(
             clamped = grip - layers[-1].thickness
             needed = clamped + min(layers[-1].thickness, thread.d)
         else:
-            needed = grip + geometry.get("gaps", 0.0) + (nut_height or 0.0) + PROTRUSION_PITCHES * thread.pitch
+            needed = grip + geometry.get("gaps", 0.0) + (nut_height or 0.0) + SIZING_PROTRUSION_PITCHES * thread.pitch
         try:
             length = catalog.shortest_length(thread, needed, fastener.spec.head)
         except InputError as exc:
@@ -664,10 +663,6 @@ def typed_joint_specs(job: Job) -> list[JointSpec]:
     from geomjoint.grouping import group_loads
 
     typed_groups = [g for g in job.groups if "positions" in g]
-    shares = group_loads(replace_groups(job, typed_groups), {}) if typed_groups else {}
+    shares = group_loads(job, {}, typed_groups) if typed_groups else {}
     return [joint_spec(job, joint, shares.get(joint["id"])) for joint in job.joints]
 
-
-def replace_groups(job: Job, groups: list[dict[str, Any]]) -> Job:
-    """The same job with only ``groups`` as its [[group]] tables."""
-    return replace(job, groups=groups)

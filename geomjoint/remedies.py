@@ -13,6 +13,7 @@ from typing import Callable, Iterator
 
 from geomjoint import catalog
 from geomjoint.errors import InputError
+from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
 from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec
 
 #: the property-class ladders a remedy climbs (ISO 898-1; SAE J429)
@@ -153,7 +154,7 @@ def _size_candidates(spec: JointSpec, hole_limit: float | None) -> Iterator[Cand
             hole = catalog.clearance_hole(thread, "medium") if hole_limit is None else spec.hole_diameter
             nut = catalog.nut(thread)
             needed = (spec.clamped_thickness + min(spec.layers[-1].thickness, thread.d) if spec.tapped
-                      else spec.grip + nut.height + 2 * thread.pitch)
+                      else spec.grip + spec.gaps + nut.height + SIZING_PROTRUSION_PITCHES * thread.pitch)
             length = catalog.shortest_length(thread, needed, f.head)
         except InputError:
             continue

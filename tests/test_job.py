@@ -109,3 +109,24 @@ def test_sample_job_loads():
     inch = specs[2]
     assert inch.fastener.system == "inch"
     assert inch.layers[0].thickness == pytest.approx(9.525)   # 0.375 in
+
+
+def test_typed_group_shares_a_resultant(tmp_path):
+    """A [[group]] over typed-in joints with their positions: a force through the centroid is
+    shared equally, and a moment adds +/- M*x/sum(x^2) (rigid plate; Shigley 10th ed. §8-12)."""
+    text = BASE.replace('load = { min = "0 kN", max = "10 kN" }', '') + """
+[[joint]]
+id = "A2"
+layers = [ { material = "steel", thickness = "16 mm" }, { material = "steel", thickness = "16 mm" } ]
+
+[[group]]
+joints = ["A1", "A2"]
+positions = [["-50 mm", "0 mm"], ["50 mm", "0 mm"]]
+point = ["0 mm", "0 mm", "0 mm"]
+force = { max = ["0 kN", "0 kN", "8 kN"] }
+moment = { max = ["0 N*m", "-100 N*m", "0 N*m"] }
+"""
+    specs = {s.id: s for s in typed_joint_specs(load_job(write(tmp_path, text)))}
+    # M_y = -100 N*m about the centroid: the bolt at +x pulls 100e3 * 50 / (2 * 50^2) = 1 kN more
+    assert specs["A1"].load_max + specs["A2"].load_max == pytest.approx(8000.0)
+    assert abs(specs["A1"].load_max - specs["A2"].load_max) == pytest.approx(2000.0)

@@ -16,6 +16,7 @@ from geomjoint.geometry.hardware import Bolt, Nut, Washer, recognise, thread_for
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.geometry.stacks import Finding, Joint, find_joints
+from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES
 
 #: every finding code a scan can give, with what it means
 FINDING_CODES = {
@@ -35,11 +36,6 @@ FINDING_CODES = {
     "grip": "info: the grip and the shortest standard bolt length that fits",
 }
 
-#: thread protrusion past the nut: at least this many pitches (common practice: one full
-#: thread beyond the nut, so the chamfered end does not sit in the nut)
-MIN_PROTRUSION_PITCHES = 1.0
-#: protrusion allowed for when sizing a bolt (common practice: two pitches)
-SIZING_PROTRUSION_PITCHES = 2.0
 #: protrusion past the nut beyond which the bolt is reported long, in bolt diameters
 #: (a stated limit of ours; common practice keeps it to a few threads)
 MAX_PROTRUSION_DIAMETERS = 1.0

@@ -26,6 +26,8 @@ INCH_THREAD_LENGTH_RULE = ((6.0 * INCH, 0.25 * INCH), (math.inf, 0.5 * INCH))
 #: thread that must stand past the nut: at least one full pitch, so the chamfered end is not
 #: in the nut (common practice)
 MIN_PROTRUSION_PITCHES = 1.0
+#: protrusion allowed for when a bolt length is chosen: two pitches (common practice)
+SIZING_PROTRUSION_PITCHES = 2.0
 
 
 #: socket head cap screws: metric b = 2d + 12 mm (ISO 4762:2004 b ref, from memory: M8 28, M12 36,
