@@ -108,3 +108,13 @@ def test_module_entry_point_version():
 def test_console_script_help_has_example():
     run = subprocess.run([sys.executable, "-m", "geomjoint", "check", "--help"], capture_output=True, text=True)
     assert run.returncode == 0 and "example:" in run.stdout
+
+
+def test_json_stdout_holds_only_the_document_for_a_model_job(tmp_path):
+    # a real process, so that anything the CAD kernel prints on file descriptor 1 would show
+    run = subprocess.run([sys.executable, "-m", "geomjoint", "check", str(SAMPLES / "conveyor_drive.toml"),
+                          "--json", "--out", str(tmp_path), "--workers", "1"], capture_output=True, text=True)
+    assert run.returncode == 1, run.stderr        # the sample fails joints on purpose
+    doc = json.loads(run.stdout)
+    jsonschema.validate(doc, result_schema())
+    assert doc["summary"]["joints"] == 9
