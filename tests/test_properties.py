@@ -183,3 +183,49 @@ def test_invalid_values_exit_2_naming_the_key(capsys, change):
     lines = err.splitlines()
     assert len(lines) == 1 and "random.toml" in lines[0] and key in lines[0], err
     assert "Traceback" not in out + err
+
+
+# ----------------------------------------------------------------------------- units and fuzz
+
+#: exact unit factors to mm / N (NIST SP 811:2008 Appendix B: 1 in = 25.4 mm, 1 lbf = 4.448 221 615 260 5 N)
+LENGTH_UNITS = {"mm": 1.0, "cm": 10.0, "m": 1000.0, "in": 25.4}
+FORCE_UNITS = {"N": 1.0, "kN": 1000.0, "lbf": 4.4482216152605}
+
+
+@QUICK
+@given(st.floats(1.0, 50.0), st.sampled_from(sorted(LENGTH_UNITS)), st.floats(0.5, 40.0),
+       st.sampled_from(sorted(FORCE_UNITS)))
+def test_quantities_in_any_unit_reach_the_engine_in_mm_and_N(t_mm, length_unit, p_kN, force_unit):
+    t = t_mm / LENGTH_UNITS[length_unit]
+    p = p_kN * 1000.0 / FORCE_UNITS[force_unit]
+    text = BASE.replace('"16 mm" },\n', f'"{t!r} {length_unit}" }},\n', 1).replace('"10 kN"', f'"{p!r} {force_unit}"')
+    (spec,) = typed_joint_specs(parse_job(text))
+    assert spec.layers[0].thickness == pytest.approx(t_mm, rel=1e-12)
+    assert spec.load_max == pytest.approx(p_kN * 1000.0, rel=1e-12)
+
+
+def _exit_of(text: bytes, capsys) -> tuple[int, str]:
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "fuzz.toml"
+        path.write_bytes(text)
+        code = main(["check", str(path), "--out", str(Path(folder) / "out")])
+    return code, capsys.readouterr().err
+
+
+@QUICK
+@given(st.binary(max_size=400) | st.text(max_size=400).map(str.encode))
+def test_any_bytes_as_a_job_file_are_bad_input_never_a_crash(capsys, data):
+    code, err = _exit_of(data, capsys)
+    assert code == 2, err            # random bytes are never a valid job (nothing to check)
+    assert len(err.splitlines()) == 1 and "fuzz.toml" in err and "Traceback" not in err
+
+
+@QUICK
+@given(st.integers(0, len(BASE) - 1), st.integers(1, 12), st.text(max_size=6))
+def test_a_mangled_job_file_is_checked_or_refused_never_a_crash(capsys, at, cut, insert):
+    text = BASE[:at] + insert + BASE[at + cut:]
+    code, err = _exit_of(text.encode(), capsys)
+    assert code in (0, 1, 2), err    # 3 would be a crash passing for a verdict
+    if code == 2:
+        assert len(err.splitlines()) == 1 and "fuzz.toml" in err
+    assert "Traceback" not in err

@@ -36,24 +36,10 @@ D_M10 = 10.0
 HOSTILE_NAMES_STEP = ("../../evil_pl\\X2\\00FC\\X0\\te_steel", "o''brien_" + "x" * 2000 + "_steel")
 HOSTILE_NAMES = ("../../evil_pl\u00fcte_steel", "o'brien_" + "x" * 2000 + "_steel")
 
-#: the change that wires the byte sniff of geomjoint/limits.py into the reader
-NEEDS_SNIFF = ("geometry/model.py _read_step: call geomjoint.limits.check_step_file(path) in place of "
-               "its own _check_step_file(path)")
-#: the change that refuses a file the reader found damaged, before the transfer (which may crash)
-NEEDS_CHECK_LIST = ("geometry/model.py _read_step, after ReadFile and before Transfer: checks = "
-                    "reader.Reader().WS().ModelCheckList(); if checks.Complies(Interface_CheckStatus.Interface_CheckFail): "
-                    "raise InputError(f'damaged STEP file: {first failed check CFail(1)} (entity #{checks.Number()})', "
-                    "where=path); and keep OCCT's Message printers off stdout while reading")
 #: the change that contains a crash of the kernel itself (no check before the transfer sees it)
 NEEDS_CHILD = ("geometry/model.py load_model: run one probe read + transfer of the file in "
                "geomjoint.limits.run_in_child (returning the solid count) and turn limits.ChildCrashed into "
                "InputError('the CAD kernel crashed reading this file (SIGSEGV): it is damaged', where=path)")
-#: the change that catches solids the reader drops, splits or heals
-NEEDS_SOLID_COUNT = ("geometry/model.py _read_step: compare geomjoint.limits.count_step_solids(path) with the "
-                     "distinct solids after transfer (instances share one: TopoDS_Shape.IsPartner); on a "
-                     "difference raise InputError naming "
-                     "the entity or product ('solid #N of P is not closed / non-manifold: the reader dropped or split "
-                     "it'); or run BRepCheck_Analyzer on the transferred solids")
 #: radial clearance of each plate: the bolt passes an offset of twice this (scan rule, DESIGN.md)
 RADIAL_CLEARANCE = (HOLE_M10_MEDIUM - D_M10) / 2
 PLATE = (40.0, 40.0, 10.0)   # invented demo plate, mm
@@ -150,7 +136,7 @@ def step_cases() -> list[dict]:
 
     junk = bytes(rng.randrange(256) for _ in range(2048))
     (STEP_DIR / "junk_in_header.step").write_bytes(b"ISO-10303-21;\nHEADER;\n" + junk + b"\nEND-ISO-10303-21;\n")
-    case("binary junk behind a STEP header", "junk_in_header.step", names=("binary",), needs=NEEDS_SNIFF)
+    case("binary junk behind a STEP header", "junk_in_header.step", names=("binary",))
 
     # One letter lost or one character changed, as a damaged download or a hand edit leaves it: the
     # kernel's transfer dies with a segmentation fault (the whole process, no message, exit -11).
@@ -160,8 +146,7 @@ def step_cases() -> list[dict]:
                            ("lost_semicolon.step", "#66 = VECTOR('',#67,1.);\n#67 = ", "#66 = VECTOR('',#67,) = ")):
         assert old in text, file
         (STEP_DIR / file).write_text(text.replace(old, new, 1))
-        case(f"damaged entity ({new.strip()}): the kernel crashes in transfer", file, names=("#|line",),
-             subprocess=True, needs=NEEDS_CHECK_LIST)
+        case(f"damaged entity ({new.strip()}): the kernel crashes in transfer", file, names=("#|line",), subprocess=True)
 
     # A point with two coordinates in a 3-D model: the check list is silent and the transfer
     # still dies with a segmentation fault; only a child process can contain that.
@@ -176,12 +161,11 @@ def step_cases() -> list[dict]:
     body = text.index("\n", data_at) + 1
     (STEP_DIR / "syntax_in_data.step").write_text(text[:body] + "#1 = CARTESIAN_POINT('',(0.,0.,0.)\n"
                                                   "#2 = @@@ this is not STEP;\n" + text[body:])
-    case("syntax error inside the DATA section (text, not binary)", "syntax_in_data.step", names=("syntax",),
-         needs=NEEDS_CHECK_LIST)
+    case("syntax error inside the DATA section (text, not binary)", "syntax_in_data.step", names=("syntax",))
 
     header = text[:data_at]
     (STEP_DIR / "no_solids.step").write_text(header + "DATA;\nENDSEC;\nEND-ISO-10303-21;\n")
-    case("valid header, empty DATA, no solids", "no_solids.step", names=("no solids",), needs=NEEDS_SNIFF)
+    case("valid header, empty DATA, no solids", "no_solids.step", names=("no solids",))
 
     face = cq.Workplane("XY").rect(30, 20).val()
     face = cq.Face.makeFromWires(face) if not isinstance(face, cq.Face) else face
@@ -202,7 +186,7 @@ def step_cases() -> list[dict]:
     faces = [f.strip() for f in m.group(2).split(",")]
     broken = btext.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1])}))")
     (STEP_DIR / "solid_missing_face.step").write_text(broken)
-    case("solid whose closed shell has a face missing", "solid_missing_face.step", names=("no solids",))
+    case("solid whose closed shell has a face missing", "solid_missing_face.step", names=("solid",))
 
     # The same slip in one part of an assembly: the reader drops that solid without a word, so the
     # joint it belongs to vanishes. An engineer expects to hear which part was lost.
@@ -211,7 +195,7 @@ def step_cases() -> list[dict]:
     lost = text.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1])}))")
     (STEP_DIR / "assembly_part_lost.step").write_text(lost)
     case("assembly with one solid broken (face missing): part silently lost", "assembly_part_lost.step",
-         names=("solid",), needs=NEEDS_SOLID_COUNT)
+         names=("solid",))
 
     # One point of the upper plate moved to 1e300 mm, or to 1e400 (beyond a double), or one face
     # reference left dangling: the reader drops that plate without an error and the joint vanishes.
@@ -220,11 +204,10 @@ def step_cases() -> list[dict]:
     for file, value, what in (("far_point.step", "1.E+300", "a point 1e300 mm away"),
                               ("overflow_point.step", "1.E+400", "a coordinate beyond a double (1e400)")):
         (STEP_DIR / file).write_text(text.replace(far, f"CARTESIAN_POINT('',({value},0.,0.))", 1))
-        case(f"{what}: the plate is dropped", file, names=("solid",), needs=NEEDS_SOLID_COUNT)
+        case(f"{what}: the plate is dropped", file, names=("solid",))
     dangling = text.replace(m.group(0), f"{m.group(1)} = CLOSED_SHELL('',({','.join(faces[:-1] + ['#999999'])}))")
     (STEP_DIR / "dangling_reference.step").write_text(dangling)
-    case("a reference to an entity that is not there (#999999)", "dangling_reference.step", names=("solid",),
-         needs=NEEDS_SOLID_COUNT + "; and keep OCCT's 'Unresolved Reference' print off stdout")
+    case("a reference to an entity that is not there (#999999)", "dangling_reference.step", names=("#999999",))
 
     # Two cubes sharing one edge sewn into one shell and made one solid: the shared edge
     # bounds four faces (non-manifold); OCCT's BRepCheck calls the solid invalid.
@@ -240,20 +223,16 @@ def step_cases() -> list[dict]:
     shell = TopoDS.Shell_s(sewing.SewedShape())
     write_shape(BRepBuilderAPI_MakeSolid(shell).Solid(), STEP_DIR / "non_manifold.step")
     case("non-manifold solid: two cubes sharing an edge in one solid", "non_manifold.step",
-         names=("non-manifold",),
-         needs=NEEDS_SOLID_COUNT)
+         names=("non-manifold",))
 
     unit = text.replace(".MILLI.,.METRE.", ".MILLI.,.FURLONG.", 1)
     assert unit != text
     (STEP_DIR / "unknown_unit.step").write_text(unit)
-    case("unit the reader does not know (.FURLONG.)", "unknown_unit.step", names=("unit", "FURLONG", "#"),
-         needs=NEEDS_SNIFF)
+    case("unit the reader does not know (.FURLONG.)", "unknown_unit.step", names=("unit", "FURLONG", "#"))
 
     (STEP_DIR / "huge_part.step").unlink(missing_ok=True)
     write_step([("rail_steel", plate([], 0.0, size=(1.0e6, 40.0, 10.0)))], STEP_DIR / "huge_part.step")
-    case("a part a million mm long", "huge_part.step", names=("rail_steel", "long"),
-         needs="geometry/model.py load_model: limits.check_part_extent(part.name, bbox diagonal, path) "
-               "for each part")
+    case("a part a million mm long", "huge_part.step", names=("rail_steel", "long"))
 
     # holes that almost line up: the bolt passes an offset of 2 x radial clearance (1.0 mm for M10 in 11 mm)
     inside = 2 * RADIAL_CLEARANCE - 0.05
@@ -281,9 +260,7 @@ def step_cases() -> list[dict]:
     write_step(plate_pair(0.0) + [("upper_plate_steel_copy", plate([(0.0, 0.0)], PLATE[2]))],
                STEP_DIR / "duplicate_instance.step")
     case("duplicate instance on top of itself", "duplicate_instance.step", exit=1, joints=1,
-         finding="duplicate", names=(),
-         needs="geometry/stacks.py build_joint: two layers of one joint whose axial ranges coincide "
-               "(same start/end) -> Finding('fail', 'duplicate', 'P and P#2 occupy the same space')")
+         finding="duplicate")
     # the same part definition placed twice at the same location (two instances, "P" and "P#2")
     upper = cq.Assembly(name="upper")
     upper.add(plate([(0.0, 0.0)], PLATE[2]), name="upper_plate_steel")
@@ -293,7 +270,7 @@ def step_cases() -> list[dict]:
     assy.add(plate([(0.0, 0.0)], 0.0), name="lower_plate_steel")
     write_step(assy, STEP_DIR / "duplicate_placement.step")
     case("one part placed twice at the same location", "duplicate_placement.step", exit=1, joints=1,
-         finding="duplicate", needs=cases[-1]["needs"])
+         finding="duplicate")
     return cases
 
 
@@ -403,10 +380,7 @@ def job_cases() -> list[dict]:
     (JOB_DIR / "long_bolt_fails.toml").write_text(BASE.replace('id = "A1"', 'id = "A1"\nlength = "140 mm"').replace(
         '"16 mm" },\n', '"60 mm" },\n').replace('"16 mm" } ]', '"50 mm" } ]').replace('"10 kN"', '"45 kN"'))
     cases.append({"name": "explicit bolt length beyond the catalogue, joint fails: exit 1 with remedies",
-                  "command": "check", "file": "jobs/long_bolt_fails.toml", "exit": 1, "names": [], "joints": 1,
-                  "needs": "remedies.py find_remedies/_washer_candidates: skip a candidate whose "
-                           "catalog.shortest_length raises InputError (no standard length) instead of "
-                           "letting it abort the run with exit 2 and no file name"})
+                  "command": "check", "file": "jobs/long_bolt_fails.toml", "exit": 1, "names": [], "joints": 1, "needs": ""})
     (JOB_DIR / "not_utf8.toml").write_bytes(BASE.encode() + b"# \xff\xfe latin-1 slip\n")
     cases.append({"name": "job not UTF-8", "command": "check", "file": "jobs/not_utf8.toml", "exit": 2,
                   "names": ["not_utf8.toml", "UTF-8"], "needs": ""})
