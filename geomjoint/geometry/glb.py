@@ -24,11 +24,11 @@ from pathlib import Path
 import numpy as np
 from OCP.BRep import BRep_Tool
 from OCP.BRepMesh import BRepMesh_IncrementalMesh
-from OCP.TopAbs import TopAbs_FACE, TopAbs_REVERSED
-from OCP.TopExp import TopExp_Explorer
+from OCP.TopAbs import TopAbs_REVERSED
 from OCP.TopLoc import TopLoc_Location
-from OCP.TopoDS import TopoDS, TopoDS_Shape
+from OCP.TopoDS import TopoDS_Shape
 
+from geomjoint.geometry import topology
 from geomjoint.geometry.markup import MarkupItem, MarkupScene, markup_scene, srgb_to_linear
 
 #: linear deflection of the tessellation as a fraction of the model's bounding-box diagonal
@@ -57,10 +57,7 @@ def tessellate(shape: TopoDS_Shape, deflection: float,
     verts: list[np.ndarray] = []
     tris: list[np.ndarray] = []
     offset = 0
-    exp = TopExp_Explorer(shape, TopAbs_FACE)
-    while exp.More():
-        face = TopoDS.Face_s(exp.Current())
-        exp.Next()
+    for face in topology.faces(shape):
         loc = TopLoc_Location()
         poly = BRep_Tool.Triangulation_s(face, loc)
         if poly is None:

@@ -25,10 +25,12 @@ from OCP.BRepClass3d import BRepClass3d_SolidClassifier
 from OCP.BRepTools import BRepTools
 from OCP.GeomAbs import GeomAbs_Cone, GeomAbs_Cylinder, GeomAbs_Plane
 from OCP.gp import gp_Pnt, gp_Vec
-from OCP.TopAbs import TopAbs_FACE, TopAbs_IN, TopAbs_REVERSED, TopAbs_VERTEX
+from OCP.TopAbs import TopAbs_IN, TopAbs_REVERSED, TopAbs_VERTEX
 from OCP.TopExp import TopExp_Explorer
 from OCP.TopoDS import TopoDS, TopoDS_Shape
 from OCP.BRep import BRep_Tool
+
+from geomjoint.geometry import topology
 
 #: geometric tolerance for "same axis", "same radius", "touching", mm (well above the
 #: 1e-7 mm kernel tolerance, well below any real feature size)
@@ -147,10 +149,7 @@ def analyse_faces(solid: TopoDS_Shape) -> SolidFaces:
     """Cylinders, cones and planes of a (located) solid, with their side of material."""
     patches: list[SurfacePatch] = []
     planes: list[PlanePatch] = []
-    exp = TopExp_Explorer(solid, TopAbs_FACE)
-    while exp.More():
-        face = TopoDS.Face_s(exp.Current())
-        exp.Next()
+    for face in topology.faces(solid):
         ad = BRepAdaptor_Surface(face)
         kind = ad.GetType()
         if kind not in (GeomAbs_Cylinder, GeomAbs_Cone, GeomAbs_Plane):

@@ -30,10 +30,8 @@ writes it through XCAF and :func:`geomjoint.geometry.glb.write_glb` through trim
 """
 from __future__ import annotations
 
-import contextlib
 import math
 import os
-import sys
 import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -56,14 +54,15 @@ from OCP.TCollection import TCollection_ExtendedString
 from OCP.TDataStd import TDataStd_Name
 from OCP.TDF import TDF_Label
 from OCP.TDocStd import TDocStd_Document
-from OCP.TopAbs import TopAbs_FACE, TopAbs_SOLID
+from OCP.TopAbs import TopAbs_SOLID
 from OCP.TopExp import TopExp_Explorer
 from OCP.TopLoc import TopLoc_Location
-from OCP.TopoDS import TopoDS, TopoDS_Shape
+from OCP.TopoDS import TopoDS_Shape
 from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
 from OCP.XCAFDoc import XCAFDoc_ColorSurf, XCAFDoc_DocumentTool
 
 from geomjoint.errors import InputError
+from geomjoint.geometry import topology
 from geomjoint.geometry.model import quiet_stdout
 from geomjoint.outputs import MAX_NAME_LENGTH, safe_name
 from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
@@ -171,12 +170,7 @@ def _unique(name: str, taken: set[str]) -> str:
 
 
 def _faces(shape: TopoDS_Shape) -> list[TopoDS_Shape]:
-    out = []
-    exp = TopExp_Explorer(shape, TopAbs_FACE)
-    while exp.More():
-        out.append(TopoDS.Face_s(exp.Current()))
-        exp.Next()
-    return out
+    return list(topology.faces(shape))
 
 
 def has_solid(shape: TopoDS_Shape) -> bool:

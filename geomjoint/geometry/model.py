@@ -24,10 +24,8 @@ from OCP.TCollection import TCollection_ExtendedString
 from OCP.TDataStd import TDataStd_Name
 from OCP.TDF import TDF_Label, TDF_LabelSequence
 from OCP.TDocStd import TDocStd_Document
-from OCP.TopAbs import TopAbs_FACE, TopAbs_SOLID
-from OCP.TopExp import TopExp_Explorer
 from OCP.TopLoc import TopLoc_Location
-from OCP.TopoDS import TopoDS, TopoDS_Shape
+from OCP.TopoDS import TopoDS_Shape
 from OCP.UnitsMethods import UnitsMethods_LengthUnit_Millimeter
 from OCP.XCAFDoc import (
     XCAFDoc_ColorGen,
@@ -38,6 +36,7 @@ from OCP.XCAFDoc import (
 )
 
 from geomjoint import limits
+from geomjoint.geometry import topology
 from geomjoint.errors import InputError
 
 #: words in a part or colour name that hint at a material (common practice in part naming);
@@ -130,12 +129,7 @@ def _shape_colour(tool: XCAFDoc_ColorTool, shape: TopoDS_Shape) -> Quantity_Colo
 
 
 def _solids(shape: TopoDS_Shape) -> list[TopoDS_Shape]:
-    out = []
-    exp = TopExp_Explorer(shape, TopAbs_SOLID)
-    while exp.More():
-        out.append(TopoDS.Solid_s(exp.Current()))
-        exp.Next()
-    return out
+    return list(topology.solids(shape))
 
 
 class _Collector:
@@ -300,12 +294,7 @@ def _check_size(parts: list[Part], where: str) -> None:
     from OCP.Bnd import Bnd_Box
     from OCP.BRepBndLib import BRepBndLib
 
-    faces = 0
-    for part in parts:
-        exp = TopExp_Explorer(part.solid, TopAbs_FACE)
-        while exp.More():
-            faces += 1
-            exp.Next()
+    faces = sum(1 for part in parts for _ in topology.faces(part.solid))
     limits.check_model_size(len(parts), faces, where)
     for part in parts:
         box = Bnd_Box()

@@ -43,6 +43,7 @@ from OCP.TopoDS import TopoDS, TopoDS_Shape
 from OCP.gp import gp_Ax3, gp_Dir, gp_Pln, gp_Pnt
 
 from geomjoint.errors import InputError
+from geomjoint.geometry import topology
 
 #: default chord deflection for curved section edges, mm (our choice: area error of a
 #: 13.5 mm hole about 1e-4 relative)
@@ -272,10 +273,7 @@ def face_catalog(solid) -> FaceCatalog:
     """Classify the faces of `solid` by surface type (see :class:`FaceCatalog`)."""
     shape = as_occ_shape(solid)
     kinds, dirs, points, corners = [], [], [], []
-    explorer = TopExp_Explorer(shape, TopAbs_FACE)
-    while explorer.More():
-        face = TopoDS.Face_s(explorer.Current())
-        explorer.Next()
+    for face in topology.faces(shape):
         surf = BRepAdaptor_Surface(face)
         kind = surf.GetType()
         d = (0.0, 0.0, 0.0)

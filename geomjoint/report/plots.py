@@ -27,7 +27,7 @@ from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.patches import Polygon, Rectangle  # noqa: E402
 
 from geomjoint.mechanics.joint import JointResult  # noqa: E402
-from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: E402,F401 (re-exported)
+from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: E402,F401 (re-exported for html.py)
 from geomjoint.units import convert  # noqa: E402
 
 #: figure size of every drawing, inches (small enough for a page with many joints)
