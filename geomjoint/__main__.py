@@ -1,3 +1,3 @@
-from geomjoint.cli import main
+from geomjoint.cli import entry
 
-raise SystemExit(main())
+raise SystemExit(entry())

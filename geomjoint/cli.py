@@ -6,10 +6,12 @@ Exit status (DESIGN.md): 0 every joint passes; 1 a check fails; 2 bad input (one
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 import traceback
 from pathlib import Path
 
+from geomjoint import supervision
 from geomjoint.errors import InputError
 
 EXIT_OK, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
@@ -176,5 +178,60 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_INTERNAL
 
 
+def entry(argv: list[str] | None = None) -> int:
+    """The command as installed (console script, ``python -m geomjoint``): ``main`` in a forked
+    worker, watched by this process.
+
+    Some damaged STEP files make the CAD kernel die with a segmentation fault, which no Python
+    handler can catch.  The supervisor turns such a death into the promised one line: exit 2
+    naming the file when the kernel died reading it, exit 3 otherwise.  Where ``fork`` is
+    missing the command runs directly.
+    """
+    import signal
+
+    if not hasattr(os, "fork"):
+        return main(argv)
+    read_end, write_end = os.pipe()
+    sys.stdout.flush()
+    sys.stderr.flush()
+    pid = os.fork()
+    if pid == 0:  # the worker
+        os.close(read_end)
+        os.environ[supervision.READING_FD_VARIABLE] = str(write_end)
+        code = EXIT_INTERNAL
+        try:
+            code = main(argv)
+        except SystemExit as done:  # argparse: --help, --version, a usage error
+            code = done.code if isinstance(done.code, int) else (EXIT_OK if done.code is None else EXIT_INPUT)
+        finally:
+            sys.stdout.flush()
+            sys.stderr.flush()
+            os._exit(code)
+    os.close(write_end)
+    previous = signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C reaches the worker, which reports it
+    try:
+        chunks = []
+        while True:
+            chunk = os.read(read_end, 4096)
+            if not chunk:
+                break
+            chunks.append(chunk)
+        _, status = os.waitpid(pid, 0)
+    finally:
+        signal.signal(signal.SIGINT, previous)
+        os.close(read_end)
+    if os.WIFEXITED(status):
+        return os.WEXITSTATUS(status)
+    name = signal.Signals(os.WTERMSIG(status)).name
+    path = supervision.file_being_read(b"".join(chunks))
+    if path is not None:
+        print(f"geomjoint: error: {path}: the CAD kernel crashed reading this file ({name}): it is damaged",
+              file=sys.stderr)
+        return EXIT_INPUT
+    print(f"geomjoint: internal error (the process died with {name}); run with --debug for details",
+          file=sys.stderr)
+    return EXIT_INTERNAL
+
+
 if __name__ == "__main__":
-    raise SystemExit(main())
+    raise SystemExit(entry())

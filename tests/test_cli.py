@@ -118,3 +118,24 @@ def test_json_stdout_holds_only_the_document_for_a_model_job(tmp_path):
     doc = json.loads(run.stdout)
     jsonschema.validate(doc, result_schema())
     assert doc["summary"]["joints"] == 9
+
+
+def test_supervisor_reports_a_native_crash(monkeypatch, capfd):
+    """A segmentation fault in native code outside any file read: exit 3 and one line, never 1."""
+    import ctypes
+
+    import geomjoint.cli as cli
+
+    monkeypatch.setattr(cli, "main", lambda argv=None: ctypes.string_at(0))   # a null read: SIGSEGV
+    assert cli.entry(["check", "x.toml"]) == 3
+    err = capfd.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "internal error" in err and "SIGSEGV" in err
+
+
+def test_supervisor_passes_the_exit_code_through(tmp_path, capfd):
+    import geomjoint.cli as cli
+
+    job = tmp_path / "pass.toml"
+    job.write_text(PASSING)
+    assert cli.entry(["check", str(job), "--out", str(tmp_path / "o")]) == 0
+    assert cli.entry(["check", str(tmp_path / "missing.toml")]) == 2

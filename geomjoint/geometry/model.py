@@ -35,7 +35,7 @@ from OCP.XCAFDoc import (
     XCAFDoc_ShapeTool,
 )
 
-from geomjoint import limits
+from geomjoint import limits, supervision
 from geomjoint.geometry import topology
 from geomjoint.errors import InputError
 
@@ -243,6 +243,7 @@ def _read_step(path: str) -> list[Part]:
     reader.SetNameMode(True)
     reader.SetColorMode(True)
     reader.SetLayerMode(False)
+    supervision.announce_reading(path)   # a kernel crash from here on names this file
     with quiet_stdout():              # the reader prints its messages on stdout
         if reader.ReadFile(path) != IFSelect_RetDone:
             raise InputError("unreadable STEP file (the reader rejected it)", where=path)
@@ -253,6 +254,7 @@ def _read_step(path: str) -> list[Part]:
     col = _Collector(doc)
     col.run()
     parts = _unique_parts(col.raw)
+    supervision.announce_read()
     _check_transfer(path, parts)
     return parts
 
