@@ -83,7 +83,7 @@ def fe_stiffness(spec: JointSpec, outer_diameter: float | None = None):
     from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
 
     layers = [FeLayer(layer.thickness, layer.E, layer.poisson)
-              for layer in engine._layers_over(spec, engine.effective_grip_of(spec))]
+              for layer in engine.layers_over(spec, engine.effective_grip_of(spec))]
     return fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
                                None if spec.tapped else spec.far_bearing_diameter,
                                outer_diameter=outer_diameter or spec.outside_diameter, bearing=spec.fe_bearing,

@@ -118,7 +118,7 @@ def bolt_side(spec: JointSpec, grip: float) -> BoltSide:
     return BoltSide(k_b, L_T, shank, l_d, l_t, tuple(notes))
 
 
-def _layers_over(spec: JointSpec, grip: float):
+def layers_over(spec: JointSpec, grip: float):
     """The layers cut at the grip (a tapped part counts up to l' - h)."""
     out, x = [], 0.0
     for layer in spec.layers:
@@ -137,7 +137,7 @@ def member_side(spec: JointSpec, grip: float) -> tuple[float, str, list[str]]:
         if spec.members_value <= 0:
             raise ValueError(f"members_value must be positive, got {spec.members_value}")
         return float(spec.members_value), method, []
-    layers = _layers_over(spec, grip)
+    layers = layers_over(spec, grip)
     notes = []
     if spec.outside_diameter is not None and method == "exponential":
         notes.append("outside diameter not used by the exponential member model (a fit for wide plates)")
