@@ -315,7 +315,10 @@ def run_in_child(fn: Callable[..., T], *args: Any, seconds: float | None = None,
     receive, send = ctx.Pipe(duplex=False)
 
     def child() -> None:
+        import faulthandler
+
         receive.close()
+        faulthandler.disable()              # the parent reports a crash in one line; no dump on stderr
         try:
             payload = (True, fn(*args, **kwargs))
         except BaseException as exc:        # everything goes back to the parent
