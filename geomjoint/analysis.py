@@ -92,12 +92,16 @@ def fe_stiffness(spec: JointSpec, outer_diameter: float | None = None):
 
 def stiffness_comparison(spec: JointSpec, chosen: float) -> dict[str, float]:
     """Member stiffness by every method that applies, N/mm (``compare_stiffness = true``)."""
-    out = {"frustum": engine.member_side(replace(spec, member_stiffness="frustum", members_value=None),
-                                         engine.effective_grip_of(spec))[0],
-           "exponential": engine.member_side(replace(spec, member_stiffness="exponential", members_value=None),
-                                             engine.effective_grip_of(spec))[0],
-           "vdi": vdi_member_stiffness(spec),
-           "fe": fe_stiffness(spec).stiffness}
+    grip = engine.effective_grip_of(spec)
+    methods = {
+        "frustum": lambda: engine.member_side(replace(spec, member_stiffness="frustum", members_value=None), grip)[0],
+        "exponential": lambda: engine.member_side(replace(spec, member_stiffness="exponential", members_value=None),
+                                                  grip)[0],
+        "vdi": lambda: vdi_member_stiffness(spec),
+        "fe": lambda: fe_stiffness(spec).stiffness,
+    }
+    # the chosen method is already computed: not run twice (an FE run costs about a second)
+    out = {name: compute() for name, compute in methods.items() if name != spec.member_stiffness}
     out[spec.member_stiffness] = chosen
     return out
 
@@ -356,6 +360,8 @@ def _analyse_one(state: _ModelState, index: int) -> JointResult:
         spec, details = _members_from_geometry(state, index)
         result = evaluate_joint(spec)
         result.details.update(details)
+        if "cone" in details and "stiffness_comparison" in result.details:
+            result.details["stiffness_comparison"]["cone"] = details["cone"]["stiffness"]
         return result
 
     result = within_time_limit(mj.spec, work)

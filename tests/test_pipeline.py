@@ -219,3 +219,12 @@ def test_inch_job_reports_in_inch_units():
     # grip 5/8 in foot + 1/2 in rail (make_samples.py); preload 75 % of 85 kpsi x 0.1419 in^2
     # (SAE J429 grade 5 proof strength; ASME B1.1 tensile stress area) = 9.05 kip
     assert " 1.125 " in first and " 9.05 " in first
+
+
+def test_compare_stiffness_of_a_model_joint_includes_the_clipped_cone(tmp_path, scan):
+    text = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nmember_stiffness = "fe"\ncompare_stiffness = true')
+    result = by_id(analyze_job(load_job(write_job(tmp_path, text, "cmp.toml")), scan=scan).results)["J01"]
+    table = result.details["stiffness_comparison"]
+    assert set(table) == {"frustum", "exponential", "vdi", "cone", "fe"}
+    assert table["cone"] == pytest.approx(result.details["cone"]["stiffness"])
+    assert table["fe"] == pytest.approx(result.member_stiffness)
