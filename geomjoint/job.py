@@ -20,6 +20,7 @@ except ModuleNotFoundError:  # pragma: no cover - Python 3.10
 from geomjoint import catalog
 from geomjoint.errors import InputError, did_you_mean
 from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
+from geomjoint.mechanics.vdi import FRICTION_RANGE
 from geomjoint.mechanics.joint import (
     CRITERIA,
     STIFFNESS_METHODS,
@@ -50,7 +51,7 @@ JOINT_LOAD_KEYS = {"min", "max", "shear"}
 MINMAX_KEYS = {"min", "max"}
 FRICTION_KEYS = {"thread", "head", "interface"}
 TEMPERATURE_KEYS = {"assembly", "service"}
-REQUIRED_KEYS = {"yield", "load", "separation", "fatigue", "length", "assembly_preload",
+REQUIRED_KEYS = {"yield", "load", "separation", "fatigue", "assembly_preload",
                  "working_stress", "bearing_pressure", "slip", "stripping"}
 INLINE_MATERIAL_KEYS = {"E", "poisson", "yield", "tensile", "limiting_pressure",
                         "thermal_expansion", "name"}
@@ -66,14 +67,9 @@ LAYER_ROLES = ("member", "washer", "tapped")
 REPORT_UNITS = ("SI", "inch")
 FE_BEARINGS = ("rigid", "pressure")
 
-#: range of friction coefficients accepted (VDI 2230-1 Table A5 spans about 0.04-0.5; wider is a typo)
-FRICTION_RANGE = (0.02, 0.6)
 
 #: absolute zero, degC (SI definition of the kelvin: 0 K = -273.15 degC)
 ABSOLUTE_ZERO_C = -273.15
-
-#: default required factors for the checks (1.0: the check passes at exactly its limit)
-DEFAULT_REQUIRED = {"yield": 1.0, "load": 1.0, "separation": 1.0, "fatigue": 1.0, "length": 1.0}
 
 
 #: preload when the job gives neither preload nor torque: 75 % of the proof load, the usual
@@ -431,7 +427,9 @@ def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
 
 
 def _required(s: dict[str, Any], where: str) -> dict[str, float]:
-    required = dict(DEFAULT_REQUIRED)
+    """The required factors the job sets; a check the job does not name keeps its engine's
+    default (1.0 for the textbook checks, VDI 2230-1's recommended margins for the VDI ones)."""
+    required: dict[str, float] = {}
     if "required" in s:
         table = _check_keys(s["required"], REQUIRED_KEYS, f"{where}.required")
         for k, v in table.items():

@@ -100,7 +100,8 @@ REQUIRED_MARGIN = {
     "slip": 1.2,
 }
 
-#: validity ranges checked on input (issue 3: friction 0.02-0.6, scatter >= 1)
+#: friction coefficients accepted on input: VDI 2230-1 Table A5 spans about 0.04-0.5 (from
+#: memory); a value outside 0.02-0.6 is a typo, not a surface (our bound)
 FRICTION_RANGE = (0.02, 0.6)
 
 
