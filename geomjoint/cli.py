@@ -196,6 +196,9 @@ def entry(argv: list[str] | None = None) -> int:
     sys.stderr.flush()
     pid = os.fork()
     if pid == 0:  # the worker
+        import faulthandler
+
+        faulthandler.disable()  # the supervisor reports a crash in one line, not a dump
         os.close(read_end)
         os.environ[supervision.READING_FD_VARIABLE] = str(write_end)
         code = EXIT_INTERNAL

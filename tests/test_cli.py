@@ -6,7 +6,6 @@ import sys
 from pathlib import Path
 
 import jsonschema
-import pytest
 
 from conftest import load_schema
 from geomjoint.cli import main

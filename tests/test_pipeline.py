@@ -1,7 +1,6 @@
 """Whole-model checks: the sample model end to end, typed = model, parallel = serial, group shares."""
 import json
 import textwrap
-from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
@@ -9,9 +8,8 @@ import pytest
 
 from geomjoint.analysis import analyze_job, group_shares
 from geomjoint.cli import main
-from geomjoint.errors import InputError
 from geomjoint.geometry.scan import scan_model
-from geomjoint.job import load_job, typed_joint_specs
+from geomjoint.job import load_job
 from geomjoint.report.json_doc import result_document
 
 SAMPLES = Path(__file__).resolve().parents[1] / "samples"
