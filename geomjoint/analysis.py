@@ -11,7 +11,6 @@ import fnmatch
 import math
 import multiprocessing
 import os
-import sys
 import time
 from dataclasses import dataclass, field, replace
 from typing import Any, Callable
@@ -23,6 +22,8 @@ from geomjoint.errors import InputError
 from geomjoint.job import (
     Job,
     build_spec,
+    check_rules_match,
+    is_excluded,
     joint_load,
     material_for_part,
     material_layer_fields,
@@ -32,6 +33,7 @@ from geomjoint.job import (
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics.joint import Check, JointResult, JointSpec, LayerSpec
 from geomjoint.mechanics.stripping import stripping_check
+from geomjoint.progress import Progress
 from geomjoint.mechanics.vdi import clamp_load_for_slip, vdi_chain, vdi_checks, vdi_member_stiffness
 
 #: textbook checks that the VDI chain replaces when ``method = "vdi"``
@@ -106,6 +108,12 @@ def stiffness_comparison(spec: JointSpec, chosen: float) -> dict[str, float]:
     return out
 
 
+def service_load_check(spec: JointSpec) -> Check:
+    """The job's ``require_loads``: a joint that no load reaches fails (it cannot pass fatigue unseen)."""
+    return Check("service load", None, None, spec.loaded,
+                 "" if spec.loaded else "no [[load]], [[group]] or own load reaches this joint (require_loads = true)")
+
+
 def evaluate_joint(spec: JointSpec) -> JointResult:
     """Run every check the joint's settings call for."""
     fe_details = None
@@ -124,6 +132,8 @@ def evaluate_joint(spec: JointSpec) -> JointResult:
     result.checks.append(stripping_check(spec))
     if spec.shear > 0 and spec.method != "vdi":
         result.checks.append(slip_check(spec, result))
+    if spec.require_load and not spec.loaded:
+        result.checks.append(service_load_check(spec))
     result.verdict, result.governing = engine.rate(result.checks)
     result.ok = result.verdict != "fail"
     return result
@@ -135,9 +145,6 @@ def evaluate_joint(spec: JointSpec) -> JointResult:
 
 #: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
 WASHER_MATERIAL = "steel"
-
-#: a run longer than this (s) shows a progress line on stderr
-PROGRESS_AFTER_SECONDS = 2.0
 
 
 @dataclass
@@ -388,13 +395,6 @@ def with_remedies(spec: JointSpec, result: JointResult, hole_limit: float | None
     return result
 
 
-def _progress(label: str, done: int, total: int, started: float, quiet: bool) -> None:
-    if quiet or time.monotonic() - started < PROGRESS_AFTER_SECONDS:
-        return
-    end = "\n" if done == total else ""
-    print(f"\r{label}: {done}/{total} joints", end=end, file=sys.stderr, flush=True)
-
-
 def group_shares(job: Job, scanned: list, groups: list[dict] | None = None) -> dict[str, tuple[float, float, float]]:
     """[[group]] resultants shared over the model joints by the rigid-plate pattern method."""
     from geomjoint.grouping import group_loads
@@ -407,6 +407,7 @@ class Analysis:
     results: list[JointResult]
     scan: Any = None                 # geometry.scan.ScanResult when the job has a model
     model_joints: list[ModelJoint] = field(default_factory=list)
+    excluded: list[str] = field(default_factory=list)   # joint ids the job's ``exclude`` names
 
 
 def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, model=None) -> Analysis:
@@ -422,25 +423,28 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
         scan = scan_model(model)
     if not job.joints and job.model is None and scan is None:
         raise InputError("no [[joint]] and no model: nothing to check", where=job.path.name)
+    typed_ids = [j["id"] for j in job.joints]
+    typed_parts = [(layer.get("part"), None) for j in job.joints for layer in j.get("layers", [])
+                   if isinstance(layer, dict)]
+    if job.model is None and scan is None:
+        check_rules_match(job, typed_ids, typed_parts)
     results = [with_remedies(spec, within_time_limit(spec, lambda spec=spec: evaluate_joint(spec)))
                for spec in typed_joint_specs(job)]
     if job.model is None and scan is None:
         if job.groups:
             raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))
-        return Analysis(results)
+        return Analysis(results, excluded=[i for i in typed_ids if is_excluded(job, i)])
     if scan is None:
         from geomjoint.geometry.scan import scan_model
 
         scan = scan_model(job.model)
-    ids = {j.id for j in scan.joints} | {s["id"] for s in job.joints}
-    for rule in job.loads:
-        if not any(fnmatch.fnmatchcase(i, rule.joints) for i in ids):
-            raise InputError(f"{rule.joints!r} matches no joint of the model or the job "
-                             f"(joints: {', '.join(sorted(ids)[:8])}{'...' if len(ids) > 8 else ''})",
-                             where=rule.where)
+    check_rules_match(job, [j.id for j in scan.joints] + typed_ids,
+                      typed_parts + [(p.name, p.product) for p in scan.model.parts])
+    excluded = [i for i in typed_ids + [j.id for j in scan.joints] if is_excluded(job, i)]
+    analysed = [j for j in scan.joints if not is_excluded(job, j.id)]
     model_groups = [g for g in job.groups if "positions" not in g]
-    shares = group_shares(job, scan.joints, model_groups) if model_groups else {}
-    model_joints = [model_joint(job, j, shares) for j in scan.joints]
+    shares = group_shares(job, analysed, model_groups) if model_groups else {}
+    model_joints = [model_joint(job, j, shares) for j in analysed]
     state = _ModelState(model_joints, {})
     if any(mj.spec.member_stiffness in ("cone", "fe") for mj in model_joints):
         from geomjoint.geometry.cones import ConeCache
@@ -449,6 +453,7 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
         state.neighbours = cone_neighbours(model_joints)
         state.cone_cache = ConeCache()
     total = len(model_joints)
+    progress = Progress("analysed", total, quiet=quiet, started=started)
     workers = workers or os.cpu_count() or 1
     model_results: list[JointResult] = []
     if workers > 1 and total > 1 and "fork" in multiprocessing.get_all_start_methods():
@@ -460,12 +465,12 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
                                  initializer=_init_worker, initargs=(state,)) as pool:
             for result in pool.map(_analyse_model_joint, range(total), chunksize=max(1, total // (4 * workers))):
                 model_results.append(result)
-                _progress("analysed", len(model_results), total, started, quiet)
+                progress.update(len(model_results))
     else:
         for i in range(total):
             model_results.append(_analyse_one(state, i))
-            _progress("analysed", i + 1, total, started, quiet)
-    return Analysis(results + model_results, scan, model_joints)
+            progress.update(i + 1)
+    return Analysis(results + model_results, scan, model_joints, excluded)
 
 
 def analyze(job: Job, model=None, *, workers: int = 1, quiet: bool = True) -> list[JointResult]:

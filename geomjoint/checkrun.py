@@ -61,8 +61,8 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
     job = load_job(job_path)
     analysis = analyze_job(job, workers=workers, quiet=quiet)
     results = analysis.results
-    document = result_document(results, version)
-    table = result_table(results, job.units)
+    document = result_document(results, version, analysis.excluded)
+    table = result_table(results, job.units, analysis.excluded)
     overview = None
     if analysis.scan is not None and analysis.model_joints:
         from geomjoint.geometry.overview import model_overview

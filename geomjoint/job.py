@@ -20,7 +20,7 @@ except ModuleNotFoundError:  # pragma: no cover - Python 3.10
 from geomjoint import catalog
 from geomjoint.errors import InputError, did_you_mean
 from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
-from geomjoint.mechanics.vdi import FRICTION_RANGE
+from geomjoint.mechanics.vdi import FRICTION_RANGE, ROUGHNESS_BANDS, ROUGHNESS_CLASSES, roughness_class
 from geomjoint.mechanics.joint import (
     CRITERIA,
     STIFFNESS_METHODS,
@@ -43,7 +43,7 @@ JOINT_SETTING_KEYS = {
     "compare_stiffness",
 }
 TOP_KEYS = {"model", "defaults", "materials", "default_material", "joint", "load", "group",
-            "fasteners", "units", "title"}
+            "fasteners", "units", "title", "exclude", "require_loads"}
 JOINT_KEYS = JOINT_SETTING_KEYS | {"id", "layers", "tapped", "load", "engagement", "nut"}
 LAYER_KEYS = {"material", "thickness", "part", "role"}
 LOAD_KEYS = {"joints", "axial", "shear"}
@@ -51,6 +51,7 @@ JOINT_LOAD_KEYS = {"min", "max", "shear"}
 MINMAX_KEYS = {"min", "max"}
 FRICTION_KEYS = {"thread", "head", "interface"}
 TEMPERATURE_KEYS = {"assembly", "service"}
+BEARING_FACE_KEYS = {"head", "nut"}       # bearing_diameter = { head = "...", nut = "..." }
 REQUIRED_KEYS = {"yield", "load", "separation", "fatigue", "assembly_preload",
                  "working_stress", "bearing_pressure", "slip", "stripping"}
 INLINE_MATERIAL_KEYS = {"E", "poisson", "yield", "tensile", "limiting_pressure",
@@ -61,12 +62,33 @@ THREAD_KINDS = ("rolled", "cut")
 HEAD_KINDS = ("hex", "socket")
 ENDURANCE_MODES = ("auto", "table", "marin")
 METHODS = ("textbook", "vdi")
-ROUGHNESS = ("fine", "medium", "coarse")
 SURFACES = ("ground", "machined", "cold-drawn", "hot-rolled", "as-forged")
 LAYER_ROLES = ("member", "washer", "tapped")
 REPORT_UNITS = ("SI", "inch")
 FE_BEARINGS = ("rigid", "pressure")
 
+
+#: where a bearing or hole diameter came from (results.json ``bearing`` / ``hole``)
+SOURCE_JOB, SOURCE_MODEL, SOURCE_CATALOGUE = "job", "model", "catalogue"
+
+#: accepted nut factor K: Shigley 10th ed. Table 8-15 gives K = 0.09-0.30 for steel bolts
+#: (from memory); the wider bounds only catch a slip (a percentage or a friction coefficient
+#: typed where K belongs)
+NUT_FACTOR_RANGE = (0.05, 0.5)
+
+#: highest preload as a fraction of the proof load: 1.2 S_p lies above S_y for every ISO 898-1
+#: class (8.8: 640/580 = 1.10, 10.9: 940/830 = 1.13, 12.9: 1100/970 = 1.13; ISO 898-1:2013
+#: Tables 3 and 5), so a larger figure can only be a typing slip
+MAX_PRELOAD_FRACTION = 1.2
+
+#: accepted pressure-cone half-angle, deg: published cone models lie near 25-45 deg (Shigley
+#: 10th ed. Sec. 8-5: 30 deg; tan phi of VDI 2230-1 about 0.35-0.65); below 1 deg the frustum
+#: formula divides by tan(alpha) -> 0, above 60 deg the cone is flatter than any published one
+CONE_ANGLE_RANGE_DEG = (1.0, 60.0)
+
+#: the note on a joint that no load of the job reaches
+NO_SERVICE_LOAD_NOTE = ("no service load: no [[load]], [[group]] or own load reaches this joint; preload, "
+                        "assembly, stack-up and stripping are checked, separation and fatigue are not")
 
 #: absolute zero, degC (SI definition of the kelvin: 0 K = -273.15 degC)
 ABSOLUTE_ZERO_C = -273.15
@@ -114,6 +136,8 @@ class Job:
     units: str = "SI"
     title: str = ""
     raw: dict[str, Any] = field(default_factory=dict)
+    exclude: tuple[str, ...] = ()        # joint ids / globs not to analyse
+    require_loads: bool = False          # a joint that no load reaches fails (CI: no silent fatigue pass)
 
     def where(self, key: str) -> str:
         return f"{self.path.name}: {key}"
@@ -227,10 +251,19 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
     job = Job(path=path, model=model, defaults=defaults, materials=materials,
               default_material=raw.get("default_material"), joints=joints, loads=loads,
               groups=groups, fastener_rules=fastener_rules, units=units,
-              title=str(raw.get("title", "")), raw=raw)
+              title=str(raw.get("title", "")), raw=raw, exclude=_exclude(raw.get("exclude", []), f"{name}: exclude"),
+              require_loads=_bool(raw.get("require_loads", False), f"{name}: require_loads"))
     # Resolve every typed-in joint now, so all bad input is reported before any work starts.
     typed_joint_specs(job)
     return job
+
+
+def _exclude(value: Any, where: str) -> tuple[str, ...]:
+    """``exclude = "J07"`` or ``["J07", "J1*"]``: joint ids or globs not to analyse."""
+    items = [value] if isinstance(value, str) else value
+    if not isinstance(items, list) or not all(isinstance(x, str) and x.strip() for x in items):
+        raise InputError("expected a joint id or glob, or a list of them, e.g. [\"J07\", \"J1*\"]", where=where)
+    return tuple(items)
 
 
 def _read_load_rule(rule: Any, where: str) -> LoadRule:
@@ -333,11 +366,16 @@ def material_layer_fields(value: Any, where: str) -> dict[str, Any]:
     return fields
 
 
+def part_matches(part: str, pattern: str) -> bool:
+    """A [materials] glob against a part name: case-sensitive, or both lower-cased."""
+    return fnmatch.fnmatchcase(part, pattern) or fnmatch.fnmatchcase(part.lower(), pattern.lower())
+
+
 def material_for_part(job: Job, part: str) -> Any:
     """The material entry whose glob matches ``part`` (the last matching glob wins)."""
     found = None
     for pattern, value in job.materials.items():
-        if fnmatch.fnmatchcase(part, pattern) or fnmatch.fnmatchcase(part.lower(), pattern.lower()):
+        if part_matches(part, pattern):
             found = value
     if found is None:
         found = job.default_material
@@ -347,6 +385,62 @@ def material_for_part(job: Job, part: str) -> Any:
     return found
 
 
+# ----------------------------------------------------------------------------- rules and what they match
+
+def _matches(joint_id: str, pattern: str) -> bool:
+    """A joint-id pattern of the job ([[load]], [[fasteners]], [[group]], exclude): a case-sensitive glob."""
+    return fnmatch.fnmatchcase(joint_id, pattern)
+
+
+def is_excluded(job: Job, joint_id: str) -> bool:
+    """True when the job's ``exclude`` names the joint (by id or glob)."""
+    return any(_matches(joint_id, pattern) for pattern in job.exclude)
+
+
+#: how many names a "matches nothing" line lists when none is near the pattern
+LISTED_NAMES = 8
+
+
+def _matches_nothing(pattern: str, names: list[str], kind: str, where: str) -> InputError:
+    near = did_you_mean(pattern.replace("*", "").replace("?", "") or pattern, names)
+    if not near and names:
+        listed = ", ".join(names[:LISTED_NAMES]) + (", ..." if len(names) > LISTED_NAMES else "")
+        near = f" (the {kind}s are: {listed})"
+    elif not names:
+        near = f" (there is no {kind} to match)"
+    return InputError(f"{pattern!r} matches no {kind}{near}", where=where)
+
+
+def check_rules_match(job: Job, joint_ids: list[str], parts: list[tuple[str, str | None]]) -> None:
+    """Every pattern of the job must match something (a rule that matches nothing is a typo).
+
+    ``joint_ids``: every joint of the job and its model (excluded ones too); ``parts``: (name,
+    product name) of every part of the model.  Raises InputError naming the file, the table
+    and the pattern, with the nearest ids or names.
+    """
+    ids = sorted(set(joint_ids))
+    name = job.path.name
+    for rule in job.loads:
+        if not any(_matches(i, rule.joints) for i in ids):
+            raise _matches_nothing(rule.joints, ids, "joint", f"{rule.where} ([[load]]).joints")
+    for i, rule in enumerate(job.fastener_rules):
+        if not any(_matches(j, rule["joints"]) for j in ids):
+            raise _matches_nothing(rule["joints"], ids, "joint", f"{name}: fasteners[{i}] ([[fasteners]]).joints")
+    for i, group in enumerate(job.groups):
+        selector = group.get("joints")
+        patterns = [selector] if isinstance(selector, str) else selector if isinstance(selector, list) else []
+        for pattern in patterns:
+            if isinstance(pattern, str) and not any(_matches(j, pattern) for j in ids):
+                raise _matches_nothing(pattern, ids, "joint", f"{name}: group[{i}] ([[group]]).joints")
+    for pattern in job.exclude:
+        if not any(_matches(j, pattern) for j in ids):
+            raise _matches_nothing(pattern, ids, "joint", f"{name}: exclude")
+    names = sorted({n for part in parts for n in part if n})
+    for pattern in job.materials:
+        if not any(part_matches(n, pattern) for n in names):
+            raise _matches_nothing(pattern, names, "part", f"{name}: [materials]")
+
+
 # ----------------------------------------------------------------------------- settings
 
 def settings_for(job: Job, joint_id: str, joint: dict[str, Any] | None = None) -> dict[str, Any]:
@@ -354,7 +448,7 @@ def settings_for(job: Job, joint_id: str, joint: dict[str, Any] | None = None) -
     settings = dict(DEFAULT_SETTINGS)
     levels = [("[defaults]", job.defaults)]
     levels += [(f"fasteners[{i}]", {k: v for k, v in rule.items() if k != "joints"})
-               for i, rule in enumerate(job.fastener_rules) if fnmatch.fnmatchcase(joint_id, rule["joints"])]
+               for i, rule in enumerate(job.fastener_rules) if _matches(joint_id, rule["joints"])]
     if joint:
         levels.append((f"joint {joint_id}", {k: v for k, v in joint.items() if k in JOINT_SETTING_KEYS}))
     for level, table in levels:
@@ -374,7 +468,7 @@ def _preload_spec(s: dict[str, Any], where: str, friction: dict[str, float]) -> 
     scatter = _number(s.get("scatter", 1.0), f"{where}.scatter", 1.0, None)
     nut_factor = None
     if "nut_factor" in s:
-        nut_factor = _number(s["nut_factor"], f"{where}.nut_factor", 0.05, 0.5)
+        nut_factor = _number(s["nut_factor"], f"{where}.nut_factor", *NUT_FACTOR_RANGE)
     common = dict(nut_factor=nut_factor, friction_thread=friction.get("thread"),
                   friction_head=friction.get("head"), scatter=scatter)
     if "torque" in s:
@@ -390,8 +484,8 @@ def _preload_spec(s: dict[str, Any], where: str, friction: dict[str, float]) -> 
         return PreloadSpec("none", 0.0, **common)
     if isinstance(value, str) and value.strip().endswith("%"):
         fraction = parse_percent(value, where=key)
-        if not 0 <= fraction <= 1.2:
-            raise InputError(f"{value!r} is outside 0-120 % of the proof load", where=key)
+        if not 0 <= fraction <= MAX_PRELOAD_FRACTION:
+            raise InputError(f"{value!r} is outside 0-{MAX_PRELOAD_FRACTION * 100:g} % of the proof load", where=key)
         return PreloadSpec("proof_fraction" if fraction > 0 else "none", fraction, **common)
     force = _force(value, key)
     if force < 0:
@@ -472,6 +566,79 @@ def fastener_for(s: dict[str, Any], where: str) -> ResolvedFastener:
     return ResolvedFastener(spec, thread, head)
 
 
+def _bearing_faces(value: Any, where: str, tapped: bool) -> tuple[float | None, float | None]:
+    """``bearing_diameter`` → (head face, nut face), mm; None where the job leaves a face alone.
+
+    One value is every bearing face of the joint (head and nut of a through joint, the head of
+    a tapped one); ``{ head = "...", nut = "..." }`` sets each face on its own.
+    """
+    if isinstance(value, dict):
+        table = _check_keys(value, BEARING_FACE_KEYS, where)
+        if not table:
+            raise InputError("give head and/or nut, e.g. { head = \"18 mm\", nut = \"16.6 mm\" }", where=where)
+        if tapped and "nut" in table:
+            raise InputError("a tapped joint has no nut face; give only head", where=f"{where}.nut")
+        head = _length(table["head"], f"{where}.head") if "head" in table else None
+        nut = _length(table["nut"], f"{where}.nut") if "nut" in table else None
+        return head, nut
+    both = _length(value, where)
+    return both, None if tapped else both
+
+
+def _bearing_diameters(s: dict[str, Any], geometry: dict[str, float], layers: list[LayerSpec],
+                       fastener: ResolvedFastener, tapped: bool, where: str
+                       ) -> tuple[float, str, float | None, str | None]:
+    """(head d_w, its source, nut d_w, its source): the job's ``bearing_diameter``, else the
+    modelled hardware, else the catalogue (washer outside diameter when a washer is clamped,
+    else the head's / nut's bearing diameter). The nut face is None for a tapped joint."""
+    thread = fastener.thread
+    washer_outer = catalog.washer(thread).outer
+    head, head_source = geometry.get("bearing_diameter"), SOURCE_MODEL
+    if head is None:
+        head = washer_outer if layers[0].role == "washer" else fastener.head.bearing_diameter
+        head_source = SOURCE_CATALOGUE
+    far: float | None = None
+    far_source: str | None = None
+    if not tapped:
+        far, far_source = geometry.get("far_bearing_diameter"), SOURCE_MODEL
+        if far is None:
+            far = washer_outer if layers[-1].role == "washer" else catalog.nut(thread).bearing_diameter
+            far_source = SOURCE_CATALOGUE
+    if "bearing_diameter" in s:
+        job_head, job_nut = _bearing_faces(s["bearing_diameter"], f"{where}.bearing_diameter", tapped)
+        if job_head is not None:
+            head, head_source = job_head, SOURCE_JOB
+        if job_nut is not None:
+            far, far_source = job_nut, SOURCE_JOB
+    return head, head_source, far, far_source
+
+
+def _roughness(value: Any, where: str) -> str:
+    """``roughness`` → the VDI 2230-1 roughness class of the embedding table.
+
+    A mean roughness depth R_z with its unit ("16 um"), a band name ("Rz<10", "Rz10-40",
+    "Rz40-160"), or the older class names fine | medium | coarse, which are the same bands.
+    """
+    if isinstance(value, str):
+        text = value.strip()
+        if text in ROUGHNESS_CLASSES:
+            return text
+        band = ROUGHNESS_BANDS.get(text.replace(" ", "").replace("um", "").replace("µm", ""))
+        if band:
+            return band
+        if text[:2] in ("Rz", "RZ", "rz"):
+            text = text[2:].strip()
+        if any(ch.isdigit() for ch in text):
+            rz_um = parse_quantity(text, "length", where=where) * 1000.0
+            try:
+                return roughness_class(rz_um)
+            except InputError as exc:
+                raise InputError(str(exc), where=where) from None
+    choices = (*ROUGHNESS_BANDS, *ROUGHNESS_CLASSES)
+    raise InputError(f"{value!r} is not a mean roughness depth R_z such as \"16 um\" nor one of "
+                     f"{', '.join(choices)}{did_you_mean(str(value), choices)}", where=where)
+
+
 def build_spec(
     job: Job,
     joint_id: str,
@@ -485,11 +652,13 @@ def build_spec(
     engagement: float | None = None,
     geometry: dict[str, float] | None = None,
     notes: tuple[str, ...] = (),
+    own_load: bool = False,
 ) -> JointSpec:
     """Everything but the layers and load → JointSpec. Shared by typed-in and model joints.
 
     ``geometry`` may carry numbers the model measured (bearing_diameter, far_bearing_diameter,
-    hole_diameter, length, nut_height); job keys still override them.
+    hole_diameter, length, nut_height); job keys still override them.  ``own_load``: the joint
+    gives its own ``load`` (a typed-in joint), so it has a service load even without a rule.
     """
     s = settings
     geometry = geometry or {}
@@ -507,33 +676,24 @@ def build_spec(
     criterion = s["criterion"]
     criterion = _choice(criterion, CRITERIA, f"{where}.criterion")
     cone_angle = parse_quantity(s["cone_angle"], "angle", where=f"{where}.cone_angle")
-    if not 1.0 <= cone_angle <= 60.0:
-        raise InputError(f"{s['cone_angle']!r} is outside 1-60 deg", where=f"{where}.cone_angle")
+    lo_angle, hi_angle = CONE_ANGLE_RANGE_DEG
+    if not lo_angle <= cone_angle <= hi_angle:
+        raise InputError(f"{s['cone_angle']!r} is outside {lo_angle:g}-{hi_angle:g} deg", where=f"{where}.cone_angle")
 
-    # bearing diameters: washer outside diameter if a washer is clamped, else head / nut d_w
-    head_dw = fastener.head.bearing_diameter
-    washer_dims = catalog.washer(thread)
-    nut_dims = catalog.nut(thread)
-    bearing = geometry.get("bearing_diameter")
-    if bearing is None:
-        bearing = washer_dims.outer if layers[0].role == "washer" else head_dw
-    far = geometry.get("far_bearing_diameter")
-    if tapped:
-        far = None
-    elif far is None:
-        far = washer_dims.outer if layers[-1].role == "washer" else nut_dims.bearing_diameter
-    if "bearing_diameter" in s:
-        bearing = _length(s["bearing_diameter"], f"{where}.bearing_diameter")
+    bearing, bearing_source, far, far_source = _bearing_diameters(s, geometry, layers, fastener, tapped, where)
     fit = _choice(s["hole_fit"], ("fine", "medium", "coarse"), f"{where}.hole_fit")
-    hole = geometry.get("hole_diameter") or catalog.clearance_hole(thread, fit)
+    hole, hole_source = geometry.get("hole_diameter"), SOURCE_MODEL
+    if not hole:
+        hole, hole_source = catalog.clearance_hole(thread, fit), SOURCE_CATALOGUE
     if "hole_diameter" in s:
-        hole = _length(s["hole_diameter"], f"{where}.hole_diameter")
+        hole, hole_source = _length(s["hole_diameter"], f"{where}.hole_diameter"), SOURCE_JOB
     if hole < thread.d and not tapped:
         raise InputError(f"hole diameter {hole:g} mm is smaller than the bolt ({thread.d:g} mm)",
                          where=f"{where}.hole_diameter")
-    if bearing <= hole:
-        raise InputError(f"bearing diameter {bearing:g} mm is not larger than the hole ({hole:g} mm)",
-                         where=f"{where}.bearing_diameter")
+    for face, diameter in (("head", bearing), ("nut", far)):
+        if diameter is not None and diameter <= hole:
+            raise InputError(f"{face} bearing diameter {diameter:g} mm is not larger than the hole ({hole:g} mm)",
+                             where=f"{where}.bearing_diameter")
     outside = None
     if "outside_diameter" in s:
         outside = _length(s["outside_diameter"], f"{where}.outside_diameter")
@@ -541,7 +701,7 @@ def build_spec(
             raise InputError("must be larger than the bearing diameter", where=f"{where}.outside_diameter")
 
     grip = sum(layer.thickness for layer in layers)
-    nut_height = None if tapped else geometry.get("nut_height", nut_dims.height)
+    nut_height = None if tapped else geometry.get("nut_height", catalog.nut(thread).height)
     length = geometry.get("length")
     if "length" in s:
         length = _length(s["length"], f"{where}.length")
@@ -575,20 +735,24 @@ def build_spec(
         friction_interface=friction.get("interface", VdiSpec.friction_interface),
         scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
         clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
-        roughness=_choice(s.get("roughness", "medium"), ROUGHNESS, f"{where}.roughness"),
+        roughness=_roughness(s.get("roughness", "medium"), f"{where}.roughness"),
         load_introduction=_number(s.get("load_introduction", 0.5), f"{where}.load_introduction", 0.0, 1.0),
         temperature_assembly=assembly_t, temperature_service=service_t,
     )
     lo, hi, shear = load
+    loaded = own_load or load_rules_cover(job, joint_id) or any(v > 0 for v in load)
+    if not loaded:
+        notes.append(NO_SERVICE_LOAD_NOTE)
     return JointSpec(
         id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
         bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
+        bearing_source=bearing_source, far_bearing_source=far_source, hole_source=hole_source,
         outside_diameter=outside, method=method, member_stiffness=stiffness,
         fe_bearing=_choice(s.get("fe_bearing", "rigid"), FE_BEARINGS, f"{where}.fe_bearing"),
         compare_stiffness=_bool(s.get("compare_stiffness", False), f"{where}.compare_stiffness"), cone_angle=cone_angle,
         preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
         engagement=engagement, nut_height=nut_height, gaps=geometry.get("gaps", 0.0),
-        required=_required(s, where), notes=tuple(notes),
+        required=_required(s, where), notes=tuple(notes), loaded=loaded, require_load=job.require_loads,
     )
 
 
@@ -617,11 +781,23 @@ def _typed_layers(joint: dict[str, Any], where: str, tapped: bool) -> list[Layer
     return layers
 
 
+def load_rules_cover(job: Job, joint_id: str) -> bool:
+    """True when a [[load]] or [[group]] rule of the job names the joint (by id or glob)."""
+    if any(_matches(joint_id, rule.joints) for rule in job.loads):
+        return True
+    for group in job.groups:
+        selector = group.get("joints")
+        patterns = [selector] if isinstance(selector, str) else selector if isinstance(selector, list) else []
+        if any(isinstance(p, str) and _matches(joint_id, p) for p in patterns):
+            return True
+    return False
+
+
 def joint_load(job: Job, joint_id: str, own: Any, where: str) -> tuple[float, float, float]:
     """(min, max, shear) for a joint: [[load]] rules in order, then the joint's own `load`."""
     lo = hi = shear = 0.0
     for rule in job.loads:
-        if fnmatch.fnmatchcase(joint_id, rule.joints):
+        if _matches(joint_id, rule.joints):
             if rule.axial_max is not None:
                 lo, hi = rule.axial_min, rule.axial_max
             if rule.shear is not None:
@@ -653,7 +829,7 @@ def joint_spec(job: Job, joint: dict[str, Any], extra_load: tuple[float, float, 
     if extra_load:
         lo, hi, shear = lo + extra_load[0], hi + extra_load[1], shear + extra_load[2]
     return build_spec(job, jid, settings, layers, tapped=tapped, load=(lo, hi, shear), where=where,
-                      engagement=engagement)
+                      engagement=engagement, own_load="load" in joint)
 
 
 def typed_joint_specs(job: Job) -> list[JointSpec]:
@@ -662,5 +838,6 @@ def typed_joint_specs(job: Job) -> list[JointSpec]:
 
     typed_groups = [g for g in job.groups if "positions" in g]
     shares = group_loads(job, {}, typed_groups) if typed_groups else {}
-    return [joint_spec(job, joint, shares.get(joint["id"])) for joint in job.joints]
+    return [joint_spec(job, joint, shares.get(joint["id"])) for joint in job.joints
+            if not is_excluded(job, joint["id"])]
 

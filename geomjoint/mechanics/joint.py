@@ -94,7 +94,7 @@ class VdiSpec:
     friction_interface: float = 0.15  # mu_T (slip)
     scatter: float = 1.6            # alpha_A
     clamp_required: float = 0.0     # F_K,req, N
-    roughness: str = "medium"       # "fine" | "medium" | "coarse"
+    roughness: str = "medium"       # class of mechanics.vdi.RZ_BANDS_UM: "fine" | "medium" | "coarse"
     load_introduction: float = 0.5  # n
     utilisation: float = 0.9        # nu
     interfaces_shear: int = 1       # q_F
@@ -131,6 +131,12 @@ class JointSpec:
     gaps: float = 0.0                # open gaps between layers in the model, mm (they lengthen the bolt's path)
     required: dict[str, float] = field(default_factory=dict)  # check name -> required factor
     notes: tuple[str, ...] = ()
+    # where the bearing and hole diameters came from: "job" | "model" | "catalogue"
+    bearing_source: str = "catalogue"
+    far_bearing_source: str | None = None   # None: a tapped joint (no nut face)
+    hole_source: str = "catalogue"
+    loaded: bool = True              # False: no load of the job reaches the joint (no service load)
+    require_load: bool = False       # the job's require_loads: an unloaded joint fails
 
     @property
     def grip(self) -> float:

@@ -66,6 +66,23 @@ EMBEDDING_UM = {
     "coarse": {"tension": (3.0, 4.0, 3.0), "shear": (3.0, 6.5, 3.5)},
 }
 ROUGHNESS_CLASSES = tuple(EMBEDDING_UM)
+#: the mean roughness depth R_z of each class, um: [lower, upper) (the bands of Table 5, as above)
+RZ_BANDS_UM = {"fine": (0.0, 10.0), "medium": (10.0, 40.0), "coarse": (40.0, 160.0)}
+#: the names a job file gives the bands (they say what they are) -> roughness class
+ROUGHNESS_BANDS = {"Rz<10": "fine", "Rz10-40": "medium", "Rz40-160": "coarse"}
+
+
+def roughness_class(rz_um: float) -> str:
+    """The embedding-table class of a mean roughness depth R_z, um (the bands of RZ_BANDS_UM).
+
+    >>> roughness_class(6.3), roughness_class(16), roughness_class(63)
+    ('fine', 'medium', 'coarse')
+    """
+    for name, (lo, hi) in RZ_BANDS_UM.items():
+        if lo <= rz_um < hi:
+            return name
+    top = max(hi for _, hi in RZ_BANDS_UM.values())
+    raise InputError(f"R_z {rz_um:g} um is outside the embedding table of VDI 2230-1 (0 to {top:g} um)")
 
 #: factor of the head-friction term 1.155 mu_G: the thread's flank friction for a 60 deg
 #: thread, mu_G' = mu_G / cos 30deg (VDI 2230-1:2015 Section 5.4.3, from memory)

@@ -36,6 +36,42 @@ FATIGUE_SOURCES = {
     "vdi": "σ_AS/σ_a, VDI 2230-1 (2015) R9",
 }
 
+#: where a bearing or hole diameter of the numbers table came from (JointSpec.*_source)
+DIAMETER_SOURCES = {
+    "job": "set in the job (bearing_diameter / hole_diameter)",
+    "model": "measured on the model (modelled head, nut or washer; the hole)",
+    "catalogue": "catalogue: washer outside diameter where a washer is clamped, else the head's or nut's "
+                 "bearing face (ISO 4032 / ISO 4762 / ASME B18.2); clearance hole ISO 273 / ASME B18.2.8",
+}
+
+#: what each number of the VDI 2230-1 chain is, for a reader (symbols as VDI 2230-1:2015 writes them)
+VDI_LABELS = {
+    "l_K": "l_K, clamp length", "d_W": "d_W, bearing diameter of the cone", "d_h": "d_h, hole diameter",
+    "shank_in_clamp": "unthreaded shank inside the clamp length", "free_thread": "l_Gew, free loaded thread length",
+    "delta_S": "δ_S, bolt resilience", "beta_L": "β_L, length ratio of the deformation cone", "y": "y, diameter ratio",
+    "tan_phi": "tan φ, cone angle of the substitute body", "D_A": "D_A, outside diameter of the clamped parts",
+    "D_A_Gr": "D_A,Gr, limiting outside diameter", "body": "substitute deformation body",
+    "delta_P": "δ_P, resilience of the clamped parts", "bolt_stiffness": "bolt stiffness",
+    "member_stiffness": "stiffness of the clamped parts", "Phi_K": "Φ_K, load factor (load at the head)",
+    "Phi_n": "Φ_n, load factor (load introduced inside)", "f_Z": "f_Z, amount of embedding",
+    "F_Z": "F_Z, preload lost to embedding", "dF_Vth": "ΔF_Vth, preload change with temperature",
+    "F_KQ": "F_KQ, clamp load to carry the shear by friction", "F_K_req": "F_K,req, clamp load required",
+    "F_M_min": "F_M,min, least assembly preload required", "F_M_max": "F_M,max, greatest assembly preload",
+    "F_M_zul": "F_M,zul, permissible assembly preload", "alpha_A": "α_A, tightening factor",
+    "D_Km": "D_Km, friction diameter of the head", "M_A": "M_A, tightening torque",
+    "preload_min": "least preload after tightening", "preload_max": "greatest preload after tightening",
+    "preload": "preload in service", "F_S_max": "F_S,max, greatest bolt force",
+    "M_G": "M_G, thread torque", "sigma_red_B": "σ_red,B, working stress (von Mises)",
+    "S_F": "S_F, safety margin against yield", "sigma_a": "σ_a, alternating stress",
+    "sigma_AS": "σ_AS, endurance limit of the thread",
+    "fatigue_formula": "endurance formula (ASV: rolled before heat treatment, ASG: after)",
+    "S_D": "S_D, safety margin against fatigue", "p_head_assembly": "p, pressure under the head at assembly",
+    "p_head_service": "p, pressure under the head in service", "p_nut_assembly": "p, pressure under the nut at assembly",
+    "p_nut_service": "p, pressure under the nut in service", "p_G_head": "p_G, limiting pressure under the head",
+    "p_G_nut": "p_G, limiting pressure under the nut", "S_P": "S_P, safety margin against surface pressure",
+    "F_KR_min": "F_KR,min, least residual clamp load", "S_G": "S_G, safety margin against slip",
+}
+
 _VERDICTS = ("pass", "marginal", "fail")
 
 
@@ -247,6 +283,7 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
     rows: list[tuple[str, str, str, str]] = [
         ("grip", _fmt(u.len(r.grip), ".4g"), u.length, "sum of the clamped layers (as the scan defines it)"),
         ("effective grip l′", _fmt(u.len(r.effective_grip), ".4g"), u.length, "Shigley 10th ed., Table 8-7"),
+        *_diameter_rows(spec, u),
         ("stress area A_t", _fmt(area, ".4g"), area_unit,
          "ISO 898-1 stress area A_s" if f.system != "inch" else "ASME B1.1 tensile stress area"),
         ("proof strength S_p", _fmt(u.s(f.proof)), u.stress, f"grade {f.grade} (ISO 898-1 / SAE J429)"),
@@ -299,6 +336,20 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
             f"</thead><tbody>{body}</tbody></table>")
 
 
+def _diameter_rows(spec, u: ReportUnits) -> list[tuple[str, str, str, str]]:
+    """The bearing diameter at each face and the hole diameter, with where each came from."""
+    rows = [("bearing diameter, head face", _fmt(u.len(spec.bearing_diameter), ".4g"), u.length,
+             DIAMETER_SOURCES.get(spec.bearing_source, spec.bearing_source))]
+    if not spec.tapped:
+        far = spec.far_bearing_diameter or spec.bearing_diameter
+        source = spec.far_bearing_source or spec.bearing_source
+        rows.append(("bearing diameter, nut face", _fmt(u.len(far), ".4g"), u.length,
+                     DIAMETER_SOURCES.get(source, source)))
+    rows.append(("hole diameter", _fmt(u.len(spec.hole_diameter), ".4g"), u.length,
+                 DIAMETER_SOURCES.get(spec.hole_source, spec.hole_source)))
+    return rows
+
+
 def convert_area(area_mm2: float, u: ReportUnits) -> float:
     """An area, mm² to the report's length unit squared."""
     return area_mm2 * u.len(1.0) ** 2
@@ -328,7 +379,7 @@ def _vdi(r: JointResult, u: ReportUnits) -> str:
             shown = _fmt(value)
         else:
             shown = str(value)
-        rows.append(f'<tr><th scope="row">{_e(key)}</th><td class="num">{_e(shown)}</td></tr>')
+        rows.append(f'<tr><th scope="row">{_e(VDI_LABELS.get(key, key))}</th><td class="num">{_e(shown)}</td></tr>')
     return ('<details class="vdi"><summary><b>VDI 2230-1 (2015) chain</b> (internal units: N, mm, MPa, N·mm)'
             f'</summary><table class="vdi"><tbody>{"".join(rows)}</tbody></table></details>')
 

@@ -16,6 +16,17 @@ def _num(x: float | None) -> float | None:
     return x if math.isfinite(x) else None
 
 
+def bearing_document(spec) -> dict[str, Any]:
+    """The bearing diameters used at each face and the hole diameter, each with its source
+    ("job", "model" or "catalogue"); the nut face is null for a tapped joint."""
+    nut = None
+    if not spec.tapped:
+        nut = {"diameter": spec.far_bearing_diameter or spec.bearing_diameter,
+               "source": spec.far_bearing_source or spec.bearing_source}
+    return {"bearing": {"head": {"diameter": spec.bearing_diameter, "source": spec.bearing_source}, "nut": nut},
+            "hole": {"diameter": spec.hole_diameter, "source": spec.hole_source}}
+
+
 def joint_document(r: JointResult) -> dict[str, Any]:
     f = r.spec.fastener
     doc: dict[str, Any] = {
@@ -27,6 +38,8 @@ def joint_document(r: JointResult) -> dict[str, Any]:
                      "stress_area": f.stress_area, "length": f.length},
         "grip": r.grip,
         "effective_grip": r.effective_grip,
+        **bearing_document(r.spec),
+        "service_load": r.spec.loaded,
         "layers": [{"part": layer.part, "material": layer.material, "thickness": layer.thickness,
                     "role": layer.role} for layer in r.spec.layers],
         "stiffness": {"bolt": r.bolt_stiffness, "members": r.member_stiffness, "C": r.joint_constant,
@@ -52,16 +65,21 @@ def joint_document(r: JointResult) -> dict[str, Any]:
     return doc
 
 
-def result_document(results: list[JointResult], version: str) -> dict[str, Any]:
+def result_document(results: list[JointResult], version: str, excluded: list[str] | None = None) -> dict[str, Any]:
+    """``excluded``: the joint ids the job's ``exclude`` names (not analysed)."""
+    excluded = list(excluded or [])
     return {
         "version": version,
         "units": {"force": "N", "length": "mm", "stress": "MPa"},
         "joints": [joint_document(r) for r in results],
+        "excluded": excluded,
         "summary": {
             "joints": len(results),
             "failed": sum(1 for r in results if not r.ok),
             "marginal": sum(1 for r in results if r.verdict == "marginal"),
             "passed": sum(1 for r in results if r.verdict == "pass"),
+            "unloaded": sum(1 for r in results if not r.spec.loaded),
+            "excluded": len(excluded),
         },
     }
 

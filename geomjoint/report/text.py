@@ -27,7 +27,18 @@ TABLE_UNITS = {"SI": ("grip mm", 1.0, "preload kN", 1e-3),
                "inch": ("grip in", 1 / 25.4, "preload kip", 1 / 4448.2216152605)}  # 1 in = 25.4 mm; 1 kip = 1000 lbf
 
 
-def result_table(results: list[JointResult], units: str = "SI") -> str:
+#: what the factor columns of a joint with no service load say instead of bare dashes
+NO_LOAD = "no load"
+
+
+def _factor_cells(r: JointResult) -> list[str]:
+    """n yield, n load, n sep, n fat; the last three say "no load" when no load reaches the joint."""
+    if not r.spec.loaded:
+        return [_fmt(r.factors.get("yield")), NO_LOAD, NO_LOAD, NO_LOAD]
+    return [_fmt(r.factors.get(k)) for k in ("yield", "load", "separation", "fatigue")]
+
+
+def result_table(results: list[JointResult], units: str = "SI", excluded: list[str] | None = None) -> str:
     grip_label, per_mm, preload_label, per_newton = TABLE_UNITS[units]
     head = ["joint", "fastener", grip_label, "C", preload_label, "n yield", "n load", "n sep", "n fat",
             "verdict", "governing"]
@@ -37,8 +48,8 @@ def result_table(results: list[JointResult], units: str = "SI") -> str:
         size = f.designation + (_length_label(f.length, f.system) if f.length else "")
         rows.append([
             r.id, f"{size} {f.grade}", _fmt(r.grip * per_mm, ".3f" if units == "inch" else ".1f"),
-            _fmt(r.joint_constant, ".3f"), _fmt(r.preload * per_newton, ".2f" if units == "inch" else ".1f"), _fmt(r.factors.get("yield")), _fmt(r.factors.get("load")),
-            _fmt(r.factors.get("separation")), _fmt(r.factors.get("fatigue")), r.verdict.upper(), r.governing,
+            _fmt(r.joint_constant, ".3f"), _fmt(r.preload * per_newton, ".2f" if units == "inch" else ".1f"),
+            *_factor_cells(r), r.verdict.upper(), r.governing,
         ])
     widths = [max(len(str(x)) for x in col) for col in zip(head, *rows)]
     lines = ["  ".join(str(x).ljust(w) for x, w in zip(head, widths)),
@@ -54,6 +65,12 @@ def result_table(results: list[JointResult], units: str = "SI") -> str:
     n_fail = sum(1 for r in results if not r.ok)
     n_marg = sum(1 for r in results if r.verdict == "marginal")
     lines.append("")
-    lines.append(f"{len(results)} joints: {len(results) - n_fail - n_marg} pass, {n_marg} marginal, {n_fail} fail")
+    summary = f"{len(results)} joints: {len(results) - n_fail - n_marg} pass, {n_marg} marginal, {n_fail} fail"
+    n_unloaded = sum(1 for r in results if not r.spec.loaded)
+    if n_unloaded:
+        summary += f"; {n_unloaded} with no service load (separation and fatigue not checked)"
+    if excluded:
+        summary += f"; {len(excluded)} excluded by the job: {', '.join(excluded)}"
+    lines.append(summary)
     lines.append("CAUTION: " + CAUTION)
     return "\n".join(lines) + "\n"
