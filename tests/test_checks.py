@@ -2,11 +2,10 @@
 import doctest
 import math
 
-import jsonschema
 import pytest
 from scipy.optimize import brentq
 
-from conftest import load_schema
+from conftest import validate_result
 from geomjoint.mechanics import checks
 from geomjoint.mechanics.checks import MARGINAL_BAND, evaluate
 from geomjoint.mechanics.joint import Check, FastenerSpec, FatigueSpec, JointSpec, LayerSpec, PreloadSpec
@@ -250,7 +249,7 @@ def test_result_document_matches_schema(criterion):
     results = [evaluate(metric_joint(fatigue=FatigueSpec(criterion=criterion))),
                evaluate(metric_joint(preload=PreloadSpec("none", 0.0))),
                evaluate(metric_joint(load_max=0.0))]
-    jsonschema.validate(result_document(results, "test"), load_schema("result.schema.json"))
+    validate_result(result_document(results, "test"))
 
 
 def test_design_utilisation_checks_do_not_make_a_joint_marginal():

@@ -5,9 +5,8 @@ import subprocess
 import sys
 from pathlib import Path
 
-import jsonschema
 
-from conftest import load_schema
+from conftest import validate_result
 from geomjoint.cli import main
 
 SAMPLES = Path(__file__).resolve().parents[1] / "samples"
@@ -25,10 +24,6 @@ load = { min = "0 kN", max = "5 kN" }
 """
 
 
-def result_schema():
-    return load_schema("result.schema.json")
-
-
 def digest(path: Path) -> str:
     return hashlib.sha256(path.read_bytes()).hexdigest()
 
@@ -40,7 +35,7 @@ def test_check_passing_job_exit_0(tmp_path, capsys):
     code = main(["check", str(job), "--json", "--out", str(tmp_path / "out")])
     out = capsys.readouterr().out
     doc = json.loads(out)                      # stdout holds the JSON document and nothing else
-    jsonschema.validate(doc, result_schema())
+    validate_result(doc)
     assert code == 0, doc
     assert doc["summary"] == {**doc["summary"], "joints": 1, "failed": 0}
     assert json.loads((tmp_path / "out" / "results.json").read_text()) == doc
@@ -90,7 +85,7 @@ def test_internal_error_exit_3(tmp_path, capsys, monkeypatch):
 def test_sample_job_every_criterion_and_system(tmp_path, capsys):
     code = main(["check", str(SAMPLES / "conveyor_drive.toml"), "--json", "--out", str(tmp_path)])
     doc = json.loads(capsys.readouterr().out)
-    jsonschema.validate(doc, result_schema())
+    validate_result(doc)
     assert code in (0, 1)
     typed = {"motor-foot", "bearing-block", "take-up-bracket", "guard-hinge", "gearbox-flange"}
     assert {j["id"] for j in doc["joints"]} == typed | {"J01", "J02", "J03", "J04"}   # 4 joints in the model
@@ -115,7 +110,7 @@ def test_json_stdout_holds_only_the_document_for_a_model_job(tmp_path):
                           "--json", "--out", str(tmp_path), "--workers", "1"], capture_output=True, text=True)
     assert run.returncode == 1, run.stderr        # the sample fails joints on purpose
     doc = json.loads(run.stdout)
-    jsonschema.validate(doc, result_schema())
+    validate_result(doc)
     assert doc["summary"]["joints"] == 9
 
 

@@ -130,3 +130,150 @@ moment = { max = ["0 N*m", "-100 N*m", "0 N*m"] }
     # M_y = -100 N*m about the centroid: the bolt at +x pulls 100e3 * 50 / (2 * 50^2) = 1 kN more
     assert specs["A1"].load_max + specs["A2"].load_max == pytest.approx(8000.0)
     assert abs(specs["A1"].load_max - specs["A2"].load_max) == pytest.approx(2000.0)
+
+
+# ----------------------------------------------------------------------------- bearing faces
+
+SHIGLEY_PAIR = """
+[defaults]
+fastener = "M12"
+grade = "8.8"
+member_stiffness = "frustum"
+{extra}
+
+[[joint]]
+id = "B1"
+layers = [ {{ material = "steel", thickness = "15 mm" }},
+           {{ material = "steel", thickness = "15 mm" }} ]
+load = {{ min = "0 kN", max = "5 kN" }}
+"""
+
+
+def frustum_by_hand(E, t, D, d):
+    """One frustum of a 30 deg cone, Shigley 10th ed. eq. 8-20 written out (D bearing, d hole)."""
+    import math
+
+    return 0.5774 * math.pi * E * d / math.log((1.155 * t + D - d) * (D + d) / ((1.155 * t + D + d) * (D - d)))
+
+
+def analysed(tmp_path, text):
+    from geomjoint.analysis import analyze
+
+    (result,) = analyze(load_job(write(tmp_path, text)))
+    return result
+
+
+def test_one_bearing_diameter_sets_both_faces_shigley(tmp_path):
+    # Shigley 10th ed. eq. 8-20: two 15 mm steel frusta in series, D = 18 mm on both faces,
+    # d = 13.5 mm hole (ISO 273 medium, M12), E = 207 GPa (Shigley Table 8-8)
+    r = analysed(tmp_path, SHIGLEY_PAIR.format(extra='bearing_diameter = "18 mm"'))
+    by_hand = 1.0 / (2.0 / frustum_by_hand(207_000.0, 15.0, 18.0, 13.5))
+    assert by_hand == pytest.approx(2.222e6, rel=5e-4)               # the figure worked by hand in the issue
+    assert r.member_stiffness == pytest.approx(by_hand, rel=1e-3)
+    s = r.spec
+    assert (s.bearing_diameter, s.far_bearing_diameter) == (18.0, 18.0)
+    assert (s.bearing_source, s.far_bearing_source, s.hole_source) == ("job", "job", "catalogue")
+
+
+def test_bearing_diameter_each_face(tmp_path):
+    text = SHIGLEY_PAIR.format(extra='bearing_diameter = { head = "18 mm", nut = "16.6 mm" }')
+    r = analysed(tmp_path, text)
+    # the two frusta in series, each from its own face to mid-grip (Shigley 10th ed. eq. 8-20 per frustum)
+    by_hand = 1.0 / (1.0 / frustum_by_hand(207_000.0, 15.0, 18.0, 13.5) + 1.0 / frustum_by_hand(207_000.0, 15.0, 16.6, 13.5))
+    assert r.member_stiffness == pytest.approx(by_hand, rel=1e-3)
+    assert (r.spec.bearing_diameter, r.spec.far_bearing_diameter) == (18.0, 16.6)
+    # only the head face: the nut face keeps the catalogue nut's bearing face
+    r = analysed(tmp_path, SHIGLEY_PAIR.format(extra='bearing_diameter = { head = "18 mm" }'))
+    from geomjoint import catalog
+
+    assert r.spec.far_bearing_diameter == pytest.approx(catalog.nut(catalog.thread("M12")).bearing_diameter)
+    assert (r.spec.bearing_source, r.spec.far_bearing_source) == ("job", "catalogue")
+
+
+def test_without_bearing_diameter_the_catalogue_faces(tmp_path):
+    from geomjoint import catalog
+
+    thread = catalog.thread("M12")
+    r = analysed(tmp_path, SHIGLEY_PAIR.format(extra=""))
+    assert r.spec.bearing_diameter == pytest.approx(catalog.head(thread, "hex").bearing_diameter)
+    assert r.spec.far_bearing_diameter == pytest.approx(catalog.nut(thread).bearing_diameter)
+    assert (r.spec.bearing_source, r.spec.far_bearing_source) == ("catalogue", "catalogue")
+
+
+def test_bearing_diameter_of_a_tapped_joint_is_the_head_face(tmp_path):
+    text = SHIGLEY_PAIR.format(extra='bearing_diameter = "18 mm"').replace('id = "B1"', 'id = "B1"\ntapped = true')
+    (spec,) = typed_joint_specs(load_job(write(tmp_path, text)))
+    assert spec.bearing_diameter == 18.0 and spec.far_bearing_diameter is None and spec.far_bearing_source is None
+    bad = SHIGLEY_PAIR.format(extra='bearing_diameter = { head = "18 mm", nut = "17 mm" }').replace(
+        'id = "B1"', 'id = "B1"\ntapped = true')
+    with pytest.raises(InputError, match=r"bearing_diameter\.nut: a tapped joint has no nut face"):
+        load_job(write(tmp_path, bad))
+
+
+@pytest.mark.parametrize("value, says", [
+    ('{ head = "18 mm", washer = "20 mm" }', "unknown key 'washer'"),
+    ('"12 mm"', "not larger than the hole"),
+    ('{ nut = "13 mm" }', "nut bearing diameter 13 mm is not larger than the hole"),
+    ('{}', "give head and/or nut"),
+])
+def test_bad_bearing_diameter(tmp_path, value, says):
+    with pytest.raises(InputError, match=says) as err:
+        load_job(write(tmp_path, SHIGLEY_PAIR.format(extra=f"bearing_diameter = {value}")))
+    assert "job.toml" in str(err.value) and "bearing_diameter" in str(err.value)
+
+
+def test_results_json_reports_diameters_and_sources(tmp_path):
+    from conftest import validate_result
+    from geomjoint.report.json_doc import result_document
+
+    r = analysed(tmp_path, SHIGLEY_PAIR.format(extra='bearing_diameter = { head = "18 mm", nut = "16.6 mm" }'))
+    doc = result_document([r], "t")
+    validate_result(doc)
+    joint = doc["joints"][0]
+    assert joint["bearing"] == {"head": {"diameter": 18.0, "source": "job"},
+                                "nut": {"diameter": 16.6, "source": "job"}}
+    assert joint["hole"] == {"diameter": 13.5, "source": "catalogue"}      # ISO 273 medium, M12
+    from geomjoint.report.html import html_report
+
+    page = html_report([r], title="t")
+    assert "bearing diameter, nut face" in page and "16.6" in page
+
+
+SAMPLES = __import__("pathlib").Path(__file__).resolve().parents[1] / "samples"
+
+BRACKET_JOB = """
+model = "{model}"
+{extra}
+[defaults]
+member_stiffness = "frustum"
+[materials]
+"frame_flange*" = "steel"
+"motor_foot*" = "steel"
+"adapter_plate*" = "aluminium"
+[[load]]
+joints = "*"
+axial = {{ max = "2 kN" }}
+"""
+
+
+def model_job(tmp_path, extra="", defaults=""):
+    text = BRACKET_JOB.format(model=SAMPLES / "conveyor_bracket.step", extra=extra)
+    if defaults:
+        text = text.replace("[defaults]\n", "[defaults]\n" + defaults + "\n")
+    return load_job(write(tmp_path, text))
+
+
+def test_model_joint_bearing_key_overrides_modelled_washers(tmp_path):
+    # the conveyor bracket sample: M10 bolts with an ISO 7089 washer under head and nut (d2 = 20 mm)
+    from geomjoint.analysis import analyze_job
+
+    plain = analyze_job(model_job(tmp_path)).results
+    assert plain and all(r.spec.layers[0].role == "washer" and r.spec.layers[-1].role == "washer" for r in plain)
+    assert all((r.spec.bearing_source, r.spec.far_bearing_source) == ("model", "model") for r in plain)
+    assert all(r.spec.bearing_diameter == pytest.approx(20.0, abs=0.05) for r in plain)
+    keyed = analyze_job(model_job(tmp_path, defaults='bearing_diameter = "17 mm"')).results
+    for r in keyed:
+        assert (r.spec.bearing_diameter, r.spec.far_bearing_diameter) == (17.0, 17.0)
+        assert (r.spec.bearing_source, r.spec.far_bearing_source) == ("job", "job")
+    # a narrower face is a softer cone: every joint's k_m drops
+    assert all(k.member_stiffness < p.member_stiffness for k, p in zip(keyed, plain))
