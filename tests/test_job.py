@@ -277,3 +277,207 @@ def test_model_joint_bearing_key_overrides_modelled_washers(tmp_path):
         assert (r.spec.bearing_source, r.spec.far_bearing_source) == ("job", "job")
     # a narrower face is a softer cone: every joint's k_m drops
     assert all(k.member_stiffness < p.member_stiffness for k, p in zip(keyed, plain))
+
+
+# ----------------------------------------------------------------------------- rules that match nothing
+
+@pytest.mark.parametrize("extra, table, pattern, near", [
+    ('[[load]]\njoints = "J1"\naxial = { max = "1 kN" }', "[[load]]", "'J1'", "'J01'"),
+    ('[[fasteners]]\njoints = "J5*"\ngrade = "10.9"', "[[fasteners]]", "'J5*'", "J0"),
+    ('[[group]]\njoints = "K0*"\nforce = { max = ["0 N", "0 N", "1 kN"] }', "[[group]]", "'K0*'", "J0"),
+    ('exclude = ["J05"]', "exclude", "'J05'", "'J04'"),
+])
+def test_model_rule_matching_no_joint_is_exit_2(tmp_path, extra, table, pattern, near):
+    from geomjoint.analysis import analyze_job
+
+    job = model_job(tmp_path, extra=extra if extra.startswith("exclude") else "")
+    if not extra.startswith("exclude"):
+        job = load_job(write(tmp_path, BRACKET_JOB.format(model=SAMPLES / "conveyor_bracket.step", extra="")
+                             + "\n" + extra + "\n"))
+    with pytest.raises(InputError) as err:
+        analyze_job(job)
+    message = str(err.value)
+    assert message.startswith("job.toml: ") and table in message and pattern in message
+    assert "matches no joint" in message and near in message and "\n" not in message
+
+
+def test_materials_pattern_matching_no_part_is_exit_2(tmp_path):
+    from geomjoint.analysis import analyze_job
+
+    job = load_job(write(tmp_path, BRACKET_JOB.format(model=SAMPLES / "conveyor_bracket.step", extra="")
+                         .replace('"adapter_plate*" = "aluminium"', '"adaptor_plate*" = "aluminium"\n'
+                                                                   'default_material = "aluminium"')))
+    with pytest.raises(InputError, match=r"job\.toml: \[materials\]: 'adaptor_plate\*' matches no part "
+                                         r"\(did you mean 'adapter_plate"):
+        analyze_job(job)
+
+
+def test_typed_job_rules_matching_nothing(tmp_path):
+    from geomjoint.analysis import analyze_job
+
+    for extra, table in (('[[load]]\njoints = "A9"\naxial = { max = "1 kN" }', "load[0] ([[load]])"),
+                         ('[[fasteners]]\njoints = "B*"\ngrade = "10.9"', "fasteners[0] ([[fasteners]])"),
+                         ('[materials]\n"plate" = "steel"', "[materials]")):
+        with pytest.raises(InputError, match="matches no") as err:
+            analyze_job(load_job(write(tmp_path, BASE + "\n" + extra + "\n")))
+        assert table in str(err.value), str(err.value)
+    with pytest.raises(InputError, match=r"'A9' matches no joint \(did you mean 'A1'\?\)"):
+        analyze_job(load_job(write(tmp_path, 'exclude = "A9"\n' + BASE)))
+
+
+def test_exclude_joints_by_id_and_glob(tmp_path):
+    from geomjoint.analysis import analyze_job
+    from geomjoint.report.json_doc import result_document
+    from geomjoint.report.text import result_table
+
+    analysis = analyze_job(model_job(tmp_path, extra='exclude = ["J02", "J0[34]"]'))
+    assert [r.id for r in analysis.results] == ["J01"]
+    assert analysis.excluded == ["J02", "J03", "J04"]
+    doc = result_document(analysis.results, "t", analysis.excluded)
+    assert doc["excluded"] == ["J02", "J03", "J04"] and doc["summary"]["excluded"] == 3
+    assert "3 excluded by the job: J02, J03, J04" in result_table(analysis.results, excluded=analysis.excluded)
+    # typed-in joints too; a bad exclude value is one line naming the key
+    text = 'exclude = "A*"\n' + BASE + BASE.split("\n", 3)[3].replace('"A1"', '"B1"')
+    assert [s.id for s in typed_joint_specs(load_job(write(tmp_path, text)))] == ["B1"]
+    with pytest.raises(InputError, match="job.toml: exclude: expected a joint id or glob"):
+        load_job(write(tmp_path, "exclude = [5]\n" + BASE))
+
+
+# ----------------------------------------------------------------------------- unloaded joints
+
+def test_unloaded_model_joints_are_checked_and_reported(tmp_path):
+    from conftest import validate_result
+    from geomjoint.analysis import analyze_job
+    from geomjoint.job import NO_SERVICE_LOAD_NOTE
+    from geomjoint.report.json_doc import result_document
+    from geomjoint.report.text import result_table
+
+    text = BRACKET_JOB.format(model=SAMPLES / "conveyor_bracket.step", extra="").replace('joints = "*"', 'joints = "J01"')
+    results = analyze_job(load_job(write(tmp_path, text))).results
+    unloaded = [r for r in results if not r.spec.loaded]
+    assert [r.id for r in unloaded] == ["J02", "J03", "J04"]
+    for r in unloaded:
+        assert NO_SERVICE_LOAD_NOTE in r.notes
+        assert {c.name for c in r.checks} >= {"stack-up", "stripping"}     # still checked
+    doc = result_document(results, "t")
+    validate_result(doc)
+    assert doc["summary"]["unloaded"] == 3
+    assert [j["service_load"] for j in doc["joints"]] == [True, False, False, False]
+    table = result_table(results)
+    row = next(line for line in table.splitlines() if line.startswith("J03"))
+    assert row.count("no load") == 3 and " - " not in row
+    assert "3 with no service load" in table.splitlines()[-2]
+
+
+def test_require_loads_fails_unloaded_joints(tmp_path):
+    from geomjoint.analysis import analyze
+
+    text = BASE.replace('load = { min = "0 kN", max = "10 kN" }\n', "")
+    (free,) = analyze(load_job(write(tmp_path, text)))
+    assert not free.spec.loaded and free.ok                 # reported, not failed, by default
+    (strict,) = analyze(load_job(write(tmp_path, "require_loads = true\n" + text)))
+    check = next(c for c in strict.checks if c.name == "service load")
+    assert not check.ok and not strict.ok and "require_loads" in check.note
+    (loaded,) = analyze(load_job(write(tmp_path, "require_loads = true\n" + BASE)))
+    assert loaded.spec.loaded and all(c.ok for c in loaded.checks if c.name == "service load")
+    with pytest.raises(InputError, match="require_loads: expected true or false"):
+        load_job(write(tmp_path, 'require_loads = "yes"\n' + BASE))
+
+
+# ----------------------------------------------------------------------------- roughness
+
+@pytest.mark.parametrize("value, cls", [
+    ('"Rz<10"', "fine"), ('"Rz10-40"', "medium"), ('"Rz40-160"', "coarse"),
+    # VDI 2230-1:2015 Table 5 bands (from memory): R_z < 10, 10-40, 40-160 um
+    ('"6.3 um"', "fine"), ('"Rz 16 um"', "medium"), ('"0.063 mm"', "coarse"), ('"10 um"', "medium"),
+    ('"fine"', "fine"), ('"coarse"', "coarse"),     # the older names, the same bands
+])
+def test_roughness_values(tmp_path, value, cls):
+    text = BASE.replace('grade = "8.8"', f'grade = "8.8"\nmethod = "vdi"\nroughness = {value}')
+    (spec,) = typed_joint_specs(load_job(write(tmp_path, text)))
+    assert spec.vdi.roughness == cls
+
+
+@pytest.mark.parametrize("value, says", [('"mirror"', "not a mean roughness depth"),
+                                         ('"200 um"', "outside the embedding table"),
+                                         ('"16 kg"', "roughness")])
+def test_bad_roughness(tmp_path, value, says):
+    text = BASE.replace('grade = "8.8"', f'grade = "8.8"\nroughness = {value}')
+    with pytest.raises(InputError, match=says) as err:
+        load_job(write(tmp_path, text))
+    assert "job.toml" in str(err.value) and "roughness" in str(err.value)
+
+
+# ----------------------------------------------------------------------------- progress
+
+class _Stream:
+    def __init__(self, tty):
+        self.tty, self.text = tty, ""
+
+    def isatty(self):
+        return self.tty
+
+    def write(self, s):
+        self.text += s
+
+    def flush(self):
+        pass
+
+
+def test_progress_whole_lines_in_a_log_in_place_on_a_terminal():
+    from geomjoint.progress import LINE_INTERVAL_SECONDS, PROGRESS_AFTER_SECONDS, Progress
+
+    now = [0.0]
+    log = _Stream(tty=False)
+    p = Progress("analysed", 10, stream=log, clock=lambda: now[0])
+    p.update(1)                                    # a short run shows nothing
+    assert log.text == ""
+    for done in range(2, 11):
+        now[0] = PROGRESS_AFTER_SECONDS + done      # one second per joint
+        p.update(done)
+    lines = log.text.splitlines()
+    assert "\r" not in log.text and log.text.endswith("\n")
+    assert lines[0] == "analysed: 2/10 joints" and lines[-1] == "analysed: 10/10 joints"
+    assert len(lines) <= 2 + 9 / LINE_INTERVAL_SECONDS
+    tty = _Stream(tty=True)
+    now[0] = 0.0
+    p = Progress("analysed", 3, stream=tty, clock=lambda: now[0])
+    for done in (1, 2, 3):
+        now[0] = PROGRESS_AFTER_SECONDS + done
+        p.update(done)
+    assert tty.text == "\ranalysed: 1/3 joints\ranalysed: 2/3 joints\ranalysed: 3/3 joints\n"
+    quiet = _Stream(tty=False)
+    p = Progress("analysed", 3, stream=quiet, quiet=True, clock=lambda: 100.0)
+    p.update(3)
+    assert quiet.text == ""
+
+
+# ----------------------------------------------------------------------------- finding codes, report labels
+
+def test_one_complete_list_of_finding_codes_documented():
+    import re
+    from pathlib import Path
+
+    from geomjoint.findings import FINDING_CODES
+
+    package = Path(__file__).resolve().parents[1] / "geomjoint"
+    emitted = set()
+    for path in package.rglob("*.py"):
+        emitted |= set(re.findall(r'(?:Finding|_finding)\(\s*"(?:fail|warn|info)",\s*"([a-z-]+)"', path.read_text()))
+    assert {"job-model-mismatch", "nut-not-modelled", "gap", "misaligned"} <= emitted
+    assert emitted <= set(FINDING_CODES), emitted - set(FINDING_CODES)
+    readme = (package.parent / "README.md").read_text()
+    missing = [code for code in FINDING_CODES if f"`{code}`" not in readme]
+    assert not missing, missing
+
+
+def test_vdi_table_labels_every_number_for_a_reader():
+    from dataclasses import fields
+
+    from geomjoint.mechanics.vdi import VdiResult
+    from geomjoint.report.html import VDI_LABELS
+
+    shown = [f.name for f in fields(VdiResult) if f.name not in ("bolt", "notes")]
+    assert [name for name in shown if name not in VDI_LABELS] == []
+    for internal in ("shank_in_clamp", "free_thread", "fatigue_formula"):
+        assert VDI_LABELS[internal] != internal and " " in VDI_LABELS[internal]

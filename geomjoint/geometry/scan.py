@@ -2,7 +2,8 @@
 
 ``scan_model(source)`` runs model -> holes -> hardware -> stacks and adds the
 stack-up findings; ``scan_to_json`` gives the scan document of DESIGN.md and
-``scan_table`` a readable table.  The finding codes are stable (FINDING_CODES).
+``scan_table`` a readable table.  The finding codes are stable (FINDING_CODES; with the codes
+the analysis adds, the complete list is geomjoint.findings.FINDING_CODES).
 """
 from __future__ import annotations
 

@@ -1,0 +1,21 @@
+"""Every stable finding code, in one list: the scan's (geometry.scan) and the ones the
+analysis adds when it resolves a model joint against the job.
+
+A finding is ``{"severity": "fail" | "warn" | "info", "code": str, "message": str}`` in the
+scan document and in results.json; scripts may rely on the codes, never on the messages.
+README.md ("Finding codes") lists the same codes; a test keeps the three in step with the
+source.
+"""
+from __future__ import annotations
+
+from geomjoint.geometry.scan import FINDING_CODES as SCAN_FINDING_CODES
+
+#: codes the analysis adds (geomjoint.analysis.model_joint), with what they mean
+JOB_FINDING_CODES = {
+    "job-model-mismatch": "warn: a [[fasteners]] rule sets another size than the modelled bolt (the job's is used); "
+                          "info: [defaults] names another size than the modelled bolt (the model's is used)",
+    "nut-not-modelled": "info: a through joint with a modelled bolt has no modelled nut: a catalogue hex nut is assumed",
+}
+
+#: every finding code a scan or a check can give
+FINDING_CODES = {**SCAN_FINDING_CODES, **JOB_FINDING_CODES}
