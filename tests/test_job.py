@@ -367,6 +367,10 @@ def test_unloaded_model_joints_are_checked_and_reported(tmp_path):
     row = next(line for line in table.splitlines() if line.startswith("J03"))
     assert row.count("no load") == 3 and " - " not in row
     assert "3 with no service load" in table.splitlines()[-2]
+    from geomjoint.report.html import html_report
+
+    page = html_report(results, title="t")
+    assert page.count(">no load</td>") == 9                          # three factor cells of three joints
 
 
 def test_require_loads_fails_unloaded_joints(tmp_path):

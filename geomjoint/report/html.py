@@ -232,6 +232,9 @@ def _joints_table(results: list[JointResult], u: ReportUnits) -> str:
         ]
         for key in ("yield", "load", "separation", "fatigue"):
             v = r.factors.get(key)
+            if key != "yield" and not r.spec.loaded:   # no service load: say so, not "unbounded"
+                cells.append('<td class="num" data-value="">no load</td>')
+                continue
             cells.append(num(v, v, ".2f" if v is not None and math.isfinite(v) else None))
         order = _VERDICTS.index(r.verdict) if r.verdict in _VERDICTS else len(_VERDICTS)
         cells.append(f'<td data-value="{order}">{_badge(r.verdict)}</td>')
