@@ -498,5 +498,5 @@ def test_tables_are_read_once_and_read_only():
 
 @pytest.mark.parametrize("module", [threads, grades, hardware, materials, tables, cat])
 def test_docstring_examples(module):
-    result = doctest.testmod(module, extraglobs={"thread": cat.thread}, optionflags=doctest.ELLIPSIS)
+    result = doctest.testmod(module, optionflags=doctest.ELLIPSIS)
     assert result.failed == 0

@@ -60,6 +60,7 @@ def head(t: Thread, kind: str = "hex") -> HeadDims:
     "socket" (ISO 4762; ASME B18.3).  width is s (hex) or d_k (socket), height k, bearing
     diameter d_w (min).  For inch hex heads d_w is taken equal to F (common practice).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> head(thread("M12")).width
     18.0
     """
@@ -82,6 +83,7 @@ def head(t: Thread, kind: str = "hex") -> HeadDims:
 def nut(t: Thread) -> NutDims:
     """Hex nut for thread `t`: ISO 4032 (s, m max, d_w min) or ASME B18.2.2 (F, H; d_w = F).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> nut(thread("M12")).height
     10.8
     """
@@ -95,6 +97,7 @@ def washer(t: Thread, kind: str = "standard") -> WasherDims:
 
     kind: "standard" (ISO 7089; inch: SAE = narrow), "sae"/"narrow", "uss"/"wide" (inch only).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> washer(thread("M12")).outer
     24.0
     """
@@ -120,6 +123,7 @@ def clearance_hole(t: Thread, fit: str = "medium") -> float:
     fit: ISO 273 "fine" | "medium" | "coarse"; the inch names of ASME B18.2.8
     "close" | "normal" | "loose" are the same three columns.
 
+    >>> from geomjoint.catalog.threads import thread
     >>> clearance_hole(thread("M12"))
     13.5
     """
@@ -175,6 +179,7 @@ def thread_length(t: Thread, length: float, kind: str = "hex") -> float:
     A bolt shorter than the rule's L_T is threaded to the head: L_T = min(rule, L).
     Sources: ISO 4014:2011 b ref; ASME B18.2.1; Budynas & Nisbett eqs. (8-13), (8-14).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> thread_length(thread("M12"), 50.0)
     30.0
     """
@@ -199,6 +204,7 @@ def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:
     commercial range of the size.  Inch: 1/4 in steps up to 6 in, 1/2 in above, within
     the stock range of the size (common practice).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> standard_lengths(thread("M12"))[:4]
     [25.0, 30.0, 35.0, 40.0]
     """
@@ -221,6 +227,7 @@ def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:
 def shortest_length(t: Thread, needed: float, kind: str = "hex") -> float:
     """Smallest standard length [mm] >= `needed` [mm]; InputError if the size has none that long.
 
+    >>> from geomjoint.catalog.threads import thread
     >>> shortest_length(thread("M12"), 41.0)
     45.0
     """
