@@ -12,6 +12,15 @@ import re
 
 from geomjoint.errors import InputError
 
+#: one inch in millimetres, exact by definition (international inch, 1959).  The one home of
+#: the number: catalog/, mechanics/ and report/ import it from here (this module imports
+#: nothing of geomjoint but errors, so the ground floor may use it)
+MM_PER_INCH = 25.4
+
+#: kpsi to MPa: 1 lbf/in^2 = 4.4482216152605 N / 645.16 mm^2 = 6.894757 kPa (exact definitions
+#: of the pound-force and the inch)
+MPA_PER_KPSI = 6.894757293168361
+
 #: internal unit of each kind of quantity
 INTERNAL = {
     "length": "mm",

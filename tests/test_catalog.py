@@ -370,6 +370,11 @@ def test_thread_length_rule():
     assert cat.thread_length(u, 8 * IN) == pytest.approx(1.5 * IN)
     with pytest.raises(InputError):
         cat.thread_length(t, -5)
+    # socket head cap screws: ISO 4762:2004 b ref M8 28, M12 36, M16 44 mm (from memory)
+    for size, b in (("M8", 28.0), ("M12", 36.0), ("M16", 44.0)):
+        assert cat.thread_length(cat.thread(size), 100.0, "socket") == pytest.approx(b)
+    # every rule row of the data file names its source
+    assert all(r["source"] for r in tables.load_table("thread_length_rules"))
 
 
 def test_standard_lengths():

@@ -20,14 +20,9 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from geomjoint.errors import InputError, did_you_mean
+from geomjoint.units import MM_PER_INCH, MPA_PER_KPSI
 
 _DATA = Path(__file__).with_name("data")
-
-#: MPa per kpsi (1 lbf/in^2 = 6.894757 kPa, exact to the digits shown)
-MPA_PER_KPSI = 6.894757
-
-#: mm per inch (exact)
-MM_PER_INCH = 25.4
 
 #: a size counts as inside a table range within this tolerance, mm (inch sizes converted)
 SIZE_TOLERANCE = 0.01

@@ -14,7 +14,7 @@ from geomjoint.catalog.types import Grade
 from geomjoint.errors import InputError, did_you_mean
 
 #: a size on a row boundary belongs to the row listed first (the smaller sizes); this
-#: tolerance keeps inch sizes converted to mm (e.g. 1 in = 25.4 mm) on their own boundary
+#: tolerance keeps inch sizes converted to mm (1 in = MM_PER_INCH mm) on their own boundary
 _SIZE_TOL_MM = 1e-6
 
 

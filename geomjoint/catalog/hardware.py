@@ -16,7 +16,6 @@ from geomjoint.catalog.tables import MM_PER_INCH, load_table, number, to_mm
 from geomjoint.catalog.threads import size_label, tap_drill, thread_sizes
 from geomjoint.catalog.types import HeadDims, NutDims, Thread, WasherDims
 from geomjoint.errors import InputError
-from geomjoint.mechanics.bolt import thread_length_rule
 
 # --- inch length series (common practice, as stocked) ---
 #: 1/4 in steps up to 6 in
@@ -171,13 +170,63 @@ def nominal_from_hole(diameter: float, system: str | None = None, tol: float = 0
     return [(t, label) for *_, t, label in found]
 
 
-def thread_length(t: Thread, length: float, kind: str = "hex") -> float:
-    """Thread length L_T of a bolt of nominal length `length` [mm] by the standard rule, mm.
+@functools.lru_cache(maxsize=None)
+def _thread_length_rows(system: str, head: str) -> tuple[tuple[float, float], ...]:
+    """(upper limit of L, extra c) in mm of the rule L_T = 2d + c, ascending; the last has no limit."""
+    rows = []
+    for r in load_table("thread_length_rules"):
+        if r["system"] == system and r["head"] == head:
+            limit = number(r, "l_max")
+            rows.append((math.inf if limit is None else to_mm(limit, r["unit"]), to_mm(number(r, "extra"), r["unit"])))
+    rows.sort()
+    if not rows or rows[-1][0] != math.inf:
+        raise InputError(f"catalog data thread_length_rules.csv: no open-ended {system} {head} row")
+    return tuple(rows)
 
-    metric: L_T = 2d + 6 (L <= 125), 2d + 12 (125 < L <= 200), 2d + 25 (L > 200);
-    inch:   L_T = 2D + 1/4 in (L <= 6 in), 2D + 1/2 in (L > 6 in).
-    A bolt shorter than the rule's L_T is threaded to the head: L_T = min(rule, L).
-    Sources: ISO 4014:2011 b ref; ASME B18.2.1; Budynas & Nisbett eqs. (8-13), (8-14).
+
+def thread_length_rule(d: float, length: float, system: str, head: str = "hex") -> float:
+    """Standard thread length L_T = 2d + c of a bolt of diameter ``d`` and length ``length``, mm.
+
+    Hex bolts: metric (ISO 4014 b ref) c = 6 mm (L <= 125), 12 mm (125 < L <= 200),
+    25 mm (L > 200); inch (ASME B18.2.1) c = 1/4 in (L <= 6 in), 1/2 in (L > 6 in).
+    Socket head cap screws: c = 12 mm (ISO 4762 b ref), 1/2 in (ASME B18.3).  The rows and
+    their sources are in ``data/thread_length_rules.csv`` (Budynas & Nisbett, *Shigley's
+    MED* 10th ed., eqs. 8-13 and 8-14, give the hex rules).  The result can exceed L for
+    short bolts: such a bolt is threaded to the head (see `thread_length`).
+
+    Parameters
+    ----------
+    d : float
+        Nominal diameter, mm.
+    length : float
+        Bolt length under the head, mm.
+    system : str
+        "metric" or "inch".
+    head : str
+        "hex" or "socket" (the names of `_kind_key` are accepted).
+
+    >>> thread_length_rule(12.0, 50.0, "metric")
+    30.0
+    >>> round(thread_length_rule(12.7, 50.8, "inch") / MM_PER_INCH, 4)   # 1/2 in x 2 in
+    1.25
+    >>> thread_length_rule(8.0, 35.0, "metric", "socket")
+    28.0
+    """
+    if d <= 0 or length <= 0:
+        raise InputError(f"diameter and length must be positive, got d={d}, L={length}")
+    if system not in ("metric", "inch"):
+        raise InputError(f"unknown thread system {system!r} (metric or inch)")
+    for limit, extra in _thread_length_rows(system, _kind_key(head)):
+        if length <= limit:
+            return 2.0 * d + extra
+    raise AssertionError("unreachable: the last rule row has no limit")
+
+
+def thread_length(t: Thread, length: float, kind: str = "hex") -> float:
+    """Thread length L_T of a bolt of thread `t` and nominal length `length` [mm], mm.
+
+    The standard rule (`thread_length_rule`), cut at the length: a bolt shorter than the
+    rule's L_T is threaded to the head, L_T = min(rule, L).
 
     >>> from geomjoint.catalog.threads import thread
     >>> thread_length(thread("M12"), 50.0)

@@ -13,15 +13,12 @@ from types import MappingProxyType
 from typing import Mapping
 
 from geomjoint.errors import InputError
+from geomjoint.units import MM_PER_INCH, MPA_PER_KPSI
 
 #: folder of the standard-data CSV files
 DATA_DIR = Path(__file__).resolve().parent / "data"
 
-#: inch to millimetre, exact by definition (international inch, 1959)
-MM_PER_INCH = 25.4
-
-#: kpsi to MPa: 1 lbf/in^2 = 4.4482216152605 N / 645.16 mm^2 = 6.894757 kPa (exact definitions of lbf and inch)
-MPA_PER_KPSI = 6.894757293168361
+__all__ = ["DATA_DIR", "MM_PER_INCH", "MPA_PER_KPSI", "load_table", "number", "to_mm", "to_mpa"]
 
 
 @functools.lru_cache(maxsize=None)

@@ -6,6 +6,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from geomjoint.units import MM_PER_INCH
+
 
 @dataclass(frozen=True)
 class Thread:
@@ -15,7 +17,7 @@ class Thread:
     system: str           # "metric" | "inch"
     series: str           # "coarse" | "fine" | "UNC" | "UNF"
     d: float              # nominal (major) diameter, mm
-    pitch: float          # mm (inch: 25.4 / threads per inch)
+    pitch: float          # mm (inch: MM_PER_INCH / threads per inch)
     d2: float             # basic pitch diameter, mm
     d3: float             # minor diameter of the external thread, mm (inch: basic minor of 2A)
     D1: float             # basic minor diameter of the internal thread, mm
@@ -24,7 +26,7 @@ class Thread:
 
     @property
     def threads_per_inch(self) -> float:
-        return 25.4 / self.pitch
+        return MM_PER_INCH / self.pitch
 
 
 @dataclass(frozen=True)

@@ -23,6 +23,7 @@ from geomjoint.geometry.holes import (
     SolidFaces,
     group_by_axis,
 )
+from geomjoint.units import MM_PER_INCH
 
 #: proportions that separate hardware from plates (common practice: ISO 4032 nuts have
 #: m/d ~ 0.8-0.9, ISO 7089 washers h/d1 ~ 0.15-0.2, heads are wider than 1.3 d)
@@ -150,7 +151,7 @@ def size_hint(name: str) -> SizeHint | None:
             t = catalog.thread(f"{size}-{tpi}")
         except InputError:
             return None
-        return SizeHint(t.designation, t.d, 25.4 * _inch_value(length) if length else None)
+        return SizeHint(t.designation, t.d, MM_PER_INCH * _inch_value(length) if length else None)
     return None
 
 

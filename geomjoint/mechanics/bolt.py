@@ -9,76 +9,19 @@ from __future__ import annotations
 
 import math
 
+from geomjoint.catalog.hardware import thread_length_rule
 from geomjoint.errors import InputError
+from geomjoint.units import MM_PER_INCH as INCH
 
-#: one inch, mm (exact by definition)
-INCH = 25.4
-
-#: metric thread-length rule L_T = 2d + c (ISO 4014 b(ref); Shigley 10th ed., Table 8-7 notes,
-#: from memory): (upper limit of the bolt length L in mm, c in mm); the last row has no limit
-METRIC_THREAD_LENGTH_RULE = ((125.0, 6.0), (200.0, 12.0), (math.inf, 25.0))
-
-#: inch thread-length rule L_T = 2d + c (ASME B18.2.1; Shigley 10th ed., Table 8-7 notes, from
-#: memory): L <= 6 in -> c = 1/4 in, else c = 1/2 in
-INCH_THREAD_LENGTH_RULE = ((6.0 * INCH, 0.25 * INCH), (math.inf, 0.5 * INCH))
-
+__all__ = ["INCH", "MIN_PROTRUSION_PITCHES", "SIZING_PROTRUSION_PITCHES", "thread_length_rule",
+           "bolt_thread_length", "effective_grip", "unthreaded_length", "grip_lengths", "shank_area",
+           "bolt_stiffness"]
 
 #: thread that must stand past the nut: at least one full pitch, so the chamfered end is not
 #: in the nut (common practice)
 MIN_PROTRUSION_PITCHES = 1.0
 #: protrusion allowed for when a bolt length is chosen: two pitches (common practice)
 SIZING_PROTRUSION_PITCHES = 2.0
-
-
-#: socket head cap screws: metric b = 2d + 12 mm (ISO 4762:2004 b ref, from memory: M8 28, M12 36,
-#: M16 44 mm); inch L_T = 2D + 1/2 in (ASME B18.3, from memory)
-METRIC_SOCKET_THREAD_EXTRA = 12.0
-INCH_SOCKET_THREAD_EXTRA = 0.5 * INCH
-
-
-def thread_length_rule(d: float, length: float, system: str, head: str = "hex") -> float:
-    """Standard thread length L_T of a bolt of nominal diameter ``d`` and length ``length``.
-
-    Metric (ISO 4014 b(ref)):  L_T = 2d + 6 mm (L <= 125), 2d + 12 mm (125 < L <= 200),
-    2d + 25 mm (L > 200).  Inch (ASME B18.2.1): L_T = 2d + 1/4 in (L <= 6 in), else 2d + 1/2 in.
-    Source: Shigley 10th ed., Table 8-7 footnotes (from memory).  The result can exceed L
-    for short bolts: such a bolt is threaded to the head.
-
-    Parameters
-    ----------
-    d : float
-        Nominal diameter, mm.
-    length : float
-        Bolt length under the head, mm.
-    system : str
-        "metric" or "inch".
-    head : str
-        "hex" (the rules above) or "socket": socket head cap screws have the longer thread
-        of ISO 4762 (b = 2d + 12 mm) and ASME B18.3 (2D + 1/2 in).
-
-    Examples
-    --------
-    >>> thread_length_rule(12.0, 50.0, "metric")
-    30.0
-    >>> round(thread_length_rule(12.7, 50.8, "inch") / INCH, 4)   # 1/2 in x 2 in
-    1.25
-    >>> thread_length_rule(8.0, 35.0, "metric", "socket")
-    28.0
-    """
-    if d <= 0 or length <= 0:
-        raise InputError(f"diameter and length must be positive, got d={d}, L={length}")
-    if head == "socket" and system in ("metric", "inch"):
-        return 2.0 * d + (METRIC_SOCKET_THREAD_EXTRA if system == "metric" else INCH_SOCKET_THREAD_EXTRA)
-    if system == "metric":
-        rule = METRIC_THREAD_LENGTH_RULE
-    elif system == "inch":
-        rule = INCH_THREAD_LENGTH_RULE
-    else:
-        raise InputError(f"unknown thread system {system!r} (metric or inch)")
-    for limit, extra in rule:
-        if length <= limit:
-            return 2.0 * d + extra
-    raise AssertionError("unreachable: the last rule row has no limit")
 
 
 def bolt_thread_length(fastener) -> float | None:

@@ -17,8 +17,7 @@ from dataclasses import dataclass
 
 from geomjoint.errors import InputError
 from geomjoint.mechanics.joint import Check, JointSpec
-
-INCH = 25.4
+from geomjoint.units import MM_PER_INCH as INCH
 
 #: tan 30 deg, the flank slope of the 60 deg ISO / Unified thread profile (ISO 68-1; ASME B1.1)
 TAN_30 = 1.0 / math.sqrt(3.0)

@@ -28,7 +28,7 @@ from matplotlib.patches import Polygon, Rectangle  # noqa: E402
 
 from geomjoint.mechanics.joint import JointResult  # noqa: E402
 from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: E402,F401 (re-exported for html.py)
-from geomjoint.units import convert  # noqa: E402
+from geomjoint.units import MM_PER_INCH, convert  # noqa: E402
 
 #: figure size of every drawing, inches (small enough for a page with many joints)
 FIGSIZE = (5.0, 3.5)
@@ -191,7 +191,7 @@ def fastener_label(result: JointResult) -> str:
     if f.length is None:
         return f"{f.designation} {f.grade}"
     if f.system == "inch":
-        return f"{f.designation} x {f.length / 25.4:.4g} in {f.grade}"   # 1 in = 25.4 mm exactly
+        return f"{f.designation} x {f.length / MM_PER_INCH:.4g} in {f.grade}"
     return f"{f.designation}x{f.length:g} {f.grade}"
 
 

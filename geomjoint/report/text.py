@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 from geomjoint.mechanics.joint import JointResult
+from geomjoint.units import MM_PER_INCH
 
 CAUTION = ("Results are engineering estimates for review by a qualified engineer. Follow local codes, "
            "the fastener maker's data and licensed practice; test critical joints.")
@@ -18,13 +19,13 @@ def _fmt(x: float | None, spec: str = ".2f") -> str:
 def _length_label(length_mm: float, system: str) -> str:
     """"x40" for metric, " x 1.5 in" for inch bolts (lengths as the trade writes them)."""
     if system == "inch":
-        return f" x {length_mm / 25.4:g} in"
+        return f" x {length_mm / MM_PER_INCH:g} in"
     return f"x{length_mm:g}"
 
 
 #: units of the table's two dimensional columns: (grip label, factor from mm, preload label, factor from N)
 TABLE_UNITS = {"SI": ("grip mm", 1.0, "preload kN", 1e-3),
-               "inch": ("grip in", 1 / 25.4, "preload kip", 1 / 4448.2216152605)}  # 1 in = 25.4 mm; 1 kip = 1000 lbf
+               "inch": ("grip in", 1 / MM_PER_INCH, "preload kip", 1 / 4448.2216152605)}  # 1 kip = 1000 lbf
 
 
 #: what the factor columns of a joint with no service load say instead of bare dashes
