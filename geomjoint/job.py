@@ -19,7 +19,7 @@ except ModuleNotFoundError:  # pragma: no cover - Python 3.10
 
 from geomjoint import catalog
 from geomjoint.errors import InputError, did_you_mean
-from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
+from geomjoint.mechanics.bolt import required_length
 from geomjoint.mechanics.vdi import FRICTION_RANGE, ROUGHNESS_BANDS, ROUGHNESS_CLASSES, roughness_class
 from geomjoint.mechanics.joint import (
     CRITERIA,
@@ -706,11 +706,9 @@ def build_spec(
     if "length" in s:
         length = _length(s["length"], f"{where}.length")
     if length is None:
-        if tapped:
-            clamped = grip - layers[-1].thickness
-            needed = clamped + min(layers[-1].thickness, thread.d)
-        else:
-            needed = grip + geometry.get("gaps", 0.0) + (nut_height or 0.0) + SIZING_PROTRUSION_PITCHES * thread.pitch
+        needed = required_length(grip - layers[-1].thickness if tapped else grip, d=thread.d, pitch=thread.pitch,
+                                 tapped=tapped, gaps=geometry.get("gaps", 0.0), nut_height=nut_height,
+                                 tapped_depth=layers[-1].thickness, tapped_material=layers[-1].material)
         try:
             length = catalog.shortest_length(thread, needed, fastener.spec.head)
         except InputError as exc:

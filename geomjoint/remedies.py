@@ -13,7 +13,7 @@ from typing import Callable, Iterator
 
 from geomjoint import catalog
 from geomjoint.errors import InputError
-from geomjoint.mechanics.bolt import SIZING_PROTRUSION_PITCHES
+from geomjoint.mechanics.bolt import required_length
 from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec
 
 #: the property-class ladders a remedy climbs (ISO 898-1; SAE J429)
@@ -153,8 +153,9 @@ def _size_candidates(spec: JointSpec, hole_limit: float | None) -> Iterator[Cand
             head = catalog.head(thread, f.head)
             hole = catalog.clearance_hole(thread, "medium") if hole_limit is None else spec.hole_diameter
             nut = catalog.nut(thread)
-            needed = (spec.clamped_thickness + min(spec.layers[-1].thickness, thread.d) if spec.tapped
-                      else spec.grip + spec.gaps + nut.height + SIZING_PROTRUSION_PITCHES * thread.pitch)
+            needed = required_length(spec.clamped_thickness if spec.tapped else spec.grip, d=thread.d,
+                                     pitch=thread.pitch, tapped=spec.tapped, gaps=spec.gaps, nut_height=nut.height,
+                                     tapped_depth=spec.layers[-1].thickness, tapped_material=spec.layers[-1].material)
             length = catalog.shortest_length(thread, needed, f.head)
         except InputError:
             continue

@@ -72,3 +72,25 @@ def material(name: str) -> Material:
         choices = material_names() + raw
         raise InputError(f"unknown material {name!r}" + did_you_mean(name, choices))
     return next(m for m in _materials() if m.name == canon)
+
+
+#: material whose engagement rule applies when the tapped part's material is unknown (the
+#: commonest tapped part, and the shortest rule: an unknown soft part is flagged by the
+#: stripping check, not guessed here)
+DEFAULT_ENGAGEMENT_MATERIAL = "steel"
+
+
+def engagement_factor(name: str | None) -> tuple[float, str]:
+    """Minimum thread engagement in a tapped part, in nominal diameters, and its source.
+
+    By the material of the tapped part (``data/thread_engagement.csv``: steel 1.0 d, cast
+    iron 1.25 d, copper alloys 1.5 d, aluminium 2.0 d).  A name the catalog does not know,
+    or None, takes the rule of ``DEFAULT_ENGAGEMENT_MATERIAL``.
+
+    >>> engagement_factor("AlSi9Cu3")[0], engagement_factor("GJL-250")[0], engagement_factor(None)[0]
+    (2.0, 1.25, 1.0)
+    """
+    canon = _aliases().get(_key(name)) if isinstance(name, str) else None
+    rows = {r["material"]: r for r in load_table("thread_engagement")}
+    row = rows.get(canon) or rows[DEFAULT_ENGAGEMENT_MATERIAL]
+    return float(row["factor"]), row["source"]

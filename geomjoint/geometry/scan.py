@@ -17,7 +17,7 @@ from geomjoint.geometry.hardware import Bolt, Nut, Washer, recognise, thread_for
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.geometry.stacks import Finding, Joint, find_joints
-from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES
+from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
 
 #: every finding code a scan can give, with what it means
 FINDING_CODES = {
@@ -40,12 +40,6 @@ FINDING_CODES = {
 #: protrusion past the nut beyond which the bolt is reported long, in bolt diameters
 #: (a stated limit of ours; common practice keeps it to a few threads)
 MAX_PROTRUSION_DIAMETERS = 1.0
-#: minimum thread engagement in a tapped hole, in nominal diameters, by the tapped
-#: part's material (common practice: steel 1.0 d, cast iron 1.25 d, aluminium 2.0 d)
-ENGAGEMENT_FACTORS = {"steel": 1.0, "stainless steel": 1.0, "gray cast iron": 1.25,
-                      "ductile iron": 1.25, "aluminium": 2.0, "cast aluminium": 2.0,
-                      "copper alloy": 1.5, "bronze": 1.5, "titanium": 1.0}
-DEFAULT_ENGAGEMENT_FACTOR = 1.0
 #: a hole matches a standard clearance when within this tolerance, mm (ISO 273 holes are H13;
 #: 0.05 mm keeps the fine / medium / coarse series apart)
 CLEARANCE_MATCH_TOL = 0.05
@@ -225,21 +219,22 @@ def add_findings(j: Joint, system: str | None = None) -> None:
     nut_h = j.nut.height if j.nut else catalog.nut(t).height
     if j.kind == "tapped":
         tl = j.layers[-1]
-        factor = ENGAGEMENT_FACTORS.get(tl.material_hint or "", DEFAULT_ENGAGEMENT_FACTOR)
-        need_eng = factor * t.d
-        needed = j.grip + need_eng
+        need_eng = minimum_engagement(t.d, tl.material_hint)
+        # j.grip of a tapped joint is measured to the tapped part (gaps included)
+        needed = required_length(j.grip, d=t.d, pitch=pitch, tapped=True, tapped_depth=tl.end - tl.start,
+                                 tapped_material=tl.material_hint)
         if j.bolt is not None:
             eng = j.bolt.length - tl.start
             if eng < need_eng - LINEAR_TOL:
                 add(Finding("fail", "bolt-short",
                             f"{j.bolt.part}: thread engagement {eng:.2f} mm in {tl.part}, "
-                            f"needs {need_eng:.2f} mm ({factor:g} d, {tl.material_hint or 'steel'})"))
+                            f"needs {need_eng:.2f} mm ({need_eng / t.d:g} d, {tl.material_hint or 'steel'})"))
             if not tl.through and j.bolt.length > tl.end + LINEAR_TOL:
                 add(Finding("fail", "bolt-long",
                             f"{j.bolt.part} bottoms in the blind hole of {tl.part}: "
                             f"{j.bolt.length - tl.end:.2f} mm too long"))
     else:
-        needed = j.grip + nut_h + SIZING_PROTRUSION_PITCHES * pitch
+        needed = required_length(j.grip, d=t.d, pitch=pitch, tapped=False, nut_height=nut_h)
         if j.bolt is not None:
             nut_end = (j.layers[-1].end + nut_h) if j.nut is None else _nut_end(j)
             assumed = "" if j.nut else f" (no nut modelled: {nut_h:.2f} mm {t.designation} nut assumed)"

@@ -10,11 +10,12 @@ from __future__ import annotations
 import math
 
 from geomjoint.catalog.hardware import thread_length_rule
+from geomjoint.catalog.materials import engagement_factor
 from geomjoint.errors import InputError
 from geomjoint.units import MM_PER_INCH as INCH
 
 __all__ = ["INCH", "MIN_PROTRUSION_PITCHES", "SIZING_PROTRUSION_PITCHES", "thread_length_rule",
-           "bolt_thread_length", "effective_grip", "unthreaded_length", "grip_lengths", "shank_area",
+           "minimum_engagement", "required_length", "bolt_thread_length", "effective_grip", "unthreaded_length", "grip_lengths", "shank_area",
            "bolt_stiffness"]
 
 #: thread that must stand past the nut: at least one full pitch, so the chamfered end is not
@@ -22,6 +23,72 @@ __all__ = ["INCH", "MIN_PROTRUSION_PITCHES", "SIZING_PROTRUSION_PITCHES", "threa
 MIN_PROTRUSION_PITCHES = 1.0
 #: protrusion allowed for when a bolt length is chosen: two pitches (common practice)
 SIZING_PROTRUSION_PITCHES = 2.0
+
+
+def minimum_engagement(d: float, tapped_material: str | None) -> float:
+    """Minimum thread engagement L_e,min = f d in a tapped part, mm.
+
+    f by the material of the tapped part (catalog ``thread_engagement.csv``: steel 1.0,
+    cast iron 1.25, copper alloys 1.5, aluminium 2.0; common practice): a softer tapped
+    part needs a longer engagement for its threads to hold the bolt's breaking load.
+
+    Parameters
+    ----------
+    d : float
+        Nominal diameter, mm.
+    tapped_material : str or None
+        Catalog name or alias of the tapped part's material (None: steel).
+
+    >>> minimum_engagement(10.0, "steel"), minimum_engagement(10.0, "aluminium")
+    (10.0, 20.0)
+    """
+    return engagement_factor(tapped_material)[0] * d
+
+
+def required_length(clamped: float, *, d: float, pitch: float, tapped: bool, gaps: float = 0.0,
+                    nut_height: float | None = None, tapped_depth: float | None = None,
+                    tapped_material: str | None = None,
+                    protrusion_pitches: float = SIZING_PROTRUSION_PITCHES) -> float:
+    """Bolt length under the head that a joint needs, mm: the one rule for sizing and checking.
+
+    Through bolt:  L = l + gaps + m + n P  (grip, open gaps, nut height m, n pitches standing
+    past the nut; n = 2 when a length is chosen, 1 as the least that passes).
+    Tapped hole:   L = h + gaps + min(L_e,min, t)  (clamped thickness h above the tapped part,
+    `minimum_engagement` by its material, but no deeper than the tapped depth t: more cannot
+    engage, and the stripping check judges the engagement there is).
+
+    Parameters
+    ----------
+    clamped : float
+        Through: the grip l; tapped: h, the thickness clamped above the tapped part, mm.
+    d, pitch : float
+        Nominal diameter and pitch, mm.
+    tapped : bool
+        True for a screw into a tapped part.
+    gaps : float
+        Open gaps inside the stack, mm.
+    nut_height : float or None
+        Through bolts: the nut height m, mm.
+    tapped_depth : float or None
+        Tapped joints: the threaded depth t of the tapped part, mm (None: no limit).
+    tapped_material : str or None
+        Tapped joints: the tapped part's material.
+    protrusion_pitches : float
+        Through bolts: pitches past the nut (`SIZING_PROTRUSION_PITCHES` or `MIN_PROTRUSION_PITCHES`).
+
+    >>> required_length(30.0, d=12.0, pitch=1.75, tapped=False, nut_height=10.8)   # M12 through, ISO 4032 nut
+    44.3
+    >>> required_length(20.0, d=10.0, pitch=1.5, tapped=True, tapped_depth=30.0, tapped_material="aluminium")
+    40.0
+    >>> required_length(20.0, d=10.0, pitch=1.5, tapped=True, tapped_depth=12.0, tapped_material="aluminium")
+    32.0
+    """
+    if tapped:
+        engagement = minimum_engagement(d, tapped_material)
+        if tapped_depth is not None:
+            engagement = min(engagement, tapped_depth)
+        return clamped + gaps + engagement
+    return clamped + gaps + (nut_height or 0.0) + protrusion_pitches * pitch
 
 
 def bolt_thread_length(fastener) -> float | None:

@@ -231,7 +231,8 @@ def length_check(spec: JointSpec, side: BoltSide) -> Check:
                      f"screw reaches {f.length - clamped:.1f} mm into a tapped hole {spec.layers[-1].thickness:.1f} mm "
                      f"deep: it bottoms before it clamps")
     if not spec.tapped and spec.nut_height:
-        needed = clamped + spec.gaps + spec.nut_height + B.MIN_PROTRUSION_PITCHES * f.pitch
+        needed = B.required_length(clamped, d=f.d, pitch=f.pitch, tapped=False, gaps=spec.gaps,
+                                   nut_height=spec.nut_height, protrusion_pitches=B.MIN_PROTRUSION_PITCHES)
         if f.length < needed - 1e-9:
             return Check("length", None, None, False,
                          f"bolt length {f.length:.1f} mm is shorter than grip + gaps + nut height + one pitch "
