@@ -45,6 +45,18 @@ def test_integral_against_quadrature():
     assert frustum_layer_compliance(E, t, D, dh, alpha) == pytest.approx(value, rel=1e-10)
 
 
+def test_general_frustum_against_quadrature_growing_and_shrinking():
+    # the one hollow-frustum integral (cones, VDI body and the closed forms call it): independent
+    # numerical integration of dz / (E pi (r(z)^2 - r_h^2)), r = r0 + z tan a, any z-range and sign
+    E, r_h = 71000.0, 5.5
+    for r0, tan_a, z0, z1 in ((9.0, 0.577, 2.0, 14.0), (20.0, -0.4, 3.0, 30.0), (8.0, 1e-7, 0.0, 5.0)):
+        value, _ = quad(lambda z: 1.0 / (E * math.pi * ((r0 + z * tan_a) ** 2 - r_h ** 2)), z0, z1,
+                        epsabs=0.0, epsrel=1e-13)
+        assert members.hollow_frustum_compliance(E, r0, tan_a, r_h, z0, z1) == pytest.approx(value, rel=1e-10)
+    with pytest.raises(InputError):
+        members.hollow_frustum_compliance(E, 9.0, -0.5, r_h, 0.0, 10.0)   # the cone closes on the hole
+
+
 def test_limits_cylinder_and_solid_cone():
     # alpha -> 0 is a hollow cylinder; d_h -> 0 is a solid cone (mathematics)
     E, t, D, dh = 207000.0, 10.0, 20.0, 11.0

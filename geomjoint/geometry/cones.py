@@ -56,6 +56,7 @@ from geomjoint.geometry.sections import (
     local_block,
     section_polygons,
 )
+from geomjoint.mechanics.members import hollow_frustum_compliance
 
 #: pressure-cone half-angle, degrees (Shigley 10th ed., §8-5: α = 30° recommended)
 DEFAULT_CONE_ANGLE_DEG = 30.0
@@ -143,39 +144,6 @@ class ConeCache:
 
 # --------------------------------------------------------------------------------------
 # closed forms and exact 2-D areas
-
-
-def frustum_compliance(E: float, r0: float, tan_alpha: float, hole_radius: float,
-                       z0: float, z1: float) -> float:
-    """Compliance of a hollow cone frustum, ∫ dz / (E·π·(r(z)² − r_h²)), r(z) = r0 + z·tanα.
-
-    δ = 1/(2π·E·r_h·tanα) · [ln((r − r_h)/(r + r_h))] from r(z0) to r(z1)
-
-    Parameters: E MPa; r0 mm (radius at z = 0); tan_alpha (> 0 grows with z, < 0 shrinks);
-    hole_radius r_h mm; z0, z1 mm.  Returns mm/N.  This is Shigley 10th ed. eq. (8-20)
-    written as a compliance for a frustum of any length (Budynas & Nisbett, §8-5).
-
-    Example: steel E = 207000, d_w = 18 (r0 = 9), d = 12 (r_h = 6), α = 30°, t = 10:
-    k = 1/frustum_compliance(207000, 9, tan 30°, 6, 0, 10) ≈ 6.027e6 N/mm, which is
-    eq. (8-20): 0.5774·π·E·d / ln[(1.155t + D − d)(D + d)/((1.155t + D + d)(D − d))]
-    (6.027e6 with the rounded constants 0.5774 and 1.155).
-    """
-    if E <= 0:
-        raise InputError(f"modulus must be positive, got E = {E}")
-    if abs(tan_alpha) < 1e-15:
-        r = r0
-        return (z1 - z0) / (E * math.pi * (r * r - hole_radius ** 2))
-    ra, rb = r0 + z0 * tan_alpha, r0 + z1 * tan_alpha
-    h = hole_radius
-    if min(ra, rb) <= h:
-        raise InputError(f"cone radius {min(ra, rb):.4g} mm does not exceed the hole radius {h:.4g} mm")
-
-    def g(r: float) -> float:
-        return math.log((r - h) / (r + h))
-
-    if h <= 0:
-        return (1.0 / ra - 1.0 / rb) / (E * math.pi * tan_alpha)
-    return (g(rb) - g(ra)) / (2.0 * math.pi * E * h * tan_alpha)
 
 
 @dataclass
@@ -698,7 +666,7 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
     total = 0.0
     for layer, side, za, zb in cone.pieces():
         r0, slope = (cone.rw, cone.tan) if side == "head" else (cone.rf + cone.L * cone.tan, -cone.tan)
-        ideal += frustum_compliance(layer.E, r0, slope, 0.5 * layer.hole_diameter, za, zb)
+        ideal += hollow_frustum_compliance(layer.E, r0, slope, 0.5 * layer.hole_diameter, za, zb)
     for layer in joint.layers:
         za, zb = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
         if zb - za <= _LENGTH_TOL:

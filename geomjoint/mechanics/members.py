@@ -39,6 +39,57 @@ def _layer_pairs(layers) -> list[tuple[float, float]]:
     return pairs
 
 
+def hollow_frustum_compliance(E: float, r0: float, tan_alpha: float, hole_radius: float,
+                              z0: float, z1: float) -> float:
+    """Compliance of a hollow cone frustum, the integral of dz / (E pi (r(z)^2 - r_h^2)), mm/N.
+
+    With r(z) = r0 + z tan(alpha) between z0 and z1 (r_a = r(z0), r_b = r(z1)):
+
+        delta/P = ln[ (r_b - r_h)(r_a + r_h) / ((r_b + r_h)(r_a - r_h)) ] / (2 pi E r_h tan a)
+
+    the general form of Budynas & Nisbett, *Shigley's MED* 10th ed., eq. (8-19)/(8-20) for a
+    frustum of any length, growing (tan a > 0) or shrinking (tan a < 0).  The one home of this
+    integral: the closed-form stack (`frustum_layer_compliance`), the clipped cones of
+    ``geometry.cones`` and the VDI substitute body (``vdi.member_resilience_layers``) call it.
+    Limits: tan a = 0 gives the hollow cylinder (z1 - z0) / (E pi (r0^2 - r_h^2)); r_h = 0 the
+    solid cone (1/r_a - 1/r_b) / (E pi tan a).
+
+    Parameters
+    ----------
+    E : float
+        Young's modulus, MPa.
+    r0 : float
+        Cone radius at z = 0, mm.
+    tan_alpha : float
+        Slope of the radius, dr/dz (tan of the cone half-angle, signed).
+    hole_radius : float
+        r_h, radius of the bore, mm; the cone must stay outside it.
+    z0, z1 : float
+        Axial limits of the frustum, mm.
+
+    Examples
+    --------
+    >>> round(1.0 / hollow_frustum_compliance(207000.0, 9.0, math.tan(math.radians(30)), 6.0, 0.0, 10.0))
+    6027429
+    """
+    if E <= 0:
+        raise InputError(f"modulus must be positive, got E = {E}")
+    h = float(hole_radius)
+    ra, rb = r0 + z0 * tan_alpha, r0 + z1 * tan_alpha
+    if tan_alpha == 0.0:
+        if r0 <= h:
+            raise InputError(f"cylinder radius {r0:.4g} mm does not exceed the hole radius {h:.4g} mm")
+        return (z1 - z0) / (E * math.pi * (r0 * r0 - h * h))
+    if min(ra, rb) <= h:
+        raise InputError(f"cone radius {min(ra, rb):.4g} mm does not exceed the hole radius {h:.4g} mm")
+    if h <= 0:
+        return (1.0 / ra - 1.0 / rb) / (E * math.pi * tan_alpha)
+    # log1p form keeps thin slices accurate: the ratio - 1 = 2 r_h (r_b - r_a) / ((r_b + r_h)(r_a - r_h))
+    # is small when z1 - z0 is small
+    ratio_minus_one = 2.0 * h * (rb - ra) / ((rb + h) * (ra - h))
+    return math.log1p(ratio_minus_one) / (2.0 * math.pi * E * h * tan_alpha)
+
+
 def frustum_layer_compliance(E: float, thickness: float, d_start: float, d_h: float,
                              alpha: float = 30.0) -> float:
     """Compliance of one conical segment of a pressure cone, mm/N.
@@ -75,19 +126,8 @@ def frustum_layer_compliance(E: float, thickness: float, d_start: float, d_h: fl
         raise InputError(f"segment thickness and modulus must be positive, got t={thickness}, E={E}")
     if d_start <= d_h:
         raise InputError(f"bearing diameter {d_start} mm must exceed the hole diameter {d_h} mm")
-    t = float(thickness)
-    if alpha < _CYLINDER_ANGLE:
-        return t / (E * math.pi * (d_start ** 2 - d_h ** 2) / 4.0)
-    tan_a = math.tan(math.radians(alpha))
-    r0 = d_start / 2.0
-    r1 = r0 + t * tan_a
-    if d_h <= 0:
-        return (1.0 / r0 - 1.0 / r1) / (E * math.pi * tan_a)
-    a = d_h / 2.0
-    # log1p form keeps thin slices accurate: ratio - 1 is small when t is small
-    # (r1-a)(r0+a) / ((r1+a)(r0-a)) - 1 = 2a (r1 - r0) / ((r1+a)(r0-a))
-    ratio_minus_one = 2.0 * a * (r1 - r0) / ((r1 + a) * (r0 - a))
-    return math.log1p(ratio_minus_one) / (E * math.pi * d_h * tan_a)
+    tan_a = 0.0 if alpha < _CYLINDER_ANGLE else math.tan(math.radians(alpha))
+    return hollow_frustum_compliance(E, d_start / 2.0, tan_a, d_h / 2.0, 0.0, float(thickness))
 
 
 def sleeve_compliance(E: float, thickness: float, d_outer: float, d_h: float) -> float:

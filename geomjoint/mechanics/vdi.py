@@ -25,6 +25,7 @@ from dataclasses import dataclass, field
 
 from geomjoint.errors import InputError
 from geomjoint.mechanics.joint import Check, JointSpec, VdiSpec
+from geomjoint.mechanics.members import hollow_frustum_compliance
 
 # --------------------------------------------------------------------------------------
 # constants of the guideline
@@ -435,14 +436,8 @@ def _segment_resilience(z0: float, z1: float, D0: float, slope: float, d_h: floa
     """Exact integral of 4 dz / (E pi (D(z)^2 - d_h^2)) with D = D0 + slope (z - z0), mm/N."""
     if z1 <= z0:
         return 0.0
-    if slope == 0.0:
-        return 4.0 * (z1 - z0) / (E * math.pi * (D0**2 - d_h**2))
-    D1 = D0 + slope * (z1 - z0)
-
-    def f(D: float) -> float:
-        return math.log((D - d_h) / (D + d_h))
-
-    return 2.0 * (f(D1) - f(D0)) / (E * math.pi * slope * d_h)
+    # in radii: r = D0/2 + (slope/2)(z - z0), and 4 / (pi (D^2 - d_h^2)) = 1 / (pi (r^2 - r_h^2))
+    return hollow_frustum_compliance(E, D0 / 2.0, slope / 2.0, d_h / 2.0, 0.0, z1 - z0)
 
 
 def member_resilience_layers(layers: list[tuple[float, float]], d_W: float, d_h: float,
