@@ -70,6 +70,44 @@ _ADAPT_DEPTH = 6            # max halvings of a prismatic piece
 _ADAPT_DEPTH_SECTIONED = 1  # max halvings where every point costs a true section
 _MANY_VERTICES = 64         # rings with more vertices give only min/max breakpoints
 _FEW_FACES = 40             # parts with more faces are cut to a box before per-point sections
+_COAXIAL_TOL = 1e-9         # mm, a neighbour axis this close to ours is the same axis (no bisector)
+_HOLE_FILL_RTOL = 1e-6      # relative roundness of the bolt's own hole, beside _HOLE_FILL_TOL
+_KEY_DIGITS = 9             # digits of a height (mm) in the caches' keys: far below any feature
+_SIZE_KEY_DIGITS = 6        # digits of a window half-size (mm) in the box cache's key
+_INSIDE_FRACTION = 1e-6     # a height is sampled this fraction of its region inside, so the
+                            # section is of the region itself, not of a face at its boundary
+_ROOT_TOL = 1e-15           # a contact height's linear equation with a smaller slope has no root
+_CUT_CLEARANCE = 1e3 * _LENGTH_TOL  # mm, a face this close to a layer end is that end (no sliver region)
+_RADIUS_KEY_DIGITS = 12     # digits (mm) to which equal breakpoint radii are merged
+#: Gauss-Legendre points per integration piece: with the adaptive halving, 8 meet eq. (8-20)
+#: to 1e-6 on unclipped cones (tests/test_cones.py) at a few sections per piece
+DEFAULT_GAUSS_POINTS = 8
+_GAUSS_CACHE = 32           # distinct point counts whose nodes are kept (a handful are used)
+
+# section window and cutting sizes (ours): each only has to be large enough
+#: half-size of the square window around the axis = reach x _WINDOW_SCALE + _WINDOW_MARGIN (mm):
+#: 5 % and 1 mm beyond the cone's largest radius, so the disc never meets the window's edge
+_WINDOW_SCALE = 1.05
+_WINDOW_MARGIN = 1.0
+#: a neighbour's half-plane is drawn _HALF_PLANE_SCALE x the window + _HALF_PLANE_MARGIN (mm):
+#: its far edges lie well outside the window, so only the bisecting line cuts the section
+_HALF_PLANE_SCALE = 4.0
+_HALF_PLANE_MARGIN = 10.0
+#: the box a many-faced part is cut to: 1 % wider than the window, and 1 mm + 1 % of the
+#: layer's depth past either end, so no face of the window or the layer is a cut face
+_BLOCK_SCALE = 1.01
+_BLOCK_PAD = 1.0
+_BLOCK_PAD_FRACTION = 0.01
+
+
+def _window_size(reach: float) -> float:
+    """Half-size (mm) of the section window around the axis for a cone radius of `reach` mm."""
+    return _WINDOW_SCALE * reach + _WINDOW_MARGIN
+
+
+def _just_inside(z: float, a: float, b: float) -> float:
+    """The height z moved just inside [a, b] (see _INSIDE_FRACTION)."""
+    return min(max(z, a + _INSIDE_FRACTION * (b - a)), b - _INSIDE_FRACTION * (b - a))
 
 
 @dataclass
@@ -178,7 +216,7 @@ def _edges_of(geom: MultiPolygon) -> _EdgeSet:
     if not starts:
         empty = np.zeros((0, 2))
         return _EdgeSet(empty, empty, np.zeros(0))
-    return _EdgeSet(np.vstack(starts), np.vstack(ends), np.unique(np.round(radii, 12)))
+    return _EdgeSet(np.vstack(starts), np.vstack(ends), np.unique(np.round(radii, _RADIUS_KEY_DIGITS)))
 
 
 def _segment_distances(a: np.ndarray, b: np.ndarray) -> np.ndarray:
@@ -334,7 +372,7 @@ def _bisector_planes(cone: _Cone, neighbours: Sequence[ConeJoint]) -> list[_Plan
         qc = q0 + ((c - q0) @ qn) * qn  # point of the neighbour axis nearest our mid-grip
         w = qc - c
         dist = float(np.linalg.norm(w))
-        if dist < 1e-9:
+        if dist < _COAXIAL_TOL:
             continue
         planes.append(_Plane(0.5 * (c + qc), w / dist, frozenset(layer.part for layer in other.layers)))
     return planes
@@ -396,7 +434,7 @@ def _localise(windowed: MultiPolygon, cone: _Cone, hole_radius: float) -> _Local
             xy = np.asarray(ring.coords)
             dist = np.hypot(xy[:, 0], xy[:, 1])
             far = float(dist.max())
-            circular = far - float(dist.min()) <= _HOLE_FILL_TOL + 1e-6 * far
+            circular = far - float(dist.min()) <= _HOLE_FILL_TOL + _HOLE_FILL_RTOL * far
             if (circular or far <= hole_radius + _HOLE_FILL_TOL) and Polygon(ring).contains(origin):
                 # the bolt's own hole: filled here and subtracted exactly (as a circle of
                 # the model's radius, or of hole_diameter if that is larger)
@@ -450,15 +488,15 @@ class _LayerSampler:
         cuts = []
         for i in np.nonzero(near & perpendicular)[0]:
             zp = float((faces.point[i] - cone.p0) @ cone.n)
-            if za + 1e3 * _LENGTH_TOL < zp < zb - 1e3 * _LENGTH_TOL:
+            if za + _CUT_CLEARANCE < zp < zb - _CUT_CLEARANCE:
                 cuts.append(zp)
         odd = near & ~perpendicular & ~parallel
         # the axial extent of a face that is neither also bounds a region, so the rest of
         # the layer can still be sectioned once
         for zp in np.concatenate((zlo[odd], zhi[odd])):
-            if za + 1e3 * _LENGTH_TOL < zp < zb - 1e3 * _LENGTH_TOL:
+            if za + _CUT_CLEARANCE < zp < zb - _CUT_CLEARANCE:
                 cuts.append(float(zp))
-        bounds = [za, *sorted(set(np.round(cuts, 9))), zb]
+        bounds = [za, *sorted(set(np.round(cuts, _KEY_DIGITS))), zb]
         out = []
         for a, b in zip(bounds[:-1], bounds[1:]):
             hit = odd & (zlo < b - _LENGTH_TOL) & (zhi > a + _LENGTH_TOL)
@@ -470,7 +508,7 @@ class _LayerSampler:
         """Local section at height z (the cached whole-part one at `prismatic_mid` if given)."""
         cone = self.cone
         if prismatic_mid is not None:
-            key = round(prismatic_mid, 9)
+            key = round(prismatic_mid, _KEY_DIGITS)
             if key not in self._prepared:
                 offset = cone.frame.offset_of(cone.point(prismatic_mid))
                 whole = self.cache.sections.section(self.shape, cone.frame, offset)
@@ -490,13 +528,13 @@ class _LayerSampler:
         axis over the layer, so that each of the many per-point sections is cheap."""
         if len(self.cache.sections.faces(self.shape).kind) <= _FEW_FACES:
             return self.shape
-        key = round(size, 6)
+        key = round(size, _SIZE_KEY_DIGITS)
         if key not in self._blocks:
             cone, layer = self.cone, self.layer
             s0 = cone.frame.offset_of(cone.point(layer.z_start))
             s1 = cone.frame.offset_of(cone.point(layer.z_end))
-            pad = 1.0 + 0.01 * abs(s1 - s0)
-            self._blocks[key] = local_block(self.shape, cone.frame, tuple(cone.centre), 1.01 * size,
+            pad = _BLOCK_PAD + _BLOCK_PAD_FRACTION * abs(s1 - s0)
+            self._blocks[key] = local_block(self.shape, cone.frame, tuple(cone.centre), _BLOCK_SCALE * size,
                                             (min(s0, s1) - pad, max(s0, s1) + pad))
         return self._blocks[key]
 
@@ -508,7 +546,7 @@ class _LayerSampler:
             a = float(cone.u @ plane.w)
             b = float(cone.v @ plane.w)
             c = float((cone.point(z) - plane.m) @ plane.w)
-            half = _half_plane(a, b, c, 4.0 * size + 10.0)
+            half = _half_plane(a, b, c, _HALF_PLANE_SCALE * size + _HALF_PLANE_MARGIN)
             if half is None:
                 continue
             geom = _to_multi(shapely.intersection(geom, half))
@@ -518,7 +556,7 @@ class _LayerSampler:
         """Edges of the clipped prismatic section when the clip is independent of z, else None."""
         if not self.planes_fixed():
             return None
-        key = round(mid, 9)
+        key = round(mid, _KEY_DIGITS)
         if key not in self._edges:
             self._edges[key] = _edges_of(self.clipped(local, mid, size))
         return self._edges[key]
@@ -537,7 +575,7 @@ class _LayerSampler:
             c1 = float(cone.n @ plane.w) / h
             for sign in (1.0, -1.0):
                 denom = slope - sign * c1
-                if abs(denom) > 1e-15:
+                if abs(denom) > _ROOT_TOL:
                     out.append((sign * c0 - r0) / denom)
         return out
 
@@ -549,7 +587,7 @@ class _LayerSampler:
         return disc_polygon_area(edges.a, edges.b, r) - hole_area
 
 
-@functools.lru_cache(maxsize=32)
+@functools.lru_cache(maxsize=_GAUSS_CACHE)
 def _gauss(n: int) -> tuple[np.ndarray, np.ndarray]:
     """Gauss–Legendre nodes and weights on [−1, 1] (pure function of n, so cached)."""
     return np.polynomial.legendre.leggauss(n)
@@ -628,8 +666,8 @@ def cone_area(joint: ConeJoint, z: float, neighbours: Sequence[ConeJoint] = (),
         if za - _LENGTH_TOL <= z <= zb + _LENGTH_TOL:
             sampler = _LayerSampler(cone, layer, planes, cache)
             r = float(cone.radius(z))
-            size = 1.05 * r + 1.0
-            zz = min(max(z, za + 1e-6 * (zb - za)), zb - 1e-6 * (zb - za))
+            size = _window_size(r)
+            zz = _just_inside(z, za, zb)
             local = sampler.local_at(zz, None, size)
             edges = _edges_of(sampler.clipped(local, zz, size))
             return float(max(sampler.area(edges, local.hole_area, r)[0], 0.0))
@@ -637,7 +675,7 @@ def cone_area(joint: ConeJoint, z: float, neighbours: Sequence[ConeJoint] = (),
 
 
 def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (),
-                           gauss_points: int = 8, cache: ConeCache | None = None) -> ConeResult:
+                           gauss_points: int = DEFAULT_GAUSS_POINTS, cache: ConeCache | None = None) -> ConeResult:
     """Member stiffness of a joint from its pressure cones clipped by the real parts.
 
     k_m = 1/δ_m,  δ_m = Σ_layers Σ_sides ∫ dz / (E·A(z)),  A(z) the clipped cone area
@@ -676,7 +714,7 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
         for a, b, prismatic in sampler.regions(za, zb):
             regions_out.append((layer.part, a, b, prismatic))
             # one window and (if prismatic) one section for the whole region, both sides
-            size = 1.05 * cone.reach(a, b) + 1.0
+            size = _window_size(cone.reach(a, b))
             for side, lo, hi in (("head", 0.0, cone.z_mid), ("far", cone.z_mid, cone.L)):
                 sa, sb = max(a, lo), min(b, hi)
                 if sb - sa > _LENGTH_TOL:
@@ -721,8 +759,8 @@ def _mid_areas(cone: _Cone, layer: ConeLayer, planes, cache, z: float, r: float)
     for a, b, prismatic in sampler.regions(za, zb):
         if a - _LENGTH_TOL <= z <= b + _LENGTH_TOL:
             # the same window as the integration uses, so the cached section is reused
-            size = 1.05 * cone.reach(a, b) + 1.0
-            zz = min(max(z, a + 1e-6 * (b - a)), b - 1e-6 * (b - a))
+            size = _window_size(cone.reach(a, b))
+            zz = _just_inside(z, a, b)
             local = sampler.local_at(zz, 0.5 * (a + b) if prismatic else None, size)
             alone = sampler.area(_edges_of(local.geom), local.hole_area, r)[0]
             shared = sampler.area(_edges_of(sampler.clipped(local, zz, size)), local.hole_area, r)[0]
