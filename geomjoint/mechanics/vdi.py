@@ -958,6 +958,40 @@ def _clamped_layers(spec: JointSpec):
     return layers
 
 
+@dataclass(frozen=True)
+class _Clamp:
+    """The clamped part of a joint as the substitute body sees it (mm, MPa)."""
+
+    layers: list            # the clamped LayerSpecs (the tapped part excluded)
+    l_K: float              # clamp length
+    d_h: float              # hole diameter
+    d_W_head: float         # head-side bearing diameter
+    d_W_far: float          # nut-side bearing diameter (= head side for tapped joints)
+    d_W: float              # their mean, for beta_L and y
+    tan_phi: float          # cone tangent (VDI 2230-1 eq. (23)/(24))
+    y: float                # D_A / d_W (or the limiting y when D_A is unknown)
+    D_A_Gr: float           # limiting diameter of the full cone
+    delta_P: float          # member resilience, mm/N
+
+
+def _clamp(spec: JointSpec) -> _Clamp:
+    """Layers, clamp length, bearing diameters and the substitute body's resilience of a joint:
+    the one set-up shared by the chain (`vdi_chain`) and the engine's stiffness (`vdi_member_stiffness`)."""
+    layers = _clamped_layers(spec)
+    l_K = float(sum(layer.thickness for layer in layers))
+    d_h = float(spec.hole_diameter)
+    d_W_head = float(spec.bearing_diameter)
+    d_W_far = d_W_head if (spec.tapped or spec.far_bearing_diameter is None) else float(spec.far_bearing_diameter)
+    if not d_W_head > d_h:
+        raise InputError(f"joint {spec.id}: bearing diameter {d_W_head} must exceed hole {d_h}",
+                         where="bearing_diameter")
+    d_W = 0.5 * (d_W_head + d_W_far)   # for beta_L and y when head and nut bear on different diameters
+    tan_phi, y, D_A_Gr = _cone_geometry(d_W, l_K, spec.outside_diameter, spec.tapped)
+    delta_P = member_resilience_layers([(layer.thickness, layer.E) for layer in layers], d_W_head, d_h,
+                                       tan_phi, spec.tapped, spec.outside_diameter, d_W_far)
+    return _Clamp(layers, l_K, d_h, d_W_head, d_W_far, d_W, tan_phi, y, D_A_Gr, delta_P)
+
+
 def _bolt_lengths(spec: JointSpec, l_K: float, notes: list[str]) -> tuple[float, float]:
     """(shank inside l_K, free loaded thread inside l_K), mm."""
     from geomjoint.mechanics.bolt import bolt_thread_length, grip_lengths, unthreaded_length
@@ -1006,15 +1040,9 @@ def vdi_chain(spec: JointSpec) -> VdiResult:
     v = _vdi_inputs(spec)
     f = spec.fastener
     notes: list[str] = []
-    layers = _clamped_layers(spec)
-    l_K = float(sum(layer.thickness for layer in layers))
-    d_h = float(spec.hole_diameter)
-    d_W_head = float(spec.bearing_diameter)
-    d_W_far = d_W_head if (spec.tapped or spec.far_bearing_diameter is None) else float(spec.far_bearing_diameter)
-    if not d_W_head > d_h:
-        raise InputError(f"joint {spec.id}: bearing diameter {d_W_head} must exceed hole {d_h}",
-                         where="bearing_diameter")
-    d_W = 0.5 * (d_W_head + d_W_far)   # for beta_L and y when head and nut bear on different diameters
+    clamp = _clamp(spec)
+    layers, l_K, d_h = clamp.layers, clamp.l_K, clamp.d_h
+    d_W_head, d_W_far, d_W = clamp.d_W_head, clamp.d_W_far, clamp.d_W
     if d_W_far != d_W_head:
         notes.append("head and nut bearing diameters differ: their mean enters beta_L and y")
 
@@ -1026,7 +1054,7 @@ def vdi_chain(spec: JointSpec) -> VdiResult:
 
     # 5.1.2 members
     D_A = spec.outside_diameter
-    tan_phi, y, D_A_Gr = _cone_geometry(d_W, l_K, D_A, spec.tapped)
+    tan_phi, y, D_A_Gr = clamp.tan_phi, clamp.y, clamp.D_A_Gr
     if D_A is None:
         notes.append("outside diameter unknown: parts taken just wide enough for the full cone")
         body = "cone"
@@ -1036,8 +1064,7 @@ def vdi_chain(spec: JointSpec) -> VdiResult:
         body = "cone+sleeve"
     else:
         body = "cone"
-    delta_P = member_resilience_layers([(layer.thickness, layer.E) for layer in layers], d_W_head, d_h,
-                                       tan_phi, spec.tapped, D_A, d_W_far)
+    delta_P = clamp.delta_P
 
     # 5.3 load factor
     Phi_K = load_factor(delta_S, delta_P, 1.0)
@@ -1151,16 +1178,7 @@ def vdi_member_stiffness(spec: JointSpec) -> float:
     For ``member_stiffness = "vdi"`` in the engine.
     """
     _vdi_inputs(spec)   # validates the VDI inputs; the cone itself does not depend on them
-    layers = _clamped_layers(spec)
-    l_K = float(sum(layer.thickness for layer in layers))
-    d_W_head = float(spec.bearing_diameter)
-    d_W_far = d_W_head if (spec.tapped or spec.far_bearing_diameter is None) else float(spec.far_bearing_diameter)
-    d_W = 0.5 * (d_W_head + d_W_far)
-    tan_phi, _, _ = _cone_geometry(d_W, l_K, spec.outside_diameter, spec.tapped)
-    delta_P = member_resilience_layers([(layer.thickness, layer.E) for layer in layers], d_W_head,
-                                       float(spec.hole_diameter), tan_phi, spec.tapped,
-                                       spec.outside_diameter, d_W_far)
-    return member_stiffness_from_resilience(delta_P)
+    return member_stiffness_from_resilience(_clamp(spec).delta_P)
 
 
 def _check(name: str, value: float | None, spec: JointSpec, note: str) -> Check:
