@@ -28,6 +28,7 @@ from geomjoint.mechanics.joint import (
     FatigueSpec,
     JointSpec,
     LayerSpec,
+    ROOM_TEMPERATURE,
     PreloadSpec,
     VdiSpec,
 )
@@ -101,14 +102,15 @@ DEFAULT_PRELOAD = "75%"
 DEFAULT_SETTINGS: dict[str, Any] = {
     "grade": "8.8",
     "threads": "rolled",
-    "reliability": 0.99,
-    "criterion": "goodman",
-    "cone_angle": "30 deg",
-    "surface": "machined",
-    "endurance": "auto",
+    # the engine's own defaults (mechanics.joint), stated once
+    "reliability": FatigueSpec.reliability,
+    "criterion": FatigueSpec.criterion,
+    "cone_angle": f"{JointSpec.cone_angle:g} deg",
+    "surface": FatigueSpec.surface,
+    "endurance": FatigueSpec.endurance,
     "fully_threaded": False,
     "head": "hex",
-    "method": "textbook",
+    "method": JointSpec.method,
     "hole_fit": "medium",
 }
 
@@ -511,13 +513,15 @@ def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
     """(assembly, service) in degC; a single value is the service temperature."""
     value = s.get("temperature")
     if value is None:
-        return 20.0, 20.0
+        return ROOM_TEMPERATURE, ROOM_TEMPERATURE
     if isinstance(value, dict):
         table = _check_keys(value, TEMPERATURE_KEYS, f"{where}.temperature")
-        assembly = _temperature(table.get("assembly", "20 degC"), f"{where}.temperature.assembly")
-        service = _temperature(table.get("service", "20 degC"), f"{where}.temperature.service")
+        assembly = (_temperature(table["assembly"], f"{where}.temperature.assembly")
+                    if "assembly" in table else ROOM_TEMPERATURE)
+        service = (_temperature(table["service"], f"{where}.temperature.service")
+                   if "service" in table else ROOM_TEMPERATURE)
         return assembly, service
-    return 20.0, _temperature(value, f"{where}.temperature")
+    return ROOM_TEMPERATURE, _temperature(value, f"{where}.temperature")
 
 
 def _required(s: dict[str, Any], where: str) -> dict[str, float]:
@@ -733,8 +737,9 @@ def build_spec(
         friction_interface=friction.get("interface", VdiSpec.friction_interface),
         scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
         clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
-        roughness=_roughness(s.get("roughness", "medium"), f"{where}.roughness"),
-        load_introduction=_number(s.get("load_introduction", 0.5), f"{where}.load_introduction", 0.0, 1.0),
+        roughness=_roughness(s.get("roughness", VdiSpec.roughness), f"{where}.roughness"),
+        load_introduction=_number(s.get("load_introduction", VdiSpec.load_introduction),
+                                  f"{where}.load_introduction", 0.0, 1.0),
         temperature_assembly=assembly_t, temperature_service=service_t,
     )
     lo, hi, shear = load

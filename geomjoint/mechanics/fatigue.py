@@ -11,6 +11,7 @@ from dataclasses import dataclass, field
 
 from geomjoint.catalog import fatigue as data
 from geomjoint.errors import InputError
+from geomjoint.mechanics.joint import ROOM_TEMPERATURE
 
 #: S_e' = 0.5 S_ut for S_ut <= 1400 MPa, else 700 MPa (Shigley 10th ed., eq. 6-8)
 ENDURANCE_RATIO = 0.5
@@ -79,7 +80,7 @@ class Endurance:
 
 
 def bolt_endurance(grade: str, d: float, S_ut: float, threads: str = "rolled", *,
-                   endurance: str = "auto", surface: str = "machined", temperature: float = 20.0,
+                   endurance: str = "auto", surface: str = "machined", temperature: float = ROOM_TEMPERATURE,
                    reliability: float = 0.99, Se: float | None = None) -> Endurance:
     """Endurance strength of a bolt by the rules of issue 2.
 

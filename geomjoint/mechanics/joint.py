@@ -75,12 +75,17 @@ class PreloadSpec:
     scatter: float = 1.0            # tightening factor alpha_A = F_max / F_min >= 1
 
 
+#: reference temperature of the material data and the default assembly and service
+#: temperature, degC (ISO 1:2016 standard reference temperature)
+ROOM_TEMPERATURE = 20.0
+
+
 @dataclass(frozen=True)
 class FatigueSpec:
     criterion: str = "goodman"
     reliability: float = 0.99
     surface: str = "machined"       # Shigley Table 6-2 finish
-    temperature: float = 20.0       # service temperature, degC (Marin k_d)
+    temperature: float = ROOM_TEMPERATURE  # service temperature, degC (Marin k_d)
     endurance: str = "auto"         # "auto" (Table 8-17 where it applies) | "table" | "marin"
     Se: float | None = None         # explicit endurance limit, MPa
 
@@ -98,8 +103,8 @@ class VdiSpec:
     load_introduction: float = 0.5  # n
     utilisation: float = 0.9        # nu
     interfaces_shear: int = 1       # q_F
-    temperature_assembly: float = 20.0  # degC
-    temperature_service: float = 20.0   # degC
+    temperature_assembly: float = ROOM_TEMPERATURE  # degC
+    temperature_service: float = ROOM_TEMPERATURE   # degC
 
 
 @dataclass(frozen=True)
