@@ -54,6 +54,28 @@ def canonical_direction(d) -> np.ndarray:
     return v
 
 
+#: |x| of a unit axis below which the global x axis is used to build its frame (else y): any
+#: value well below 1 keeps the cross product well-conditioned
+_FRAME_X_LIMIT = 0.9
+
+
+def axis_frame(direction) -> tuple[np.ndarray, np.ndarray]:
+    """Two unit vectors (u, v) that make (u, v, direction) a right-handed orthonormal frame.
+
+    The one helper for hex prisms, bolt circles and polar angles around a bolt axis; it
+    depends on the direction only.
+
+    >>> u, v = axis_frame(np.array([0.0, 0.0, 1.0]))
+    >>> u.round(12).tolist(), v.round(12).tolist()
+    ([0.0, 1.0, 0.0], [-1.0, 0.0, 0.0])
+    """
+    d = np.asarray(direction, dtype=float)
+    a = np.array([1.0, 0.0, 0.0]) if abs(d[0]) < _FRAME_X_LIMIT else np.array([0.0, 1.0, 0.0])
+    u = np.cross(d, a)
+    u /= np.linalg.norm(u)
+    return u, np.cross(d, u)
+
+
 def axis_reference(point, direction) -> np.ndarray:
     """The point of the line (point, direction) nearest the origin."""
     p = np.asarray(point, dtype=float)

@@ -63,6 +63,7 @@ from OCP.XCAFDoc import XCAFDoc_ColorSurf, XCAFDoc_DocumentTool
 
 from geomjoint.errors import InputError
 from geomjoint.geometry import topology
+from geomjoint.geometry.holes import axis_frame
 from geomjoint.geometry.model import quiet_stdout
 from geomjoint.outputs import MAX_NAME_LENGTH, safe_name
 from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
@@ -198,13 +199,6 @@ def bounding_diagonal(shapes: list[TopoDS_Shape]) -> float:
     return math.dist((x0, y0, z0), (x1, y1, z1))
 
 
-def _frame(direction: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    a = np.array([1.0, 0.0, 0.0]) if abs(direction[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
-    u = np.cross(direction, a)
-    u /= np.linalg.norm(u)
-    return u, np.cross(direction, u)
-
-
 def _cylinder(point: np.ndarray, direction: np.ndarray, radius: float, length: float) -> TopoDS_Shape:
     return BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*map(float, point)), gp_Dir(*map(float, direction))),
                                     float(radius), float(length)).Shape()
@@ -212,7 +206,7 @@ def _cylinder(point: np.ndarray, direction: np.ndarray, radius: float, length: f
 
 def _hex_prism(point: np.ndarray, direction: np.ndarray, across_flats: float, height: float) -> TopoDS_Shape:
     """A regular hexagonal prism on the axis, from ``point`` along ``direction``."""
-    u, v = _frame(direction)
+    u, v = axis_frame(direction)
     r = across_flats / math.sqrt(3.0)          # corner radius of a hexagon: s / √3
     poly = BRepBuilderAPI_MakePolygon()
     for k in range(6):

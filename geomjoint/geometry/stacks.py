@@ -28,7 +28,7 @@ from scipy.spatial import cKDTree
 from OCP.TopoDS import TopoDS_Shape
 
 from geomjoint.geometry.hardware import Bolt, Nut, Washer
-from geomjoint.geometry.holes import LINEAR_TOL, Hole, canonical_direction
+from geomjoint.geometry.holes import LINEAR_TOL, Hole, axis_frame, canonical_direction
 
 #: axes within this angle count as parallel for grouping, rad (0.5 deg)
 STACK_ANGLE_TOL = math.radians(0.5)
@@ -165,13 +165,6 @@ def _direction_clusters(items: list[_Item]) -> list[tuple[np.ndarray, list[int]]
     return clusters
 
 
-def _frame(d: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    a = np.array([1.0, 0, 0]) if abs(d[0]) < 0.9 else np.array([0, 1.0, 0])
-    u = np.cross(d, a)
-    u /= np.linalg.norm(u)
-    return u, np.cross(d, u)
-
-
 class _UnionFind:
     def __init__(self, n):
         self.p = list(range(n))
@@ -192,7 +185,7 @@ def group_items(items: list[_Item]) -> list[tuple[np.ndarray, list[_Item]]]:
     """Connected groups of overlapping coaxial items, each with its cluster direction."""
     groups = []
     for d, idx in _direction_clusters(items):
-        u, v = _frame(d)
+        u, v = axis_frame(d)
         sub = [items[i] for i in idx]
         mids = np.array([it.ref + 0.5 * (it.t0 + it.t1) * it.direction for it in sub])
         xy = np.column_stack([mids @ u, mids @ v])
@@ -358,7 +351,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
     # --- axis: of the head-side hole (or the bolt)
     head_item = bolts[0] if bolts else layer_items[0]
     p0 = head_item.ref + float(np.dot(origin + s_b * e - head_item.ref, head_item.direction)) * head_item.direction
-    u, v = _frame(e)
+    u, v = axis_frame(e)
     for l, it in zip(layers, layer_items):
         q = it.ref - p0
         q = q - np.dot(q, it.direction) * it.direction
