@@ -154,7 +154,7 @@ def test_tapped_joint_effective_grip_and_far_cone():
 
 
 def test_without_preload_bolt_takes_whole_load():
-    # issue 2 conventions: no preload -> C reported but unused, n_0 = 0 and the separation check fails
+    # the engine's conventions (checks module docstring): no preload -> C reported but unused, n_0 = 0 and the separation check fails
     spec = metric_joint(preload=PreloadSpec("none", 0.0), load_min=0.0, load_max=20000.0)
     r = evaluate(spec)
     assert 0 < r.joint_constant < 1

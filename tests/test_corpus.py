@@ -66,7 +66,7 @@ def _run(case, tmp_path, capfd):
 
 def test_corpus_is_big_enough_and_complete():
     bad = [c for c in CASES if c["exit"] == 2]
-    assert len(bad) >= 30                                    # issue 8: at least 30 cases
+    assert len(bad) >= 30                                    # the corpus covers at least 30 bad-input cases
     for c in CASES:
         path = CORPUS / c["file"]
         assert path.exists() or "does not exist" in c["names"], c["file"]

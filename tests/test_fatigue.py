@@ -75,7 +75,7 @@ def test_thread_kf_table_8_16():
     assert cat.thread_kf("SAE 2", "cut")[0] == 2.8
     assert cat.thread_kf("4.6", "rolled")[0] == 2.2
     assert cat.thread_kf("5.8", "fillet")[0] == 2.1
-    assert cat.thread_kf("12.9", "cut") == (3.8, "high")   # issue 2: above 10.9 -> high-grade row
+    assert cat.thread_kf("12.9", "cut") == (3.8, "high")   # our convention: above 10.9 -> high-grade row
     assert cat.thread_kf("A4-80", "rolled", 800.0) == (3.0, "high")   # by tensile strength (our rule)
     assert cat.thread_kf("A2-50", "rolled", 500.0) == (2.2, "low")
     with pytest.raises(InputError):
@@ -92,7 +92,7 @@ def test_table_8_17_endurance():
     assert cat.table_endurance("SAE grade 5", 1.25 * 25.4).Se == pytest.approx(16.3 * KPSI)
     assert cat.table_endurance("SAE 7", 25.4).Se == pytest.approx(20.6 * KPSI)
     assert cat.table_endurance("SAE 8", 25.4).Se == pytest.approx(23.2 * KPSI)
-    # nearest row outside the range (issue 2 convention)
+    # nearest row outside the range (our convention, bolt_endurance docstring)
     row = cat.table_endurance("8.8", 12.0)
     assert (row.Se, row.in_range) == (129.0, False)
     assert cat.table_endurance("10.9", 4.0).in_range is False

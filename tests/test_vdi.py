@@ -263,7 +263,7 @@ def _m10_joint(**over) -> JointSpec:
 def test_chain_pinned_meanings_and_formula_steps():
     spec = _m10_joint(vdi={"scatter": 1.6, "clamp_required": 2000.0})
     r = vdi.vdi_chain(spec)
-    # issue 3 pinned meanings
+    # the fixed meanings of the preload window (vdi_chain docstring)
     assert r.preload_max == pytest.approx(r.F_M_zul)
     assert r.preload_min == pytest.approx(r.F_M_zul / 1.6)
     assert r.preload == pytest.approx(r.preload_min - r.F_Z)

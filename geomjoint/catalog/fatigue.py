@@ -144,7 +144,7 @@ def thread_kf(grade: str, form: str, tensile: float | None = None) -> tuple[floa
 
     Rows: SAE 0-2 / ISO 3.6-5.8 (rolled 2.2, cut 2.8, fillet 2.1) and SAE 4-8 / ISO
     6.6-10.9 (rolled 3.0, cut 3.8, fillet 2.3).  ISO classes above 10.9 take the high-grade
-    row (issue 2 conventions).  A grade the table does not name (stainless, ...) is placed
+    row (our convention: the strongest row the table has).  A grade the table does not name (stainless, ...) is placed
     by its tensile strength against :data:`KF_HIGH_GRADE_MIN_TENSILE` (our rule).
 
     Returns (K_f, row name: "low" | "high").

@@ -2,7 +2,7 @@
 
 Composes bolt and member stiffness, preload, the static factors and the fatigue factor
 of Budynas & Nisbett, *Shigley's Mechanical Engineering Design*, 10th ed., ch. 8
-(equation numbers from memory), with the conventions pinned in issue 2:
+(equation numbers from memory), with these conventions of ours where the book leaves a choice:
 
 - no preload: C is reported but unused, the bolt carries the whole load, the separation
   factor is 0 (its check fails) and yield/load factors use C = 1;
@@ -65,7 +65,7 @@ def load_factor(proof: float, stress_area: float, C: float, load: float, preload
 def separation_factor(C: float, load: float, preload: float) -> float | None:
     """Joint-separation factor n_0 = F_i / ((1 - C) P) (Shigley 10th ed., eq. 8-30); None for P <= 0.
 
-    No preload gives 0 (issue 2 convention, even without load).
+    No preload gives 0, even without load (our convention: an unpreloaded joint is open).
 
     >>> round(separation_factor(0.25, 10000.0, 52477.0), 4)
     6.9969

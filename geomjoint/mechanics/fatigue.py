@@ -82,7 +82,7 @@ class Endurance:
 def bolt_endurance(grade: str, d: float, S_ut: float, threads: str = "rolled", *,
                    endurance: str = "auto", surface: str = "machined", temperature: float = ROOM_TEMPERATURE,
                    reliability: float = 0.99, Se: float | None = None) -> Endurance:
-    """Endurance strength of a bolt by the rules of issue 2.
+    """Endurance strength of a bolt: the tabulated value where it applies, else the Marin way.
 
     - ``Se`` given: used as is.
     - ``endurance = "auto"``: rolled threads of a class in Shigley Table 8-17 take the

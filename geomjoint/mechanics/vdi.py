@@ -923,7 +923,8 @@ class VdiResult:
     notes: list[str] = field(default_factory=list)
 
     def tightening(self) -> dict[str, float]:
-        """The `tightening` block of the result document (N*mm, N), pinned meanings of issue 3."""
+        """The `tightening` block of the result document (N*mm, N): torque M_A, the preload window
+        F_M,zul / alpha_A .. F_M,zul and F_M,zul itself (meanings as in `vdi_chain`)."""
         return {
             "torque": self.M_A,
             "preload_min": self.preload_min,
@@ -1033,8 +1034,8 @@ def vdi_chain(spec: JointSpec) -> VdiResult:
     """Run the VDI 2230-1:2015 calculation (R0-R13) for one joint.
 
     Uses ``spec.vdi`` (defaults of :class:`VdiSpec` when None), the fastener's numbers,
-    the clamped layers and ``outside_diameter``.  The preload window follows the pinned
-    meanings of issue 3: M_A produces F_M,zul at the minimum thread friction given;
+    the clamped layers and ``outside_diameter``.  The preload window (our fixed
+    reading of the chain, so the JSON's tightening block means one thing): M_A produces F_M,zul at the minimum thread friction given;
     preload_max = F_M,zul, preload_min = F_M,zul/alpha_A, service preload = preload_min - F_Z.
     """
     v = _vdi_inputs(spec)
