@@ -1,4 +1,18 @@
-"""VDI 2230-1:2015 chain: against Table A1, against independent integration, and hand arithmetic."""
+"""VDI 2230-1:2015 chain: against Table A1, against independent integration, and hand arithmetic.
+
+What can catch a wrong value here, and what cannot:
+
+- Independent: Table A1 (F_M,zul and M_A, values recalled from the table itself, not from the
+  formulas' coefficients) checks the preload and torque formulas with their constants; the
+  quadratures check the substitute-body integrals; the derived constants (0.16, 0.58, 1.155)
+  are checked against the identities they round.
+- Consistency checks only (marked so below): the cone tangent coefficients (0.362, 0.032,
+  0.153 / 0.348, 0.013, 0.193), the embedding guide values of Table 5, the substitute lengths
+  of head, engaged thread and nut (0.5 d, 0.4 d, 0.33 d) and sigma_ASV = 0.85 (150/d + 45) are
+  recalled from memory in the module, and the tests re-type the same recalled numbers.  They
+  catch a slip in the code that uses them, not a wrong coefficient: that needs the guideline
+  at hand (VDI 2230-1:2015 Section 5.1.1.1, 5.1.2.2, Table 5, R9).
+"""
 from __future__ import annotations
 
 import math
@@ -177,7 +191,16 @@ def test_layered_body_unequal_bearing_diameters_against_quadrature():
     assert got == pytest.approx(ref, rel=1e-9)
 
 
+def test_derived_constants_are_the_identities_they_round():
+    # mathematics: M_A = F (P/(2 pi) + d2 mu_G / (2 cos 30deg) + ...) for a 60 deg thread; the
+    # guideline prints the factors rounded (0.16, 0.58, 1.155)
+    assert vdi.TORQUE_PITCH_COEFF == pytest.approx(1.0 / (2.0 * math.pi), abs=0.005)
+    assert vdi.TORQUE_THREAD_COEFF == pytest.approx(1.0 / (2.0 * math.cos(math.radians(30.0))), abs=0.005)
+    assert vdi.FLANK_FRICTION_FACTOR == pytest.approx(1.0 / math.cos(math.radians(30.0)), abs=0.0005)
+
+
 def test_cone_tangents_hand_values():
+    # CONSISTENCY CHECK ONLY: the module's recalled coefficients re-typed (see the module docstring)
     # VDI 2230-1:2015 Section 5.1.2.2 formulas (from memory), hand arithmetic:
     # 0.362 + 0.032 ln 1 + 0.153 ln 3 = 0.53009
     assert vdi.cone_tangent_through(2.0, 3.0) == pytest.approx(0.362 + 0.153 * 1.0986123, abs=1e-6)
@@ -191,6 +214,8 @@ def test_cone_tangents_hand_values():
 # ---------------------------------------------------------------- bolt, load factor, embedding
 
 def test_bolt_resilience_hand_sum():
+    # CONSISTENCY CHECK ONLY for the substitute lengths 0.5 d / 0.4 d / 0.33 d (recalled, re-typed);
+    # independent for the sum of the springs in series (mathematics)
     # VDI 2230-1:2015 Section 5.1.1.1 (from memory), M10 hex: l_SK = 5, l_G = 5 on d3, l_M = 4
     d, d3, E = 10.0, 8.160, E_STEEL
     A_N, A_3 = math.pi * d**2 / 4, math.pi * d3**2 / 4
@@ -211,6 +236,7 @@ def test_load_factor_and_embedding_loss_hand():
 
 
 @pytest.mark.parametrize("roughness,kind,expected_um", [
+    # CONSISTENCY CHECK ONLY: the module's recalled guide values re-typed (see the module docstring)
     # VDI 2230-1:2015 Table 5 (from memory): thread + 2 bearing faces + 1 inner interface
     ("fine", "tension", 3 + 2 * 2.5 + 1.5),
     ("medium", "tension", 3 + 2 * 3 + 2),
@@ -224,6 +250,7 @@ def test_embedding_table(roughness, kind, expected_um):
 
 
 def test_sigma_asv_values():
+    # CONSISTENCY CHECK ONLY: the recalled formula re-typed (see the module docstring)
     # VDI 2230-1:2015 R9 (from memory): sigma_ASV = 0.85 (150/d + 45)
     assert vdi.fatigue_strength_rolled_before(10.0) == pytest.approx(51.0)
     assert vdi.fatigue_strength_rolled_before(20.0) == pytest.approx(44.625)
