@@ -93,6 +93,26 @@ def imported_modules(path: Path, top_level_only: bool = False) -> list[tuple[int
     return found
 
 
+def _cad_deselected(config) -> bool:
+    """True when the -m expression drops every test marked cad (then its modules are not even
+    imported, so the kernel is never loaded)."""
+    expr = config.getoption("markexpr", "") or ""
+    if not expr:
+        return False
+    try:
+        from _pytest.mark.expression import Expression
+    except ImportError:     # pytest's expression parser moved: collect everything, marks still deselect
+        return False
+    compiled = Expression.compile(expr)
+    return not compiled.evaluate(lambda name: name in ("cad", "browser"))
+
+
+def pytest_ignore_collect(collection_path, config):
+    if collection_path.suffix == ".py" and collection_path.stem in CAD_TEST_MODULES | BROWSER_TEST_MODULES:
+        return True if _cad_deselected(config) else None
+    return None
+
+
 def pytest_collection_modifyitems(config, items):
     for item in items:
         stem = Path(str(item.fspath)).stem
