@@ -53,19 +53,30 @@ def number(row: Mapping[str, str], key: str) -> float | None:
     return float(text) if text else None
 
 
+#: factors from the data files' units to the internal ones (mm, MPa)
+LENGTH_UNITS = MappingProxyType({"mm": 1.0, "in": MM_PER_INCH})
+STRESS_UNITS = MappingProxyType({"MPa": 1.0, "kpsi": MPA_PER_KPSI})
+
+
+def _in_internal(value: float, unit: str, factors: Mapping[str, float], kind: str) -> float:
+    if unit not in factors:
+        raise InputError(f"catalog data: unknown {kind} unit {unit!r}")
+    return value * factors[unit]
+
+
 def to_mm(value: float, unit: str) -> float:
-    """A length given in the data file's unit ("mm" or "in") in millimetres."""
-    if unit == "mm":
-        return value
-    if unit == "in":
-        return value * MM_PER_INCH
-    raise InputError(f"catalog data: unknown length unit {unit!r}")
+    """A length given in the data file's unit ("mm" or "in") in millimetres.
+
+    >>> to_mm(2.0, "in")
+    50.8
+    """
+    return _in_internal(value, unit, LENGTH_UNITS, "length")
 
 
 def to_mpa(value: float, unit: str) -> float:
-    """A stress given in the data file's unit ("MPa" or "kpsi") in MPa."""
-    if unit == "MPa":
-        return value
-    if unit == "kpsi":
-        return value * MPA_PER_KPSI
-    raise InputError(f"catalog data: unknown stress unit {unit!r}")
+    """A stress given in the data file's unit ("MPa" or "kpsi") in MPa.
+
+    >>> round(to_mpa(120.0, "kpsi"), 1)
+    827.4
+    """
+    return _in_internal(value, unit, STRESS_UNITS, "stress")
