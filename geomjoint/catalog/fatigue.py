@@ -12,17 +12,15 @@ Stresses MPa, lengths mm, temperatures degC.
 """
 from __future__ import annotations
 
-import csv
 import functools
 import math
 import re
 from dataclasses import dataclass
 from pathlib import Path
 
+from geomjoint.catalog.tables import load_table
 from geomjoint.errors import InputError, did_you_mean
 from geomjoint.units import MM_PER_INCH, MPA_PER_KPSI
-
-_DATA = Path(__file__).with_name("data")
 
 #: a size counts as inside a table range within this tolerance, mm (inch sizes converted)
 SIZE_TOLERANCE = 0.01
@@ -50,9 +48,9 @@ SURFACE_ALIASES = {
 THREAD_FORMS = ("rolled", "cut", "fillet")
 
 
-def _rows(name: str) -> list[dict]:
-    with open(_DATA / name, newline="", encoding="utf-8") as f:
-        return list(csv.DictReader(f))
+def _rows(name: str):
+    """Rows of the data file `name` ("fatigue_kf.csv"), read once by the catalog's one loader."""
+    return load_table(Path(name).stem)
 
 
 def normalize_grade(name: str) -> str:

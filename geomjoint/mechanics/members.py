@@ -6,19 +6,26 @@ stiffness N/mm, compliance mm/N, angles in degrees.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
+from types import MappingProxyType
 
+from geomjoint.catalog.materials import WILEMAN_GENERAL, material
 from geomjoint.errors import InputError
 
-#: Wileman, Choudhury & Green (1991) constants (A, B) of k_m = E d A exp(B d / l), as
-#: reprinted in Shigley 10th ed., Table 8-8 (from memory)
-WILEMAN_CONSTANTS = {
-    "steel": (0.78715, 0.62873),
-    "aluminium": (0.79670, 0.63816),
-    "copper": (0.79568, 0.63553),
-    "gray cast iron": (0.77871, 0.61616),
-    "general": (0.78952, 0.62914),
-}
+
+def _wileman_table() -> Mapping[str, tuple[float, float]]:
+    """Wileman, Choudhury & Green (1991) constants (A, B) of k_m = E d A exp(B d / l) by material,
+    read from the catalog (materials.csv, Shigley 10th ed. Table 8-8), plus the general expression."""
+    out = {"general": WILEMAN_GENERAL}
+    for key, name in (("steel", "steel"), ("aluminium", "aluminium"), ("copper", "copper alloy"),
+                      ("gray cast iron", "gray cast iron")):
+        m = material(name)
+        out[key] = (m.wileman_A, m.wileman_B)
+    return MappingProxyType(out)
+
+
+#: the Wileman constants by material (read-only; the numbers live in the catalog)
+WILEMAN_CONSTANTS = _wileman_table()
 
 #: below this half-angle (deg) a frustum is treated as a straight cylinder (tan -> 0 limit)
 _CYLINDER_ANGLE = 1e-9
