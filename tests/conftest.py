@@ -113,6 +113,23 @@ def pytest_ignore_collect(collection_path, config):
     return None
 
 
+def _kernel_loaded() -> bool:
+    import sys
+
+    return any(name.split(".")[0] in CAD_LIBRARIES for name in sys.modules)
+
+
+@pytest.fixture(autouse=True)
+def _no_kernel_without_the_cad_mark(request):
+    """In a run that drops the cad tests, a test that loads the CAD kernel fails, naming the
+    mark it lacks (so the pure-mechanics suite stays free of the kernel)."""
+    before = _kernel_loaded()
+    yield
+    if not before and _cad_deselected(request.config) and _kernel_loaded():
+        pytest.fail(f"{request.node.nodeid} loads the CAD kernel: mark it cad (tests/conftest.py)",
+                    pytrace=False)
+
+
 def pytest_collection_modifyitems(config, items):
     for item in items:
         stem = Path(str(item.fspath)).stem

@@ -263,6 +263,7 @@ def model_job(tmp_path, extra="", defaults=""):
     return load_job(write(tmp_path, text))
 
 
+@pytest.mark.cad   # reads the sample STEP model
 def test_model_joint_bearing_key_overrides_modelled_washers(tmp_path):
     # the conveyor bracket sample: M10 bolts with an ISO 7089 washer under head and nut (d2 = 20 mm)
     from geomjoint.analysis import analyze_job
@@ -281,6 +282,7 @@ def test_model_joint_bearing_key_overrides_modelled_washers(tmp_path):
 
 # ----------------------------------------------------------------------------- rules that match nothing
 
+@pytest.mark.cad   # reads the sample STEP model
 @pytest.mark.parametrize("extra, table, pattern, near", [
     ('[[load]]\njoints = "J1"\naxial = { max = "1 kN" }', "[[load]]", "'J1'", "'J01'"),
     ('[[fasteners]]\njoints = "J5*"\ngrade = "10.9"', "[[fasteners]]", "'J5*'", "J0"),
@@ -301,6 +303,7 @@ def test_model_rule_matching_no_joint_is_exit_2(tmp_path, extra, table, pattern,
     assert "matches no joint" in message and near in message and "\n" not in message
 
 
+@pytest.mark.cad   # reads the sample STEP model
 def test_materials_pattern_matching_no_part_is_exit_2(tmp_path):
     from geomjoint.analysis import analyze_job
 
@@ -325,6 +328,7 @@ def test_typed_job_rules_matching_nothing(tmp_path):
         analyze_job(load_job(write(tmp_path, 'exclude = "A9"\n' + BASE)))
 
 
+@pytest.mark.cad   # reads the sample STEP model
 def test_exclude_joints_by_id_and_glob(tmp_path):
     from geomjoint.analysis import analyze_job
     from geomjoint.report.json_doc import result_document
@@ -345,6 +349,7 @@ def test_exclude_joints_by_id_and_glob(tmp_path):
 
 # ----------------------------------------------------------------------------- unloaded joints
 
+@pytest.mark.cad   # reads the sample STEP model
 def test_unloaded_model_joints_are_checked_and_reported(tmp_path):
     from conftest import validate_result
     from geomjoint.analysis import analyze_job
@@ -458,6 +463,7 @@ def test_progress_whole_lines_in_a_log_in_place_on_a_terminal():
 
 # ----------------------------------------------------------------------------- finding codes, report labels
 
+@pytest.mark.cad   # geomjoint.findings reads the scan's codes from geometry.scan (the kernel)
 def test_one_complete_list_of_finding_codes_documented():
     import re
     from pathlib import Path
