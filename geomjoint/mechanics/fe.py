@@ -26,9 +26,18 @@ Modelling choices (why, briefly):
   assumed not to slip under the small radial strains of the stack), pairs in tension
   are released, and released pairs that would overlap are tied again (active set,
   iterated until it no longer changes).  ``interfaces="bonded"`` ties every pair.
-* Tapped hole: the far side's load is carried by the engaged thread, modelled as a
-  uniform axial traction on the hole wall (r = thread_diameter/2) of the last layer
-  over the engaged length, pointing towards the head.  No thread geometry.
+* Tapped hole: the far side's load is carried by the engaged thread, modelled as an
+  axial traction on the hole wall (r = thread_diameter/2) of the tapped layer over the
+  engaged length, pointing towards the head, distributed along the engagement by
+  :func:`thread_load_density` (highest at the first engaged thread; Sopwith 1948) or
+  uniformly.  No thread geometry: the screw's own engaged thread is not in the model.
+  The tapped layer is modelled to its full thickness and width.
+* Member deformation of a tapped joint (docs/tapped_stiffness.md): the approach of the
+  head bearing face to the interface with the tapped part, i.e. the compliance of the
+  clamped layers alone, from their strain energy (:func:`body_compliance`).  The rest of
+  the approach, the tapped part from that interface to its thread flanks, goes to the
+  bolt side (as VDI 2230-1 delta_M) and is reported as ``thread_region_compliance``.
+  A through joint's member deformation is the approach of its two bearing faces.
 * Rigid-body motion: the only one in axisymmetry is an axial translation; the loads
   are self-equilibrated, so one axial dof is fixed (it does not change f . u).
 * Mesh: structured, graded towards the hole, the bearing edge (r = d_w/2) and every
@@ -58,6 +67,7 @@ from skfem import (Basis, BilinearForm, ElementQuad2, ElementVector,
                    FacetBasis, LinearForm, MeshQuad, asm)
 
 from geomjoint.errors import InputError
+from geomjoint.mechanics.vdi import ENGAGED_THREAD_FACTOR
 
 #: relative change of k_m under one uniform mesh refinement that is accepted
 MESH_TOLERANCE = 0.01
@@ -79,6 +89,17 @@ RADIUS_SNAP = 0.02
 #: half-angle (deg) of the pressure cone whose reach starts the active-set iteration
 #: (the 30 deg frustum of Shigley 10th ed. Sec. 8-5; only a first guess, the iteration corrects it)
 START_CONE_ANGLE = 30.0
+#: elements across the bearing annulus (d_h/2 .. d_w/2) of the base mesh, other radial spans pro rata:
+#: enough that one uniform refinement changes k_m by under MESH_TOLERANCE on the reference cases
+BEARING_ANNULUS_ELEMENTS = 6
+#: axial elements of one layer on the base mesh, two per annulus width of thickness, clipped to this
+#: range: 4 still bend a thin layer, and beyond 10 the steps grow geometrically instead (layer_interval)
+LAYER_ELEMENTS = (4, 10)
+#: most doublings of the plate radius in the radius search (4096 times the start is beyond any part)
+MAX_RADIUS_DOUBLINGS = 12
+#: thread load distributions along the engagement: "decaying" (shear-lag, thread_load_density) or
+#: "uniform" (the same traction over the whole engaged length)
+THREAD_LOADS = ("decaying", "uniform")
 
 
 @dataclass
@@ -101,6 +122,9 @@ class FeResult:
     mesh_change: float               # |k(refined) - k(coarse)| / k(refined)
     elements: int                    # elements of the finest mesh solved
     seconds: float                   # wall time of the whole call
+    #: tapped joint: compliance of the tapped part from the interface to its thread flanks
+    #: (bolt side, like VDI delta_M), mm/N; 0.0 for a through joint
+    thread_region_compliance: float = 0.0
 
 
 # --------------------------------------------------------------------------- forms
@@ -163,6 +187,38 @@ def surface_traction(v, w):
     return 2.0 * np.pi * w.x[0] * (w.t_r * v[0] + w.t_z * v[1])
 
 
+def thread_load_density(s, engaged: float, decay_length: float | None):
+    """Axial load per unit engaged length at depth s below the first engaged thread, per unit load, 1/mm.
+
+        q(s) = lambda cosh(lambda (L - s)) / sinh(lambda L),   lambda = 1 / l_decay,   integral_0^L q ds = 1
+
+    The shear-lag solution of Sopwith (The distribution of load in screw threads, Proc.
+    IMechE 159 (1948) 373-383) for an external thread engaged in a part loaded in
+    compression (a nut, or a tapped part clamped at its top face): the load is largest at
+    the first engaged thread and decays along the engagement with the length l_decay
+    (Yamamoto's distribution has the same cosh form).  We take l_decay = l_G = 0.5 d, the
+    substitute length VDI 2230-1 gives the engaged screw thread: in the shear-lag model
+    the entry compliance of a long engagement is l_decay / (E A), so the two agree (our
+    reading).  ``decay_length`` None gives the uniform load q = 1/L.  ``s`` in mm, array or
+    number; the exponential form avoids the overflow of cosh / sinh for long engagements.
+
+    Examples
+    --------
+    M12, 18 mm engaged, l_decay = 6 mm: the first pitch (1.75 mm) carries a quarter of the load.
+
+    >>> from scipy.integrate import quad
+    >>> round(quad(thread_load_density, 0.0, 1.75, args=(18.0, 6.0))[0], 3)
+    0.254
+    >>> round(quad(thread_load_density, 0.0, 18.0, args=(18.0, 6.0))[0], 12)
+    1.0
+    """
+    s = np.asarray(s, dtype=float)
+    if decay_length is None or not np.isfinite(decay_length):
+        return np.full_like(s, 1.0 / engaged)
+    lam = 1.0 / decay_length
+    return lam * (np.exp(-lam * s) + np.exp(-lam * (2.0 * engaged - s))) / (1.0 - np.exp(-2.0 * lam * engaged))
+
+
 # --------------------------------------------------------------------------- model
 
 class AxisymmetricModel:
@@ -197,9 +253,15 @@ class AxisymmetricModel:
         view = self.basis.get_dofs(facets)
         return np.asarray(view.all("u^1" if component == 0 else "u^2"), dtype=int)
 
-    def traction(self, facets, t_r: float, t_z: float) -> np.ndarray:
-        """Consistent load vector of a uniform traction (t_r, t_z) in MPa on ``facets``."""
+    def traction(self, facets, t_r: float, t_z) -> np.ndarray:
+        """Consistent load vector of a traction (t_r, t_z) in MPa on ``facets``.
+
+        ``t_z`` is a number (uniform) or a function of the point x = [r, z] (arrays over the
+        quadrature points of the facets).
+        """
         fb = FacetBasis(self.mesh, self.basis.elem, facets=facets, intorder=INTORDER)
+        if callable(t_z):
+            t_z = t_z(np.asarray(fb.global_coordinates()))
         return asm(surface_traction, fb, t_r=t_r, t_z=t_z)
 
     def solve(self, f: np.ndarray, fixed: Sequence[int] = (), groups: Sequence[Sequence[int]] = (),
@@ -345,6 +407,7 @@ class StackSolution:
     passes: int = 0
     elements: int = 0
     load: np.ndarray | None = None   # the load vector f (N), dof order of model.basis
+    thread_region: float = 0.0       # tapped: the tapped part's compliance (bolt side), mm/N
 
 
 @dataclass
@@ -360,6 +423,7 @@ class StackGeometry:
     bearing: str
     interfaces: str
     tapped: bool
+    thread_decay: float | None = None   # l_decay of thread_load_density, mm; None: uniform thread load
 
 
 def _grids(g: StackGeometry, r_out: float, level: int):
@@ -367,9 +431,8 @@ def _grids(g: StackGeometry, r_out: float, level: int):
     radii = sorted({g.r_h, g.r_w, g.r_w2} | ({g.r_t} if g.tapped else set()))
     r_parts = []
     lo = radii[0]
-    n_annulus = 6
     for hi in radii[1:]:
-        n = max(2, int(np.ceil(n_annulus * (hi - lo) / (g.r_w - g.r_h))))
+        n = max(2, int(np.ceil(BEARING_ANNULUS_ELEMENTS * (hi - lo) / (g.r_w - g.r_h))))
         r_parts.append(graded_interval(lo, hi, n))
         lo = hi
     h0 = (r_parts[-1][-1] - r_parts[-1][-2]) if r_parts else 0.1 * g.r_w
@@ -379,12 +442,12 @@ def _grids(g: StackGeometry, r_out: float, level: int):
     ref = g.r_w - g.r_h
     z_grids = []
     for i, lay in enumerate(g.layers):
-        n = int(np.clip(np.ceil(2.0 * lay.thickness / ref), 4, 10))
+        n = int(np.clip(np.ceil(2.0 * lay.thickness / ref), *LAYER_ELEMENTS))
         z = layer_interval(lay.thickness, ref / Z_FIRST_STEP, n)
         if g.tapped and i == len(g.layers) - 1 and g.engaged < lay.thickness * (1 - 1e-9):
             cut = lay.thickness - g.engaged
-            z = np.unique(np.concatenate([graded_interval(0.0, cut, max(2, n // 2)),
-                                          graded_interval(cut, lay.thickness, n)]))
+            z = np.unique(np.concatenate([layer_interval(cut, ref / Z_FIRST_STEP, max(2, n // 2)),
+                                          cut + layer_interval(g.engaged, ref / Z_FIRST_STEP, n)]))
         z_grids.append(z)
     return refine_grid(r, level), [refine_grid(z, level) for z in z_grids]
 
@@ -416,71 +479,92 @@ def _interface_pairs(model: AxisymmetricModel, sm: StackMesh):
     return out
 
 
-def solve_member_stack(g: StackGeometry, r_out: float, level: int = 0,
-                       contact_guess: Sequence[float] | None = None,
-                       z_grids: Sequence[np.ndarray] | None = None) -> StackSolution:
-    """Solve the stack for unit load at one outer radius and mesh level (see the module text).
+@dataclass
+class StackLoads:
+    """The unit preload pair on the stack, as load vectors and constraints (see the module text)."""
 
-    ``contact_guess``: contact diameters per interface from an earlier solve, used as the
-    starting active set (the iteration then only corrects it); None starts bonded.
-    ``z_grids``: node heights per layer (from its bottom face) replacing the automatic ones.
-    """
+    head: np.ndarray                 # head (or washer) bearing, P down
+    far: np.ndarray                  # nut bearing, or the engaged thread of a tapped part, P up
+    groups: list[np.ndarray]         # axial dofs of each rigid bearing face (move as one)
+    fixed: np.ndarray                # the one axial dof that removes the rigid-body translation
+
+
+def _stack_model(g: StackGeometry, r_out: float, level: int,
+                 z_grids: Sequence[np.ndarray] | None) -> tuple[AxisymmetricModel, StackMesh]:
+    """Mesh of the stack at one outer radius and mesh level, with each element's E and nu."""
     r_grid, auto_z = _grids(g, r_out, level)
-    z_grids = auto_z if z_grids is None else z_grids
     inner = [g.r_h] * len(g.layers)
     if g.tapped:
         inner[-1] = g.r_t
-    sm = stack_mesh([l.thickness for l in g.layers], inner, r_grid, z_grids)
+    sm = stack_mesh([l.thickness for l in g.layers], inner, r_grid, auto_z if z_grids is None else z_grids)
     E_el = np.array([g.layers[i].E for i in sm.layer_of_element])
     nu_el = np.array([g.layers[i].poisson for i in sm.layer_of_element])
-    model = AxisymmetricModel(sm.mesh, E_el, nu_el)
-    P = 1.0
+    return AxisymmetricModel(sm.mesh, E_el, nu_el), sm
+
+
+def _bearing_load(g: StackGeometry, model: AxisymmetricModel, facets, load: float, area: float,
+                  groups: list) -> np.ndarray:
+    """Load vector of a bearing face: a point force on the face's master dof (rigid) or a uniform pressure."""
+    if g.bearing == "rigid":
+        dz = model.dofs(facets, 1)
+        groups.append(dz)
+        f = np.zeros(model.N)
+        f[dz[0]] = load
+        return f
+    return model.traction(facets, 0.0, load / area)
+
+
+def _stack_loads(g: StackGeometry, model: AxisymmetricModel, sm: StackMesh, P: float) -> StackLoads:
+    """The preload pair: P down on the head bearing, P up on the nut bearing or the engaged thread."""
     H = sm.z_faces[-1]
     eps = 1e-9 * max(1.0, H)
+    r_out = float(model.doflocs[0].max())
 
     def annulus(z0, r_in, r_b):
         return model.facets(lambda x: (np.abs(x[1] - z0) < eps) & (x[0] > r_in - eps) & (x[0] < r_b + eps))
 
-    f = np.zeros(model.N)
-    groups = []
-    top = annulus(H, g.r_h, g.r_w)
-    area_top = np.pi * (g.r_w ** 2 - g.r_h ** 2)
-    loads = [(top, -P, area_top, g.r_w)]
+    groups: list[np.ndarray] = []
+    head = _bearing_load(g, model, annulus(H, g.r_h, g.r_w), -P, np.pi * (g.r_w ** 2 - g.r_h ** 2), groups)
     if g.tapped:
         t_last = g.layers[-1].thickness     # the tapped layer spans 0 <= z <= t_last
         wall = model.facets(lambda x: (np.abs(x[0] - g.r_t) < eps) & (x[1] < t_last + eps)
                             & (x[1] > t_last - g.engaged - eps))
-        f += model.traction(wall, 0.0, P / (2.0 * np.pi * g.r_t * g.engaged))
+        far = model.traction(wall, 0.0, lambda x: P * thread_load_density(t_last - x[1], g.engaged, g.thread_decay)
+                             / (2.0 * np.pi * x[0]))
+        far *= P / far[model.component == 1].sum()   # statics exact, whatever the quadrature error
     else:
-        bot = annulus(0.0, g.r_h, g.r_w2)
-        loads.append((bot, +P, np.pi * (g.r_w2 ** 2 - g.r_h ** 2), g.r_w2))
-    for facets, load, area, _ in loads:
-        if g.bearing == "rigid":
-            dz = model.dofs(facets, 1)
-            groups.append(dz)
-            f[dz[0]] += load            # a point force on the face's master dof
-        else:
-            f += model.traction(facets, 0.0, load / area)
+        far = _bearing_load(g, model, annulus(0.0, g.r_h, g.r_w2), +P, np.pi * (g.r_w2 ** 2 - g.r_h ** 2), groups)
     # rigid-body translation: fix one axial dof on the outer rim (loads are self-equilibrated)
-    rim = model.facets(lambda x: np.abs(x[0] - r_grid[-1]) < eps)
-    fixed = model.dofs(rim, 1)[:1]
+    rim_all = model.facets(lambda x: np.abs(x[0] - r_out) < eps)
+    return StackLoads(head, far, groups, model.dofs(rim_all, 1)[:1])
 
-    pairs = _interface_pairs(model, sm)
+
+def _start_active_set(g: StackGeometry, pairs, contact_guess: Sequence[float] | None) -> list[np.ndarray]:
+    """Node pairs in contact to start from: all (bonded, or no guess), else those inside the guessed diameters."""
     if contact_guess is None or g.interfaces == "bonded":
-        active = [np.ones(p[0].size, dtype=bool) for p in pairs]
-    else:
-        active = [p[4] <= 0.5 * dc * (1 + 1e-9) for p, dc in zip(pairs, contact_guess)]
-        for act in active:
-            act[0] = True                   # the pair at the hole always carries load
+        return [np.ones(p[0].size, dtype=bool) for p in pairs]
+    active = [p[4] <= 0.5 * dc * (1 + 1e-9) for p, dc in zip(pairs, contact_guess)]
+    for act in active:
+        act[0] = True                       # the pair at the hole always carries load
+    return active
+
+
+def _contact_solve(g: StackGeometry, model: AxisymmetricModel, pairs, loads: StackLoads, f: np.ndarray,
+                   active: list[np.ndarray]) -> tuple[np.ndarray, list[np.ndarray], int]:
+    """Active-set iteration of the interface contact: (u, pairs in contact per interface, passes).
+
+    Tied pairs in tension are released; released pairs that would overlap are tied again,
+    until the set no longer changes (or MAX_CONTACT_PASSES).
+    """
     passes = 0
     while True:
         passes += 1
         ties = []
         for (ur, uz, lr, lz, _), act in zip(pairs, active):
             ties += list(zip(ur[act], lr[act])) + list(zip(uz[act], lz[act]))
-        u = model.solve(f, fixed=fixed, groups=groups, ties=ties)
+        u = model.solve(f, fixed=loads.fixed, groups=loads.groups, ties=ties)
         if g.interfaces == "bonded" or not pairs:
-            break
+            return u, active, passes
         reaction = model.K @ u - f
         changed = False
         for k, ((ur, uz, lr, lz, _), act) in enumerate(zip(pairs, active)):
@@ -494,11 +578,13 @@ def solve_member_stack(g: StackGeometry, r_out: float, level: int = 0,
                 changed = True
                 active[k] = new
         if not changed or passes >= MAX_CONTACT_PASSES:
-            break
-    approach = float(f @ u) / P
+            return u, active, passes
+
+
+def _contact_diameters(pairs, active: list[np.ndarray]) -> list[float]:
+    """Diameter of each interface's contact zone, mm: between the outermost pair in contact and the next, open one."""
     diam = []
     for (_, _, _, _, radius), act in zip(pairs, active):
-        # the zone's edge lies between the outermost pair in contact and the next, open one
         last = int(np.flatnonzero(act).max()) if act.any() else -1
         if last < 0:
             diam.append(0.0)
@@ -506,7 +592,48 @@ def solve_member_stack(g: StackGeometry, r_out: float, level: int = 0,
             diam.append(2.0 * float(radius[last]))
         else:
             diam.append(float(radius[last] + radius[last + 1]))
-    return StackSolution(P / approach, approach, diam, model, u, sm, passes, sm.mesh.t.shape[1], f)
+    return diam
+
+
+def body_compliance(K_body: sp.spmatrix, u: np.ndarray, P: float) -> float:
+    """Compliance of one body of the stack from its strain energy, mm/N: delta = u' K_body u / P^2.
+
+    Each body (the clamped layers, the tapped part) is a free body under its boundary loads:
+    by Clapeyron's theorem u' K_body u = 2 U_body is the work of those loads on their
+    work-conjugate displacements, i.e. P times the approach of its loaded faces (for the
+    clamped layers: the head bearing face towards the interface with the tapped part).
+    The bodies' compliances add up to the whole approach f . u / P^2.
+    """
+    return float(u @ (K_body @ u)) / (P * P)
+
+
+def solve_member_stack(g: StackGeometry, r_out: float, level: int = 0,
+                       contact_guess: Sequence[float] | None = None,
+                       z_grids: Sequence[np.ndarray] | None = None) -> StackSolution:
+    """Solve the stack for unit load at one outer radius and mesh level (see the module text).
+
+    ``contact_guess``: contact diameters per interface from an earlier solve, used as the
+    starting active set (the iteration then only corrects it); None starts bonded.
+    ``z_grids``: node heights per layer (from its bottom face) replacing the automatic ones.
+    """
+    P = 1.0
+    model, sm = _stack_model(g, r_out, level, z_grids)
+    loads = _stack_loads(g, model, sm, P)
+    f = loads.head + loads.far
+    pairs = _interface_pairs(model, sm)
+    u, active, passes = _contact_solve(g, model, pairs, loads, f, _start_active_set(g, pairs, contact_guess))
+    if g.tapped:
+        # by body (docs/tapped_stiffness.md): the clamped layers are the member, the tapped
+        # part's compliance (interface to thread flanks) goes to the bolt side
+        tapped_el = sm.layer_of_element == len(g.layers) - 1
+        K_tapped = assemble_elasticity(model.basis, np.where(tapped_el, model.lam, 0.0),
+                                       np.where(tapped_el, model.mu, 0.0))
+        thread_region = body_compliance(K_tapped, u, P)
+        delta_P = float(f @ u) / (P * P) - thread_region
+    else:
+        delta_P, thread_region = float(f @ u) / (P * P), 0.0
+    return StackSolution(P / delta_P, delta_P, _contact_diameters(pairs, active), model, u, sm, passes,
+                         sm.mesh.t.shape[1], f, thread_region)
 
 
 def _cone_contact_guess(g: StackGeometry) -> list[float]:
@@ -534,7 +661,7 @@ def _check(name: str, value, positive: bool = True) -> float:
 
 def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=None,
                   bearing="rigid", interfaces="contact", tapped=False, thread_diameter=None,
-                  engaged_length=None) -> StackGeometry:
+                  engaged_length=None, thread_load="decaying") -> StackGeometry:
     """Validate the inputs of :func:`fe_member_stiffness` and bundle them (radii in mm)."""
     if not layers:
         raise InputError("FE member stiffness: at least one layer is needed")
@@ -548,6 +675,9 @@ def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=
         raise InputError(f"FE member stiffness: bearing must be 'rigid' or 'pressure', got {bearing!r}")
     if interfaces not in ("contact", "bonded"):
         raise InputError(f"FE member stiffness: interfaces must be 'contact' or 'bonded', got {interfaces!r}")
+    if thread_load not in THREAD_LOADS:
+        raise InputError(f"FE member stiffness: thread_load must be one of {', '.join(THREAD_LOADS)}, "
+                         f"got {thread_load!r}")
     d_h = _check("hole_diameter", hole_diameter)
     d_w = _check("bearing_diameter", bearing_diameter)
     d_w2 = d_w if far_bearing_diameter is None else _check("far_bearing_diameter", far_bearing_diameter)
@@ -569,26 +699,31 @@ def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=
         r_w2 = r_w
     if tapped and abs(r_t - r_w2) < snap:
         r_w2 = r_t
+    decay = ENGAGED_THREAD_FACTOR * d_t if thread_load == "decaying" else None
     return StackGeometry(list(layers), r_h, r_w, r_w2, r_t, min(engaged, layers[-1].thickness),
-                         bearing, interfaces, bool(tapped))
+                         bearing, interfaces, bool(tapped), decay)
 
 
 def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_diameter: float,
                         far_bearing_diameter: float | None = None, outer_diameter: float | None = None,
                         bearing: str = "rigid", interfaces: str = "contact", tapped: bool = False,
                         thread_diameter: float | None = None, refine_check: bool = True,
-                        engaged_length: float | None = None) -> FeResult:
+                        engaged_length: float | None = None, thread_load: str = "decaying") -> FeResult:
     """Member stiffness k_m (N/mm) of a layered annular stack by axisymmetric FE.
 
-    k_m = P / delta with delta the mean axial approach of the two loaded faces (see the
-    module docstring for the model).  Parameters, mm / MPa: ``layers`` from the head
+    k_m = P / delta_P with delta_P the mean axial approach of the two bearing faces, or for a
+    tapped joint of the head bearing face to the interface with the tapped part (the
+    clamped layers only; see the module docstring for the model and the definition).  Parameters, mm / MPa: ``layers`` from the head
     side; ``hole_diameter`` d_h; ``bearing_diameter`` d_w of head or washer;
     ``far_bearing_diameter`` of nut or washer (default d_w); ``outer_diameter`` of the
     plate (default: doubled from about the cone's reach until k_m changes by under
     0.5 %); ``bearing`` "rigid" | "pressure"; ``interfaces`` "contact" | "bonded";
     ``tapped``: the last layer is threaded, its hole has ``thread_diameter`` (default
     d_h) and carries the load over ``engaged_length`` (default its thickness) below its
-    top face; ``refine_check``: refine the mesh uniformly until k_m changes < 1 %.
+    top face, distributed by ``thread_load`` ("decaying": :func:`thread_load_density` with
+    l_decay = 0.5 thread_diameter; "uniform"); ``refine_check``: refine the mesh uniformly
+    until k_m changes < 1 %.  ``thread_region_compliance`` of the result is the tapped
+    part's thread region (bolt side).
 
     Source: method of Wileman, Choudhury & Green, J. Mech. Design 113 (1991) 432-437
     (axisymmetric FE of the members); formulation of our own as described above.
@@ -606,7 +741,7 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     """
     t0 = time.perf_counter()
     g = make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter, bearing,
-                      interfaces, tapped, thread_diameter, engaged_length)
+                      interfaces, tapped, thread_diameter, engaged_length, thread_load)
     grip = sum(l.thickness for l in g.layers)
     r_min = max(g.r_w, g.r_w2, g.r_t)
     guess = _cone_contact_guess(g)
@@ -619,7 +754,7 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
         # start beyond the 30 deg cone's reach at mid-grip, then double
         r_out = r_min + max(grip, r_min)
         sol = solve_member_stack(g, r_out, 0, guess)
-        for _ in range(12):
+        for _ in range(MAX_RADIUS_DOUBLINGS):
             wider = solve_member_stack(g, 2 * r_out, 0, sol.contact_diameters)
             change = abs(wider.stiffness - sol.stiffness) / wider.stiffness
             r_out, sol = 2 * r_out, wider
@@ -636,4 +771,4 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
             if change < MESH_TOLERANCE or level >= MAX_REFINEMENTS:
                 break
     return FeResult(sol.stiffness, sol.approach, sol.contact_diameters, 2 * r_out, change,
-                    sol.elements, time.perf_counter() - t0)
+                    sol.elements, time.perf_counter() - t0, sol.thread_region)
