@@ -139,17 +139,26 @@ def test_tapped_joint_effective_grip_and_far_cone():
                      bearing_diameter=16.0, hole_diameter=11.0, tapped=True, load_max=5000.0)
     r = evaluate(spec)
     assert r.grip == 12.0 and r.effective_grip == pytest.approx(17.0)
-    # bolt: a socket cap screw has b = 2d + 12 = 32 mm (ISO 4762, from memory) >= L = 30: threaded to
-    # the head, so l_d = 0 and l_t = l' = 17 mm
-    assert r.bolt_stiffness == pytest.approx(58.0 * 207000.0 / 17.0, rel=1e-12)
-    # members by hand, eq. 8-19: head cone 8.5 mm of aluminium; far cone from l' with the same D:
+    # frusta by hand, eq. 8-19: head cone 8.5 mm of aluminium; far cone from l' with the same D:
     # 5 mm steel, then 3.5 mm aluminium starting at D + 2*5*tan30
     def frustum(E, D, t):
         return math.pi * E * 11.0 * TAN30 / math.log(
             (2 * t * TAN30 + D - 11.0) * (D + 11.0) / ((2 * t * TAN30 + D + 11.0) * (D - 11.0)))
-    k_m = 1 / (1 / frustum(71000.0, 16.0, 8.5) + 1 / frustum(207000.0, 16.0, 5.0)
-               + 1 / frustum(71000.0, 16.0 + 10 * TAN30, 3.5))
-    assert r.member_stiffness == pytest.approx(k_m, rel=1e-9)
+    cover = 1 / frustum(71000.0, 16.0, 8.5) + 1 / frustum(71000.0, 16.0 + 10 * TAN30, 3.5)
+    housing = 1 / frustum(207000.0, 16.0, 5.0)
+    # split by body (docs/tapped_stiffness.md): the members are the cover alone ...
+    assert r.member_stiffness == pytest.approx(1 / cover, rel=1e-9)
+    # ... and the bolt is the screw over l' in series with the housing's frustum.  A socket cap
+    # screw has b = 2d + 12 = 32 mm (ISO 4762, from memory) >= L = 30: threaded to the head, so
+    # l_d = 0 and l_t = l' = 17 mm
+    screw = 17.0 / (58.0 * 207000.0)
+    assert r.bolt_stiffness == pytest.approx(1 / (screw + housing), rel=1e-12)
+    # the split moves compliance, it adds none: Shigley's member + bolt springs in series are kept
+    assert 1 / r.bolt_stiffness + 1 / r.member_stiffness == pytest.approx(
+        screw + 1 / frustum_stiffness([(12.0, 71000.0), (5.0, 207000.0)], 16.0, None, 11.0), rel=1e-12)
+    split = r.stiffness_split
+    assert split.thread_region == "bolt" and split.tapped_part == pytest.approx(housing, rel=1e-12)
+    assert split.screw_thread == pytest.approx(5.0 / (58.0 * 207000.0), rel=1e-12)   # the screw's l' - h
     assert next(c for c in r.checks if c.name == "length").ok
 
 

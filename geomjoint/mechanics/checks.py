@@ -7,8 +7,11 @@ of Budynas & Nisbett, *Shigley's Mechanical Engineering Design*, 10th ed., ch. 8
 - no preload: C is reported but unused, the bolt carries the whole load, the separation
   factor is 0 (its check fails) and yield/load factors use C = 1;
 - a factor that is unbounded (no external load) is None;
-- tapped joints: members over the effective grip l' (Table 8-7), the far cone starts at
-  l' with the head-side bearing diameter, the hole diameter applies to every layer;
+- tapped joints: the frusta of Table 8-7 over the effective grip l' (the far cone starts
+  at l' with the head-side bearing diameter, the hole diameter applies to every layer),
+  split by body (docs/tapped_stiffness.md): the part above the interface is the member,
+  the part inside the tapped part is in series with the bolt (like VDI 2230-1 delta_M),
+  and the bolt runs over l' (its last l' - h stand for the engaged screw thread);
 - static factors use P = P_max.
 """
 from __future__ import annotations
@@ -20,7 +23,7 @@ from geomjoint.mechanics import bolt as B
 from geomjoint.mechanics import fatigue as FT
 from geomjoint.mechanics import members as M
 from geomjoint.mechanics import preload as PL
-from geomjoint.mechanics.joint import Check, JointResult, JointSpec
+from geomjoint.mechanics.joint import TAPPED_MEMBER_DEFINITION, Check, JointResult, JointSpec, StiffnessSplit
 
 #: a joint whose smallest factor/required ratio lies below this is "marginal" rather than
 #: "pass" (our own choice: 10 % over the requirement)
@@ -94,6 +97,8 @@ class BoltSide:
     l_d: float              # unthreaded length in the grip, mm
     l_t: float              # threaded length in the grip, mm
     notes: tuple[str, ...] = ()
+    screw_thread: float = 0.0   # tapped: the screw over l' - h (its engaged thread) inside k_b, mm/N
+    tapped_part: float = 0.0    # tapped: Table 8-7 frusta inside the tapped part, in series, mm/N
 
 
 def effective_grip_of(spec: JointSpec) -> float:
@@ -115,7 +120,29 @@ def bolt_side(spec: JointSpec, grip: float) -> BoltSide:
         shank = B.unthreaded_length(f.length, L_T, f.fully_threaded)
     l_d, l_t = B.grip_lengths(grip, shank)
     k_b = B.bolt_stiffness(B.shank_area(f.d), f.stress_area, f.E, l_d, l_t)
-    return BoltSide(k_b, L_T, shank, l_d, l_t, tuple(notes))
+    if not spec.tapped:
+        return BoltSide(k_b, L_T, shank, l_d, l_t, tuple(notes))
+    # the definition of docs/tapped_stiffness.md: the engaged-thread region is the bolt's
+    h = spec.clamped_thickness
+    screw_thread = (max(0.0, l_d - h) / B.shank_area(f.d) + (grip - max(h, l_d)) / f.stress_area) / f.E
+    tapped_part = tapped_frusta(spec, grip)[1]
+    return BoltSide(1.0 / (1.0 / k_b + tapped_part), L_T, shank, l_d, l_t, tuple(notes),
+                    screw_thread, tapped_part)
+
+
+def tapped_frusta(spec: JointSpec, grip: float) -> tuple[float, float]:
+    """(clamped layers, tapped part) compliances of the Table 8-7 frusta of a tapped joint, mm/N."""
+    return M.tapped_frustum_compliances(spec.layers[:-1], spec.layers[-1], spec.bearing_diameter,
+                                        spec.hole_diameter, grip, spec.cone_angle, spec.outside_diameter)
+
+
+def stiffness_split(spec: JointSpec, bolt: BoltSide) -> StiffnessSplit | None:
+    """What the textbook engine's k_m and k_b of a tapped joint span (None for a through joint)."""
+    if not spec.tapped:
+        return None
+    return StiffnessSplit(TAPPED_MEMBER_DEFINITION, "bolt", bolt.screw_thread, bolt.tapped_part,
+                          "screw over the effective grip l' (Shigley Table 8-7); tapped part: the "
+                          "Table 8-7 frusta below the interface, in series with the bolt")
 
 
 def layers_over(spec: JointSpec, grip: float):
@@ -141,12 +168,20 @@ def member_side(spec: JointSpec, grip: float) -> tuple[float, str, list[str]]:
     notes = []
     if spec.outside_diameter is not None and method == "exponential":
         notes.append("outside diameter not used by the exponential member model (a fit for wide plates)")
-    if method in ("frustum", "cone"):
+    if method in ("frustum", "cone") and spec.tapped:
+        # the clamped layers' share of the Table 8-7 frusta (docs/tapped_stiffness.md)
+        k_m = 1.0 / tapped_frusta(spec, grip)[0]
+    elif method in ("frustum", "cone"):
         # a typed-in joint has no part geometry: its "cone" is the frustum clipped by a round
         # part of the outside diameter, which is exact for that shape
-        far = spec.bearing_diameter if spec.tapped else spec.far_bearing_diameter
-        k_m = M.frustum_stiffness(layers, spec.bearing_diameter, far, spec.hole_diameter,
+        k_m = M.frustum_stiffness(layers, spec.bearing_diameter, spec.far_bearing_diameter, spec.hole_diameter,
                                   spec.cone_angle, grip, spec.outside_diameter)
+    elif method == "exponential" and spec.tapped:
+        clamped = list(spec.layers[:-1])
+        if len({(layer.E, layer.wileman) for layer in clamped}) > 1:
+            notes.append("exponential (Wileman) member stiffness is a one-material fit; the layers differ "
+                         "in material, so each layer is weighted by its thickness (approximation)")
+        k_m = M.wileman_tapped_stiffness(clamped, spec.fastener.d)
     elif method == "exponential":
         if len({(layer.E, layer.wileman) for layer in layers}) > 1:
             notes.append("exponential (Wileman) member stiffness is a one-material fit; the layers differ "
@@ -317,4 +352,5 @@ def evaluate(spec: JointSpec) -> JointResult:
         bolt_stiffness=bolt.stiffness, member_stiffness=k_m, joint_constant=C, stiffness_method=method,
         preload=F_i, Se=endurance.Se, sigma_a=sigma_a, sigma_m=sigma_m, sigma_i=sigma_i, n_f=n_f,
         factors=factors, checks=checks, tightening=tightening, notes=notes, details=details,
+        stiffness_split=stiffness_split(spec, bolt),
     )

@@ -164,6 +164,27 @@ class Check:
     note: str = ""
 
 
+#: what the member stiffness of a tapped joint spans, everywhere (docs/tapped_stiffness.md)
+TAPPED_MEMBER_DEFINITION = ("clamped layers only: head (washer) bearing face to the interface "
+                            "with the tapped part")
+
+
+@dataclass(frozen=True)
+class StiffnessSplit:
+    """Where a tapped joint's stiffness definition put the engaged-thread region (docs/tapped_stiffness.md).
+
+    The member is the clamped layers (``member``); the engaged screw thread and the tapped
+    part from the interface to its thread flanks are in series with the bolt, so they are
+    part of ``JointResult.bolt_stiffness``.
+    """
+
+    member: str                 # what k_m spans, in words
+    thread_region: str          # the side that carries the engaged-thread compliance: "bolt"
+    screw_thread: float         # compliance of the engaged screw thread inside k_b, mm/N
+    tapped_part: float          # compliance of the tapped part (interface to thread flanks) inside k_b, mm/N
+    model: str                  # how those two compliances were computed
+
+
 @dataclass
 class JointResult:
     """What the engine says of one joint; mirrors the result JSON of DESIGN.md."""
@@ -191,3 +212,4 @@ class JointResult:
     notes: list[str] = field(default_factory=list)
     findings: list[dict] = field(default_factory=list)
     details: dict = field(default_factory=dict)  # extra numbers for reports (VDI chain, stripping)
+    stiffness_split: StiffnessSplit | None = None  # tapped joints: the member/bolt definition used

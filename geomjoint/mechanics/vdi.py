@@ -24,7 +24,7 @@ import math
 from dataclasses import dataclass, field
 
 from geomjoint.errors import InputError
-from geomjoint.mechanics.joint import Check, JointSpec, VdiSpec
+from geomjoint.mechanics.joint import TAPPED_MEMBER_DEFINITION, Check, JointSpec, StiffnessSplit, VdiSpec
 from geomjoint.mechanics.members import hollow_frustum_compliance
 
 # --------------------------------------------------------------------------------------
@@ -1173,10 +1173,26 @@ def vdi_chain(spec: JointSpec) -> VdiResult:
     )
 
 
+def vdi_stiffness_split(spec: JointSpec, result: VdiResult) -> StiffnessSplit | None:
+    """What delta_P and delta_S of a tapped thread joint span (None for a through-bolt joint).
+
+    VDI 2230-1:2015 Sec. 5.1 (from memory): delta_P of a tapped thread joint (ESV) covers the
+    clamped parts over l_K only; the engaged screw thread (delta_G, l_G = 0.5 d) and the
+    tapped-thread region (delta_M, l_M = 0.33 d with the tapped part's modulus) are in the
+    bolt's delta_S.  This is the definition of docs/tapped_stiffness.md as it stands.
+    """
+    if not spec.tapped:
+        return None
+    return StiffnessSplit(TAPPED_MEMBER_DEFINITION, "bolt", result.bolt.engaged, result.bolt.nut,
+                          "VDI 2230-1 delta_G (l_G = 0.5 d on A_d3) and delta_M (l_M = 0.33 d on A_N, "
+                          "modulus of the tapped part)")
+
+
 def vdi_member_stiffness(spec: JointSpec) -> float:
     """Member stiffness 1/delta_P of the VDI 2230-1 substitute deformation body, N/mm.
 
-    For ``member_stiffness = "vdi"`` in the engine.
+    For ``member_stiffness = "vdi"`` in the engine.  For a tapped thread joint it spans the
+    clamped parts only (the definition of docs/tapped_stiffness.md; VDI's ESV body).
     """
     _vdi_inputs(spec)   # validates the VDI inputs; the cone itself does not depend on them
     return member_stiffness_from_resilience(_clamp(spec).delta_P)
