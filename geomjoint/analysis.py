@@ -32,9 +32,10 @@ from geomjoint.job import (
 )
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics.joint import Check, JointResult, JointSpec, LayerSpec
-from geomjoint.mechanics.stripping import stripping_check
+from geomjoint.mechanics.stripping import engagement_of, stripping_check
 from geomjoint.progress import Progress
-from geomjoint.mechanics.vdi import clamp_load_for_slip, vdi_chain, vdi_checks, vdi_member_stiffness
+from geomjoint.mechanics.vdi import (clamp_load_for_slip, vdi_chain, vdi_checks, vdi_member_stiffness,
+                                     vdi_stiffness_split)
 
 #: textbook checks that the VDI chain replaces when ``method = "vdi"``
 VDI_REPLACES = ("fatigue",)
@@ -67,6 +68,7 @@ def _vdi_result(spec: JointSpec) -> JointResult:
     result.bolt_stiffness = chain.bolt_stiffness
     result.joint_constant = engine.joint_constant(chain.bolt_stiffness, chain.member_stiffness)
     result.tightening = chain.tightening()
+    result.stiffness_split = vdi_stiffness_split(spec, chain)
     vdi = vdi_checks(spec, chain)
     result.checks = [c for c in result.checks if c.name not in VDI_REPLACES] + vdi
     fatigue = next(c for c in vdi if c.name == "fatigue")
@@ -84,12 +86,19 @@ def fe_stiffness(spec: JointSpec, outer_diameter: float | None = None):
     """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe)."""
     from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
 
-    layers = [FeLayer(layer.thickness, layer.E, layer.poisson)
-              for layer in engine.layers_over(spec, engine.effective_grip_of(spec))]
+    # a tapped part is modelled whole, loaded by its engaged thread (docs/tapped_stiffness.md)
+    layers = [FeLayer(layer.thickness, layer.E, layer.poisson) for layer in spec.layers]
     return fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
                                None if spec.tapped else spec.far_bearing_diameter,
                                outer_diameter=outer_diameter or spec.outside_diameter, bearing=spec.fe_bearing,
-                               tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None)
+                               tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None,
+                               engaged_length=_fe_engagement(spec))
+
+
+def _fe_engagement(spec: JointSpec) -> float | None:
+    """Engaged thread of a tapped joint for the FE, mm; None: the whole tapped depth (or a through joint)."""
+    L_e = engagement_of(spec)[0] if spec.tapped else None
+    return L_e if L_e is not None and L_e > 0 else None   # a screw too short fails its length check
 
 
 def stiffness_comparison(spec: JointSpec, chosen: float) -> dict[str, float]:

@@ -332,10 +332,21 @@ class _Cone:
             return (r - self.rw) / self.tan
         return self.L - (r - self.rf) / self.tan
 
+    def member_layers(self) -> list[ConeLayer]:
+        """The layers whose compliance is the member's: a tapped part is in series with the bolt
+        instead (docs/tapped_stiffness.md)."""
+        if not self.joint.tapped:
+            return list(self.joint.layers)
+        tapped = max(self.joint.layers, key=lambda layer: layer.z_end)
+        return [layer for layer in self.joint.layers if layer is not tapped]
+
     def pieces(self):
-        """(layer, side, z_a, z_b): each layer split at mid-grip and cut to [0, L]."""
+        """(layer, side, z_a, z_b): each member layer split at mid-grip and cut to [0, L].
+
+        A tapped joint's member is its clamped layers; the cones still span l′ (Table 8-7).
+        """
         out = []
-        for layer in self.joint.layers:
+        for layer in self.member_layers():
             za, zb = max(layer.z_start, 0.0), min(layer.z_end, self.L)
             for side, lo, hi in (("head", 0.0, self.z_mid), ("far", self.z_mid, self.L)):
                 a, b = max(za, lo), min(zb, hi)
@@ -705,7 +716,7 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
     for layer, side, za, zb in cone.pieces():
         r0, slope = (cone.rw, cone.tan) if side == "head" else (cone.rf + cone.L * cone.tan, -cone.tan)
         ideal += hollow_frustum_compliance(layer.E, r0, slope, 0.5 * layer.hole_diameter, za, zb)
-    for layer in joint.layers:
+    for layer in cone.member_layers():
         za, zb = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
         if zb - za <= _LENGTH_TOL:
             continue

@@ -323,7 +323,7 @@ def thread_stripping(d: float, P: float, system: str, stress_area: float, R_m_bo
     )
 
 
-def _engagement(spec: JointSpec) -> tuple[float | None, str]:
+def engagement_of(spec: JointSpec) -> tuple[float | None, str]:
     """Engaged length and where it came from."""
     if spec.engagement is not None:
         return float(spec.engagement), "given"
@@ -348,7 +348,7 @@ def stripping_check(spec: JointSpec) -> Check:
     """
     f = spec.fastener
     required = spec.required.get("stripping", 1.0)
-    L_e, origin = _engagement(spec)
+    L_e, origin = engagement_of(spec)
     if L_e is None:
         return Check("stripping", None, required, True, "not checked: no engagement length (nut height) known")
     if L_e <= 0:
