@@ -278,6 +278,17 @@ def _endurance_source(r: JointResult) -> str:
     return "Shigley 10th ed., Table 8-17, or Marin factors (ch. 6)"
 
 
+def _split_rows(r: JointResult, u: ReportUnits) -> list[tuple[str, str, str, str]]:
+    """A tapped joint: what k_m spans and the engaged-thread region the bolt stiffness holds."""
+    split = r.stiffness_split
+    if split is None:
+        return []
+    region = split.screw_thread + split.tapped_part
+    return [("k_m spans", split.member, "–", "one definition for every method (docs/tapped_stiffness.md)"),
+            (f"engaged-thread region, in k_b ({split.thread_region})", _fmt(u.k(1.0 / region)) if region > 0 else "–",
+             u.stiffness, split.model)]
+
+
 def _numbers(r: JointResult, u: ReportUnits) -> str:
     spec, f = r.spec, r.spec.fastener
     crit = plots.criterion_of(r)
@@ -296,6 +307,7 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
          "shank and thread in series, Shigley 10th ed., eq. 8-17"),
         ("member stiffness k_m", _fmt(u.k(r.member_stiffness)), u.stiffness,
          STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)),
+        *_split_rows(r, u),
         ("joint constant C", _fmt(r.joint_constant, ".4f"), "–", "C = k_b/(k_b + k_m), Shigley 10th ed., Sec. 8-7"),
         ("preload F_i", _fmt(u.f(r.preload)), u.force, _preload_source(r, u)),
         ("external load P_min", _fmt(u.f(spec.load_min)), u.force, "job (per bolt)"),

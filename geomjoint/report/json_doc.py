@@ -45,7 +45,8 @@ def joint_document(r: JointResult) -> dict[str, Any]:
         "stiffness": {"bolt": r.bolt_stiffness, "members": r.member_stiffness, "C": r.joint_constant,
                       "method": r.stiffness_method,
                       **({"comparison": r.details["stiffness_comparison"]}
-                         if r.details.get("stiffness_comparison") else {})},
+                         if r.details.get("stiffness_comparison") else {}),
+                      **({"definition": stiffness_definition(r.stiffness_split)} if r.stiffness_split else {})},
         "preload": r.preload,
         "load": {"min": r.spec.load_min, "max": r.spec.load_max, "shear": r.spec.shear},
         "fatigue": {"criterion": r.spec.fatigue.criterion if r.details.get("fatigue_criterion") is None
@@ -63,6 +64,13 @@ def joint_document(r: JointResult) -> dict[str, Any]:
     if r.details.get("remedies"):
         doc["remedies"] = r.details["remedies"]
     return doc
+
+
+def stiffness_definition(split) -> dict[str, Any]:
+    """A tapped joint's member/bolt split (mechanics.joint.StiffnessSplit), compliances in mm/N."""
+    return {"member": split.member, "thread_region": split.thread_region,
+            "screw_thread_compliance": split.screw_thread, "tapped_part_compliance": split.tapped_part,
+            "model": split.model}
 
 
 def result_document(results: list[JointResult], version: str, excluded: list[str] | None = None) -> dict[str, Any]:
