@@ -641,6 +641,8 @@ def _roughness(value: Any, where: str) -> str:
     choices = (*ROUGHNESS_BANDS, *ROUGHNESS_CLASSES)
     raise InputError(f"{value!r} is not a mean roughness depth R_z such as \"16 um\" nor one of "
                      f"{', '.join(choices)}{did_you_mean(str(value), choices)}", where=where)
+
+
 #: member stiffness when the job names none: the frustum for through joints; for tapped joints
 #: the VDI 2230-1 tapped-joint body, the closed form nearest the FE on the cases of
 #: docs/tapped_stiffness.md (within 12 % on all five; the Table 8-7 frustum is 17 % off on one)

@@ -7,12 +7,11 @@ screw thread and the tapped part (interface to thread flanks) are in series with
 import math
 from dataclasses import replace
 
-import jsonschema
 import numpy as np
 import pytest
 from scipy.integrate import quad
 
-from conftest import load_schema
+from conftest import validate_result
 from geomjoint.analysis import evaluate_joint
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics import fe, vdi
@@ -171,7 +170,7 @@ def test_results_say_which_definition_and_where_the_thread_went():
     chain = evaluate_joint(case_spec(CASES[2], method="vdi"))
     for r in (textbook, chain):
         doc = result_document([r], "test")
-        jsonschema.validate(doc, load_schema("result.schema.json"))
+        validate_result(doc)
         definition = doc["joints"][0]["stiffness"]["definition"]
         assert definition["thread_region"] == "bolt" and definition["member"].startswith("clamped layers")
         assert definition["tapped_part_compliance"] > 0 and definition["screw_thread_compliance"] > 0
