@@ -47,7 +47,7 @@ def main() -> None:
         matplotlib.use("Agg")
         import matplotlib.pyplot as plt
 
-        fig, ax = plt.subplots(figsize=(8.0, 4.2))
+        fig, ax = plt.subplots(figsize=(9.0, 4.6))
         names = [r[0].label for r in rows]
         x = range(len(rows))
         series = [("frustum (Table 8-7 share)", lambda r: r[1].frustum, "o"),
@@ -62,7 +62,8 @@ def main() -> None:
         ax.set_xticklabels(names, rotation=20, ha="right", fontsize=8)
         ax.set_ylabel("k_m / k_m(FE)")
         ax.set_title("Tapped joints: member stiffness (clamped layers) by method")
-        ax.legend(fontsize=7, loc="upper left")
+        ax.set_ylim(0.8, 1.6)
+        ax.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         fig.tight_layout()
         fig.savefig(args.plot, dpi=120)
         print(f"plot: {args.plot}")
