@@ -92,9 +92,18 @@ START_CONE_ANGLE = 30.0
 #: elements across the bearing annulus (d_h/2 .. d_w/2) of the base mesh, other radial spans pro rata:
 #: enough that one uniform refinement changes k_m by under MESH_TOLERANCE on the reference cases
 BEARING_ANNULUS_ELEMENTS = 6
-#: axial elements of one layer on the base mesh, two per annulus width of thickness, clipped to this
-#: range: 4 still bend a thin layer, and beyond 10 the steps grow geometrically instead (layer_interval)
+#: axial elements of one layer on the base mesh, LAYER_ELEMENTS_PER_WIDTH per annulus width of its
+#: thickness, clipped to LAYER_ELEMENTS: 4 still bend a thin layer, and beyond 10 the steps grow
+#: geometrically instead (layer_interval); the unengaged depth of a tapped part gets half
+LAYER_ELEMENTS_PER_WIDTH = 2.0
 LAYER_ELEMENTS = (4, 10)
+#: relative tolerance for coordinates on a face or a radius (the mesh is built from these numbers)
+GEOMETRY_TOLERANCE = 1e-9
+#: active set: a tied pair is released under a tension above this fraction of the largest
+#: interface force, and a released pair tied again when it overlaps by this fraction of the
+#: largest displacement (round-off level, so the set does not chatter)
+CONTACT_FORCE_TOLERANCE = 1e-10
+CONTACT_GAP_TOLERANCE = 1e-12
 #: most doublings of the plate radius in the radius search (4096 times the start is beyond any part)
 MAX_RADIUS_DOUBLINGS = 12
 #: thread load distributions along the engagement: "decaying" (shear-lag, thread_load_density) or
@@ -436,15 +445,15 @@ def _grids(g: StackGeometry, r_out: float, level: int):
         r_parts.append(graded_interval(lo, hi, n))
         lo = hi
     h0 = (r_parts[-1][-1] - r_parts[-1][-2]) if r_parts else 0.1 * g.r_w
-    if r_out > lo * (1 + 1e-9):
+    if r_out > lo * (1 + GEOMETRY_TOLERANCE):
         r_parts.append(geometric_interval(lo, r_out, h0, GROWTH))
     r = np.unique(np.concatenate(r_parts))
     ref = g.r_w - g.r_h
     z_grids = []
     for i, lay in enumerate(g.layers):
-        n = int(np.clip(np.ceil(2.0 * lay.thickness / ref), *LAYER_ELEMENTS))
+        n = int(np.clip(np.ceil(LAYER_ELEMENTS_PER_WIDTH * lay.thickness / ref), *LAYER_ELEMENTS))
         z = layer_interval(lay.thickness, ref / Z_FIRST_STEP, n)
-        if g.tapped and i == len(g.layers) - 1 and g.engaged < lay.thickness * (1 - 1e-9):
+        if g.tapped and i == len(g.layers) - 1 and g.engaged < lay.thickness * (1 - GEOMETRY_TOLERANCE):
             cut = lay.thickness - g.engaged
             z = np.unique(np.concatenate([layer_interval(cut, ref / Z_FIRST_STEP, max(2, n // 2)),
                                           cut + layer_interval(g.engaged, ref / Z_FIRST_STEP, n)]))
@@ -460,7 +469,7 @@ def _interface_pairs(model: AxisymmetricModel, sm: StackMesh):
     out = []
     for i in range(n - 1):                  # between layer i (upper) and i + 1 (lower)
         z_if = sm.z_faces[n - 1 - i]
-        tol = 1e-9 * max(1.0, sm.z_faces[-1])
+        tol = GEOMETRY_TOLERANCE * max(1.0, sm.z_faces[-1])
         sides = []
         for lay in (i, i + 1):
             d = np.unique(el_dofs[:, sm.layer_of_element == lay])
@@ -517,7 +526,7 @@ def _bearing_load(g: StackGeometry, model: AxisymmetricModel, facets, load: floa
 def _stack_loads(g: StackGeometry, model: AxisymmetricModel, sm: StackMesh, P: float) -> StackLoads:
     """The preload pair: P down on the head bearing, P up on the nut bearing or the engaged thread."""
     H = sm.z_faces[-1]
-    eps = 1e-9 * max(1.0, H)
+    eps = GEOMETRY_TOLERANCE * max(1.0, H)
     r_out = float(model.doflocs[0].max())
 
     def annulus(z0, r_in, r_b):
@@ -543,7 +552,7 @@ def _start_active_set(g: StackGeometry, pairs, contact_guess: Sequence[float] | 
     """Node pairs in contact to start from: all (bonded, or no guess), else those inside the guessed diameters."""
     if contact_guess is None or g.interfaces == "bonded":
         return [np.ones(p[0].size, dtype=bool) for p in pairs]
-    active = [p[4] <= 0.5 * dc * (1 + 1e-9) for p, dc in zip(pairs, contact_guess)]
+    active = [p[4] <= 0.5 * dc * (1 + GEOMETRY_TOLERANCE) for p, dc in zip(pairs, contact_guess)]
     for act in active:
         act[0] = True                       # the pair at the hole always carries load
     return active
@@ -572,8 +581,8 @@ def _contact_solve(g: StackGeometry, model: AxisymmetricModel, pairs, loads: Sta
             gap = u[uz] - u[lz]                 # > 0 open
             scale = max(np.abs(force).max(), 1e-300)
             new = act.copy()
-            new[act & (force < -1e-10 * scale)] = False
-            new[~act & (gap < -1e-12 * max(np.abs(u).max(), 1e-300))] = True
+            new[act & (force < -CONTACT_FORCE_TOLERANCE * scale)] = False
+            new[~act & (gap < -CONTACT_GAP_TOLERANCE * max(np.abs(u).max(), 1e-300))] = True
             if not np.array_equal(new, act):
                 changed = True
                 active[k] = new
@@ -689,7 +698,7 @@ def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=
     if tapped and len(layers) < 2:
         raise InputError("FE member stiffness: a tapped joint needs a clamped layer above the tapped one")
     engaged = layers[-1].thickness if engaged_length is None else _check("engaged_length", engaged_length)
-    if tapped and engaged > layers[-1].thickness * (1 + 1e-9):
+    if tapped and engaged > layers[-1].thickness * (1 + GEOMETRY_TOLERANCE):
         raise InputError("FE member stiffness: engaged_length exceeds the tapped layer's thickness")
     r_h, r_w, r_w2, r_t = d_h / 2, d_w / 2, d_w2 / 2, d_t / 2
     snap = RADIUS_SNAP * (r_w - r_h)
@@ -747,7 +756,7 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     guess = _cone_contact_guess(g)
     if outer_diameter is not None:
         r_out = _check("outer_diameter", outer_diameter) / 2
-        if r_out < r_min * (1 - 1e-9):
+        if r_out < r_min * (1 - GEOMETRY_TOLERANCE):
             raise InputError("FE member stiffness: outer_diameter must not be smaller than the bearing diameters")
         sol = solve_member_stack(g, r_out, 0, guess)
     else:
