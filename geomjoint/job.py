@@ -646,7 +646,7 @@ def _roughness(value: Any, where: str) -> str:
 #: member stiffness when the job names none: the frustum for through joints; for tapped joints
 #: the VDI 2230-1 tapped-joint body, the closed form nearest the FE on the cases of
 #: docs/tapped_stiffness.md (within 12 % on all five; the Table 8-7 frustum is 17 % off on one)
-DEFAULT_STIFFNESS = "frustum"
+DEFAULT_STIFFNESS = JointSpec.member_stiffness
 TAPPED_DEFAULT_STIFFNESS = "vdi"
 
 
