@@ -658,6 +658,37 @@ def _cone_contact_guess(g: StackGeometry) -> list[float]:
     return out
 
 
+def plate_radius_search(g: StackGeometry, guess: Sequence[float]) -> tuple[float, StackSolution]:
+    """Outer radius (mm) at which a wider plate changes k_m by under RADIUS_TOLERANCE, and its solution.
+
+    Starts beyond the 30 deg cone's reach at mid-grip and doubles the radius (base mesh).
+    """
+    grip = sum(l.thickness for l in g.layers)
+    r_min = max(g.r_w, g.r_w2, g.r_t)
+    r_out = r_min + max(grip, r_min)
+    sol = solve_member_stack(g, r_out, 0, guess)
+    for _ in range(MAX_RADIUS_DOUBLINGS):
+        wider = solve_member_stack(g, 2 * r_out, 0, sol.contact_diameters)
+        change = abs(wider.stiffness - sol.stiffness) / wider.stiffness
+        r_out, sol = 2 * r_out, wider
+        if change < RADIUS_TOLERANCE:
+            break
+    return r_out, sol
+
+
+def refined_solution(g: StackGeometry, r_out: float, sol: StackSolution) -> tuple[StackSolution, float]:
+    """Refine the mesh uniformly until k_m changes by under MESH_TOLERANCE (at most MAX_REFINEMENTS
+    times): the finest solution and its last relative change."""
+    level = 0
+    while True:
+        level += 1
+        fine = solve_member_stack(g, r_out, level, sol.contact_diameters)
+        change = abs(fine.stiffness - sol.stiffness) / fine.stiffness
+        sol = fine
+        if change < MESH_TOLERANCE or level >= MAX_REFINEMENTS:
+            return sol, change
+
+
 def _check(name: str, value, positive: bool = True) -> float:
     try:
         v = float(value)
@@ -751,33 +782,16 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     t0 = time.perf_counter()
     g = make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter, bearing,
                       interfaces, tapped, thread_diameter, engaged_length, thread_load)
-    grip = sum(l.thickness for l in g.layers)
-    r_min = max(g.r_w, g.r_w2, g.r_t)
     guess = _cone_contact_guess(g)
     if outer_diameter is not None:
         r_out = _check("outer_diameter", outer_diameter) / 2
-        if r_out < r_min * (1 - GEOMETRY_TOLERANCE):
+        if r_out < max(g.r_w, g.r_w2, g.r_t) * (1 - GEOMETRY_TOLERANCE):
             raise InputError("FE member stiffness: outer_diameter must not be smaller than the bearing diameters")
         sol = solve_member_stack(g, r_out, 0, guess)
     else:
-        # start beyond the 30 deg cone's reach at mid-grip, then double
-        r_out = r_min + max(grip, r_min)
-        sol = solve_member_stack(g, r_out, 0, guess)
-        for _ in range(MAX_RADIUS_DOUBLINGS):
-            wider = solve_member_stack(g, 2 * r_out, 0, sol.contact_diameters)
-            change = abs(wider.stiffness - sol.stiffness) / wider.stiffness
-            r_out, sol = 2 * r_out, wider
-            if change < RADIUS_TOLERANCE:
-                break
+        r_out, sol = plate_radius_search(g, guess)
     change = float("nan")
     if refine_check:
-        level = 0
-        while True:
-            level += 1
-            fine = solve_member_stack(g, r_out, level, sol.contact_diameters)
-            change = abs(fine.stiffness - sol.stiffness) / fine.stiffness
-            sol = fine
-            if change < MESH_TOLERANCE or level >= MAX_REFINEMENTS:
-                break
+        sol, change = refined_solution(g, r_out, sol)
     return FeResult(sol.stiffness, sol.approach, sol.contact_diameters, 2 * r_out, change,
                     sol.elements, time.perf_counter() - t0, sol.thread_region)

@@ -304,7 +304,8 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
         ("yield strength S_y", _fmt(u.s(f.yield_strength)), u.stress, f"grade {f.grade}"),
         ("tensile strength S_ut", _fmt(u.s(f.tensile)), u.stress, f"grade {f.grade}"),
         ("bolt stiffness k_b", _fmt(u.k(r.bolt_stiffness)), u.stiffness,
-         "shank and thread in series, Shigley 10th ed., eq. 8-17"),
+         "shank and thread in series, Shigley 10th ed., eq. 8-17"
+         + (", with the engaged-thread region" if r.stiffness_split else "")),
         ("member stiffness k_m", _fmt(u.k(r.member_stiffness)), u.stiffness,
          STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)),
         *_split_rows(r, u),
