@@ -343,7 +343,7 @@ def wileman_layered_stiffness(layers, d: float, l: float | None = None) -> float
 
 def tapped_frustum_compliances(layers, tapped_layer, d_w: float, d_h: float, effective_grip: float,
                                alpha: float = 30.0, outside_diameter: float | None = None) -> tuple[float, float]:
-    """The frusta of Shigley 10th ed. Table 8-7 / Fig. 8-21 for a cap screw, split by body, mm/N.
+    """The frusta of Shigley 10th ed. Table 8-7 (its cap-screw model, Sec. 8-5), split by body, mm/N.
 
     Returns (clamped layers, tapped part).  Shigley's cap-screw model: two frusta of
     half-angle ``alpha`` over the effective grip l' = h + min(t2, d)/2, one from the head
