@@ -1,9 +1,14 @@
 """Job (+ model) → [JointResult]: the pipeline behind `geomjoint check`.
 
-Per joint: JointSpec → (member stiffness from the method the job asks for) → the textbook
-engine (`mechanics.checks.evaluate`) → with ``method = "vdi"`` the VDI 2230-1 chain, whose
+Per joint: JointSpec → member stiffness by the method the job asks for (:class:`MemberMethods`,
+the one place each method is computed, also for the side-by-side comparison) → the textbook
+engine (`mechanics.checks.assess`) → with ``method = "vdi"`` the VDI 2230-1 chain, whose
 preload window, fatigue and pressure checks then replace the textbook ones → thread
-stripping → slip when the joint carries shear → verdict.
+stripping → slip when the joint carries shear → the stack-up of a model joint → the verdict,
+rated once (`mechanics.checks.rate_result`) → remedies.
+
+A model joint that cannot be resolved (no size, no standard length, missing hardware data)
+is not analysed: it is reported with its reason and findings, and the other joints are checked.
 """
 from __future__ import annotations
 
@@ -31,90 +36,164 @@ from geomjoint.job import (
     typed_joint_specs,
 )
 from geomjoint.mechanics import checks as engine
-from geomjoint.mechanics.joint import Check, JointResult, JointSpec, LayerSpec
+from geomjoint.mechanics.checks import slip_check
+from geomjoint.mechanics.joint import (
+    Check,
+    ConeStiffness,
+    FeRun,
+    JointResult,
+    JointSpec,
+    LayerSpec,
+    StiffnessComparison,
+)
 from geomjoint.mechanics.stripping import engagement_of, stripping_check
+from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
 from geomjoint.progress import Progress
-from geomjoint.mechanics.vdi import (clamp_load_for_slip, vdi_chain, vdi_checks, vdi_member_stiffness,
-                                     vdi_stiffness_split)
 
 #: textbook checks that the VDI chain replaces when ``method = "vdi"``
 VDI_REPLACES = ("fatigue",)
 
+#: methods the side-by-side comparison always runs (the clipped cone joins them where there is geometry)
+COMPARED_METHODS = ("frustum", "exponential", "vdi", "fe")
 
-def slip_check(spec: JointSpec, result: JointResult) -> Check:
-    """Friction grip of a joint that carries shear (textbook mode).
+#: a clipped cone keeping at least this fraction of its mid-grip area counts as unclipped
+#: (round-off of the section areas)
+UNCLIPPED_FRACTION = 1.0 - 1e-6
 
-    Residual clamp load F_K = F_i − (1 − C)·P_max must carry the shear by friction:
-    factor = F_K / F_KQ with F_KQ = F_Q / (q_F·μ_T) (VDI 2230-1 eq. R12 form).
+#: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
+WASHER_MATERIAL = "steel"
+
+#: the check that says a joint was not analysed (timeout, or it could not be resolved)
+ANALYSIS_CHECK = "analysis"
+
+
+# ----------------------------------------------------------------------------- member stiffness
+
+def cone_record(cone, neighbours: tuple[str, ...] = ()) -> ConeStiffness:
+    """The plain record of a geometry.cones.ConeResult."""
+    return ConeStiffness(stiffness=cone.stiffness, ideal_stiffness=cone.ideal_stiffness,
+                         area_fraction_mid_grip=cone.area_fraction_mid_grip, area_mid_grip=cone.area_mid_grip,
+                         lost_to_edges=cone.lost_to_edges, lost_to_neighbours=cone.lost_to_neighbours,
+                         neighbours=tuple(neighbours))
+
+
+def outer_diameter_of_area(area: float, hole_diameter: float) -> float:
+    """Outside diameter of the annulus with ``area`` (mm²) around the hole: D = √(4A/π + d_h²), mm.
+
+    >>> round(outer_diameter_of_area(math.pi / 4 * (30.0**2 - 13.0**2), 13.0), 6)
+    30.0
     """
-    v = spec.vdi
-    mu, interfaces = v.friction_interface, v.interfaces_shear
-    needed = clamp_load_for_slip(spec.shear, interfaces, mu)
-    residual = result.preload - (1.0 - result.joint_constant) * spec.load_max
-    value = max(residual, 0.0) / needed
-    required = spec.required.get("slip", 1.0)
-    return Check("slip", value, required, value >= required,
-                 f"residual clamp load {residual:.0f} N against {needed:.0f} N for {spec.shear:.0f} N shear "
-                 f"(mu_T = {mu:g}, {interfaces} interface(s))")
+    return (4.0 * area / math.pi + hole_diameter ** 2) ** 0.5
 
 
-def _vdi_result(spec: JointSpec) -> JointResult:
-    chain = vdi_chain(spec)
-    service = replace(spec, members_value=chain.member_stiffness,
-                      preload=replace(spec.preload, mode="force", value=chain.preload))
-    result = engine.evaluate(service)
-    result.spec = spec
-    result.stiffness_method = "vdi" if spec.members_value is None else spec.member_stiffness
-    result.bolt_stiffness = chain.bolt_stiffness
-    result.joint_constant = engine.joint_constant(chain.bolt_stiffness, chain.member_stiffness)
-    result.tightening = chain.tightening()
-    result.stiffness_split = vdi_stiffness_split(spec, chain)
-    vdi = vdi_checks(spec, chain)
-    result.checks = [c for c in result.checks if c.name not in VDI_REPLACES] + vdi
-    fatigue = next(c for c in vdi if c.name == "fatigue")
-    result.details["fatigue_criterion"] = "vdi"
-    result.Se = chain.sigma_AS
-    result.sigma_a = chain.sigma_a
-    result.n_f = fatigue.value
-    result.factors["fatigue"] = fatigue.value
-    result.details["vdi"] = {k: v for k, v in vars(chain).items() if isinstance(v, (int, float, str)) or v is None}
-    result.notes += list(chain.notes)
-    return result
-
-
-def fe_stiffness(spec: JointSpec, outer_diameter: float | None = None):
-    """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe)."""
-    from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
-
-    # a tapped part is modelled whole, loaded by its engaged thread (docs/tapped_stiffness.md)
-    layers = [FeLayer(layer.thickness, layer.E, layer.poisson) for layer in spec.layers]
-    return fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
-                               None if spec.tapped else spec.far_bearing_diameter,
-                               outer_diameter=outer_diameter or spec.outside_diameter, bearing=spec.fe_bearing,
-                               tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None,
-                               engaged_length=_fe_engagement(spec))
-
-
-def _fe_engagement(spec: JointSpec) -> float | None:
+def fe_engagement(spec: JointSpec) -> float | None:
     """Engaged thread of a tapped joint for the FE, mm; None: the whole tapped depth (or a through joint)."""
     L_e = engagement_of(spec)[0] if spec.tapped else None
     return L_e if L_e is not None and L_e > 0 else None   # a screw too short fails its length check
 
 
-def stiffness_comparison(spec: JointSpec, chosen: float) -> dict[str, float]:
-    """Member stiffness by every method that applies, N/mm (``compare_stiffness = true``)."""
-    grip = engine.effective_grip_of(spec)
-    methods = {
-        "frustum": lambda: engine.member_side(replace(spec, member_stiffness="frustum", members_value=None), grip)[0],
-        "exponential": lambda: engine.member_side(replace(spec, member_stiffness="exponential", members_value=None),
-                                                  grip)[0],
-        "vdi": lambda: vdi_member_stiffness(spec),
-        "fe": lambda: fe_stiffness(spec).stiffness,
-    }
-    # the chosen method is already computed: not run twice (an FE run costs about a second)
-    out = {name: compute() for name, compute in methods.items() if name != spec.member_stiffness}
-    out[spec.member_stiffness] = chosen
-    return out
+def fe_run(spec: JointSpec, outer_diameter: float | None, outline: str) -> FeRun:
+    """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe), and the outline used."""
+    from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
+
+    # a tapped part is modelled whole, loaded by its engaged thread (docs/tapped_stiffness.md)
+    layers = [FeLayer(layer.thickness, layer.E, layer.poisson) for layer in spec.layers]
+    fe = fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
+                             None if spec.tapped else spec.far_bearing_diameter,
+                             outer_diameter=outer_diameter, bearing=spec.fe_bearing,
+                             tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None,
+                             engaged_length=fe_engagement(spec))
+    # the axisymmetric model gives every layer the same outer diameter
+    return FeRun(stiffness=fe.stiffness, outer_diameter=fe.outer_diameter, mesh_change=fe.mesh_change,
+                 contact_diameters=tuple(fe.contact_diameters),
+                 layer_outer_diameters=tuple(fe.outer_diameter for _ in layers), outline=outline)
+
+
+@dataclass
+class MemberMethods:
+    """The member stiffness of one joint by each method, each computed once and kept.
+
+    The value a method gives here is the value the joint gets when that method is chosen:
+    the chosen stiffness and the side-by-side comparison both come from :meth:`value`.
+    ``cone_source``: for a model joint, the clipped cone against the parts (geometry.cones);
+    None for a typed-in joint, whose "cone" is the frustum bounded by its outside diameter.
+    """
+
+    spec: JointSpec
+    cone_source: Callable[[], ConeStiffness] | None = None
+    cone: ConeStiffness | None = None
+    fe: FeRun | None = None
+    _values: dict[str, float] = field(default_factory=dict)
+
+    def value(self, method: str) -> float:
+        """k_m by ``method`` (frustum, exponential, vdi, cone, fe), N/mm."""
+        if method not in self._values:
+            self._values[method] = self._compute(method)
+        return self._values[method]
+
+    def _compute(self, method: str) -> float:
+        spec = self.spec
+        if method == "vdi":
+            return vdi_member_stiffness(spec)
+        if method == "cone" and self.cone_source is not None:
+            self.cone = self.cone_source()
+            return self.cone.stiffness
+        if method == "fe":
+            outer, outline = self.fe_outline()
+            self.fe = fe_run(spec, outer, outline)
+            return self.fe.stiffness
+        closed = replace(spec, member_stiffness=method, members_value=None)
+        return engine.member_side(closed, engine.effective_grip_of(closed))[0]
+
+    def fe_outline(self) -> tuple[float | None, str]:
+        """The FE's outer diameter and where it comes from (see mechanics.joint.OUTLINES)."""
+        if self.cone_source is not None:
+            self.value("cone")
+            if self.cone.area_fraction_mid_grip < UNCLIPPED_FRACTION:
+                # the plate the cone really finds: the annulus of the clipped mid-grip area
+                return outer_diameter_of_area(self.cone.area_mid_grip, self.spec.hole_diameter), "clipped-cone"
+        if self.spec.outside_diameter is not None:
+            return self.spec.outside_diameter, "job"
+        return None, "converged"
+
+    def methods(self) -> tuple[str, ...]:
+        """The methods the comparison runs for this joint."""
+        extra = ("cone",) if self.cone_source is not None or self.spec.member_stiffness == "cone" else ()
+        return COMPARED_METHODS[:3] + extra + COMPARED_METHODS[3:]
+
+    def comparison(self) -> StiffnessComparison:
+        return StiffnessComparison(**{m: self.value(m) for m in self.methods()})
+
+
+def with_member_value(spec: JointSpec, methods: MemberMethods) -> JointSpec:
+    """The spec carrying the k_m of a method the textbook engine cannot compute itself."""
+    if spec.members_value is not None:
+        return spec
+    if spec.member_stiffness in ("cone", "fe") or (spec.member_stiffness == "vdi" and spec.method != "vdi"):
+        if spec.member_stiffness == "cone" and methods.cone_source is None:
+            return spec  # typed-in joint: the engine's bounded frustum is its cone
+        return replace(spec, members_value=methods.value(spec.member_stiffness))
+    return spec
+
+
+# ----------------------------------------------------------------------------- one joint
+
+def _vdi_assess(spec: JointSpec) -> JointResult:
+    """The textbook engine's result with the VDI 2230-1 chain's stiffness, preload and checks (unrated)."""
+    chain = vdi_chain(spec)
+    service = replace(spec, members_value=chain.member_stiffness,
+                      preload=replace(spec.preload, mode="force", value=chain.preload))
+    result = engine.assess(service)
+    vdi = vdi_checks(spec, chain)
+    fatigue = next(c for c in vdi if c.name == "fatigue")
+    return replace(
+        result, spec=spec, stiffness_method="vdi" if spec.members_value is None else spec.member_stiffness,
+        bolt_stiffness=chain.bolt_stiffness,
+        joint_constant=engine.joint_constant(chain.bolt_stiffness, chain.member_stiffness),
+        tightening=chain.tightening(), checks=[c for c in result.checks if c.name not in VDI_REPLACES] + vdi,
+        fatigue_criterion="vdi", Se=chain.sigma_AS, sigma_a=chain.sigma_a, n_f=fatigue.value,
+        factors={**result.factors, "fatigue": fatigue.value}, vdi=chain, notes=result.notes + list(chain.notes),
+        stiffness_split=vdi_stiffness_split(spec, chain))
 
 
 def service_load_check(spec: JointSpec) -> Check:
@@ -123,50 +202,116 @@ def service_load_check(spec: JointSpec) -> Check:
                  "" if spec.loaded else "no [[load]], [[group]] or own load reaches this joint (require_loads = true)")
 
 
-def evaluate_joint(spec: JointSpec) -> JointResult:
-    """Run every check the joint's settings call for."""
-    fe_details = None
-    if spec.member_stiffness == "vdi" and spec.members_value is None and spec.method != "vdi":
-        spec = replace(spec, members_value=vdi_member_stiffness(spec))
-    if spec.member_stiffness == "fe" and spec.members_value is None:
-        fe = fe_stiffness(spec)
-        fe_details = {"stiffness": fe.stiffness, "outer_diameter": fe.outer_diameter,
-                      "mesh_change": fe.mesh_change, "contact_diameters": fe.contact_diameters}
-        spec = replace(spec, members_value=fe.stiffness)
-    result = _vdi_result(spec) if spec.method == "vdi" else engine.evaluate(spec)
-    if fe_details:
-        result.details["fe"] = fe_details
+def assess_joint(spec: JointSpec, methods: MemberMethods | None = None) -> JointResult:
+    """Every check the joint's settings call for, not yet rated (model joints add the stack-up)."""
+    methods = methods if methods is not None else MemberMethods(spec)
+    spec = with_member_value(spec, methods)
+    result = _vdi_assess(spec) if spec.method == "vdi" else engine.assess(spec)
     if spec.compare_stiffness:
-        result.details["stiffness_comparison"] = stiffness_comparison(spec, result.member_stiffness)
+        result.comparison = methods.comparison()
+    result.cone, result.fe = methods.cone, methods.fe
     result.checks.append(stripping_check(spec))
     if spec.shear > 0 and spec.method != "vdi":
-        result.checks.append(slip_check(spec, result))
+        result.checks.append(slip_check(spec, result.preload, result.joint_constant))
     if spec.require_load and not spec.loaded:
         result.checks.append(service_load_check(spec))
-    result.verdict, result.governing = engine.rate(result.checks)
-    result.ok = result.verdict != "fail"
     return result
 
 
+def evaluate_joint(spec: JointSpec) -> JointResult:
+    """Run every check the joint's settings call for and rate it (a typed-in joint, or a remedy's trial)."""
+    return engine.rate_result(assess_joint(spec))
+
+
+def _trial(spec: JointSpec) -> JointResult:
+    """A remedy's re-check: the joint's own checks, without the side-by-side comparison."""
+    return evaluate_joint(replace(spec, compare_stiffness=False))
+
+
+def timed_out(spec: JointSpec, seconds: float) -> JointResult:
+    """A joint whose analysis ran past its time limit: the closed-form numbers, and a failing
+    check that says it was not analysed (a joint that was not analysed cannot pass). Unrated."""
+    from geomjoint.limits import TIMEOUT_NOTE
+
+    fallback = replace(spec, member_stiffness="frustum" if spec.method != "vdi" else "vdi", members_value=None,
+                       compare_stiffness=False)
+    result = _vdi_assess(fallback) if fallback.method == "vdi" else engine.assess(fallback)
+    result.spec = spec
+    result.checks.append(Check(ANALYSIS_CHECK, None, None, False,
+                               f"{TIMEOUT_NOTE}: {spec.member_stiffness} stiffness took over {seconds:g} s; "
+                               f"the numbers shown are the closed-form ones"))
+    result.notes.append(TIMEOUT_NOTE)
+    return result
+
+
+def within_time_limit(spec: JointSpec, work: Callable[[], JointResult]) -> JointResult:
+    """Run one joint's (unrated) analysis under the per-joint wall-clock limit (geomjoint.limits)."""
+    from geomjoint.limits import JointTimeout, current_limits, run_with_timeout
+
+    seconds = current_limits().joint_seconds
+    try:
+        return run_with_timeout(work, seconds)
+    except JointTimeout:
+        return timed_out(spec, seconds)
+
+
+def finish(result: JointResult, hole_limit: float | None = None) -> JointResult:
+    """Rate the result (once, every check in) and attach the remedies a failing or marginal joint has."""
+    from geomjoint.remedies import find_remedies, stackup_remedies
+
+    engine.rate_result(result)
+    if result.verdict == "pass" or any(c.name == ANALYSIS_CHECK and not c.ok for c in result.checks):
+        return result  # nothing to mend, or nothing known to mend (not analysed)
+    remedies = stackup_remedies(result.findings)
+    bolt_failing = [c for c in result.checks if not c.ok and c.name != "stack-up"]
+    if bolt_failing or (result.verdict == "marginal" and not remedies):
+        remedies += find_remedies(result.spec, result, _trial, hole_limit=hole_limit)
+    result.remedies = remedies
+    return result
+
+
+def check_typed_joint(spec: JointSpec) -> JointResult:
+    """A typed-in joint: analysed under the time limit, rated, remedies attached."""
+    return finish(within_time_limit(spec, lambda: assess_joint(spec)))
 
 
 # ----------------------------------------------------------------------------- model joints
 
-#: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
-WASHER_MATERIAL = "steel"
-
-
 @dataclass
 class ModelJoint:
-    """A joint found in the model, resolved for the engine."""
+    """A joint found in the model, resolved for the engine.
+
+    ``cone_joint`` (geometry.cones.ConeJoint) and ``neighbours`` (ids of the joints whose cones
+    can reach its material) are set by the analysis when a method needs the geometry; the
+    marked-up model draws the same cones against the same neighbours.
+    """
 
     scan: Any                        # geometry.stacks.Joint
     spec: JointSpec
     findings: list[dict] = field(default_factory=list)
+    cone_joint: Any = None
+    neighbours: tuple[str, ...] = ()
+
+
+@dataclass
+class UnanalysedJoint:
+    """A model joint that could not be resolved for the engine: it fails, with the reason."""
+
+    id: str
+    reason: str                      # the one-line error that stopped it
+    findings: list[dict] = field(default_factory=list)
+
+    @property
+    def message(self) -> str:
+        return f"not analysed: {self.reason}"
 
 
 def _finding(severity: str, code: str, message: str) -> dict:
     return {"severity": severity, "code": code, "message": message}
+
+
+def _same_size(a: str, b: str) -> bool:
+    return catalog.thread(a).designation == catalog.thread(b).designation
 
 
 def _choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> str:
@@ -175,14 +320,14 @@ def _choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> s
     modelled = joint.nominal if joint.bolt is not None else None
     if ruled:
         chosen = settings["fastener"]
-        if modelled and catalog.thread(chosen).designation != catalog.thread(modelled).designation:
+        if modelled and not _same_size(chosen, modelled):
             findings.append(_finding("warn", "job-model-mismatch",
                                      f"job sets {chosen} but the modelled bolt {joint.bolt.part} is {modelled}; "
                                      f"the job's {chosen} is used"))
         return chosen
     if modelled:
         default = settings.get("fastener")
-        if default and catalog.thread(default).designation != catalog.thread(modelled).designation:
+        if default and not _same_size(default, modelled):
             findings.append(_finding("info", "job-model-mismatch",
                                      f"[defaults] fastener {default} differs from the modelled bolt {modelled}; "
                                      f"the modelled bolt is used"))
@@ -204,20 +349,18 @@ def _layer_material(job: Job, part: str, role: str) -> Any:
         raise
 
 
-def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
-    """A scanned joint + the job → JointSpec (layers with materials, hardware, loads)."""
-    findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
-    settings = settings_for(job, joint.id)
-    settings["fastener"] = _choose_fastener(job, joint, settings, findings)
-    if joint.head_kind and not any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "head" in r
-                                   for r in job.fastener_rules):
-        settings["head"] = joint.head_kind
-    where = f"{job.path.name}: joint {joint.id}"
+def _model_layers(job: Job, joint) -> list[LayerSpec]:
+    """The scanned layers with the materials the job gives their parts."""
     layers = []
     for layer in joint.layers:
         fields = material_layer_fields(_layer_material(job, layer.part, layer.role),
                                        f"{job.path.name}: [materials] (part {layer.part!r})")
         layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
+    return layers
+
+
+def _model_geometry(joint) -> dict[str, float]:
+    """What the model fixes of the joint (bearing and hole diameters, bolt length, nut, gaps)."""
     geometry = {
         "bearing_diameter": joint.head_bearing_diameter,
         "far_bearing_diameter": joint.nut_bearing_diameter,
@@ -226,17 +369,79 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
         "nut_height": joint.nut_height,
         "gaps": sum(g.size for g in joint.gaps),
     }
-    geometry = {k: v for k, v in geometry.items() if v is not None}
+    return {k: v for k, v in geometry.items() if v is not None}
+
+
+def _model_load(job: Job, joint_id: str, group_loads: dict[str, tuple[float, float, float]],
+                where: str) -> tuple[float, float, float]:
+    """(min, max, shear) per bolt: the job's [[load]] rules plus the joint's share of its [[group]]."""
+    lo, hi, shear = joint_load(job, joint_id, None, where)
+    if joint_id in group_loads:
+        g_lo, g_hi, g_shear = group_loads[joint_id]
+        lo, hi, shear = lo + g_lo, hi + g_hi, shear + g_shear
+    return lo, hi, shear
+
+
+def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
+    """A scanned joint + the job → JointSpec (layers with materials, hardware, loads).
+
+    Raises InputError when the joint cannot be resolved (see :func:`resolve_model_joints`).
+    """
+    findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
+    settings = settings_for(job, joint.id)
+    settings["fastener"] = _choose_fastener(job, joint, settings, findings)
+    if joint.head_kind and not any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "head" in r
+                                   for r in job.fastener_rules):
+        settings["head"] = joint.head_kind
+    where = f"{job.path.name}: joint {joint.id}"
     if joint.nut is None and joint.bolt is not None and not joint.tapped:
         findings.append(_finding("info", "nut-not-modelled", "no nut modelled: catalogue hex nut assumed"))
-    lo, hi, shear = joint_load(job, joint.id, None, where)
-    if joint.id in group_loads:
-        g_lo, g_hi, g_shear = group_loads[joint.id]
-        lo, hi, shear = lo + g_lo, hi + g_hi, shear + g_shear
     notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
-    spec = build_spec(job, joint.id, settings, layers, tapped=joint.tapped, load=(lo, hi, shear),
-                      where=where, geometry=geometry, notes=notes)
+    spec = build_spec(job, joint.id, settings, _model_layers(job, joint), tapped=joint.tapped,
+                      load=_model_load(job, joint.id, group_loads, where), where=where,
+                      geometry=_model_geometry(joint), notes=notes)
     return ModelJoint(joint, spec, findings)
+
+
+#: job keys whose failure is the joint's own (its size, length, hardware or hole), not a bad value
+#: written in the job file: such a joint is not analysed, the run goes on
+JOINT_SIZING_KEYS = ("fastener", "grade", "head", "length", "hole_diameter", "bearing_diameter")
+
+
+def joint_own_trouble(exc: InputError, where: str) -> bool:
+    """Whether an error resolving one model joint is that joint's own (True) or the job file's (False).
+
+    The joint's own: no size inferred, no standard length reaches, no hardware data for its size,
+    a hole or seat the bolt does not fit (errors about JOINT_SIZING_KEYS or with no key).  The job
+    file's: a value that does not parse, a choice that does not exist, a part without a material
+    ([materials] is the job's) -- those stay exit 2 for the whole run.
+    """
+    text = str(exc)
+    if not text.startswith(where):
+        return True                  # a catalogue lookup that names no key of the job
+    key = text[len(where):].split(":", 1)[0].lstrip(".")
+    return key == "" or key in JOINT_SIZING_KEYS
+
+
+def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[float, float, float]]
+                         ) -> tuple[list[ModelJoint], list[UnanalysedJoint]]:
+    """Every scanned joint resolved for the engine; one that cannot be is set aside with its reason.
+
+    A joint's own trouble (:func:`joint_own_trouble`) never stops the run: the joint fails as not
+    analysed and the others are checked.  A bad job file still raises (exit 2).
+    """
+    resolved: list[ModelJoint] = []
+    unresolved: list[UnanalysedJoint] = []
+    for joint in scanned:
+        try:
+            resolved.append(model_joint(job, joint, group_loads))
+        except InputError as exc:
+            if "[materials]" in str(exc) or not joint_own_trouble(exc, f"{job.path.name}: joint {joint.id}"):
+                raise
+            findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
+            findings.append(_finding("fail", "not-analysed", f"not analysed: {str(exc)}"))
+            unresolved.append(UnanalysedJoint(joint.id, str(exc), findings))
+    return resolved, unresolved
 
 
 def stackup_check(findings: list[dict]) -> Check:
@@ -246,36 +451,24 @@ def stackup_check(findings: list[dict]) -> Check:
                  "; ".join(f["message"] for f in failing) if failing else "")
 
 
-@dataclass
-class _ModelState:
-    """What the worker processes inherit (by fork) to compute cone / FE stiffness."""
-
-    joints: list[ModelJoint]
-    cone_joints: dict[str, Any]
-    neighbours: dict[str, list[str]] = field(default_factory=dict)
-    cone_cache: Any = None           # geometry.cones.ConeCache shared by the joints of the model
-
-
-def _cone_joint(mj: ModelJoint):
+def cone_joint_of(mj: ModelJoint):
+    """The joint's layers as the pressure-cone code sees them (geometry.cones.ConeJoint)."""
     from geomjoint.geometry.cones import ConeJoint, ConeLayer
-    from geomjoint.mechanics.checks import effective_grip_of
 
     j, spec = mj.scan, mj.spec
     layers = [ConeLayer(solid=l.solid, z_start=l.start, z_end=l.end, E=s.E, part=l.part,
                         hole_diameter=l.hole_diameter) for l, s in zip(j.layers, spec.layers)]
     return ConeJoint(id=j.id, axis_point=tuple(j.point), axis_direction=tuple(j.direction), layers=layers,
                      bearing_diameter=spec.bearing_diameter, far_bearing_diameter=spec.far_bearing_diameter,
-                     tapped=spec.tapped, effective_grip=effective_grip_of(spec) if spec.tapped else None,
+                     tapped=spec.tapped, effective_grip=engine.effective_grip_of(spec) if spec.tapped else None,
                      cone_angle_deg=spec.cone_angle)
 
 
 def cone_reach(spec: JointSpec) -> float:
     """Largest radius either pressure cone of the joint reaches, mm (at mid-grip)."""
-    from geomjoint.mechanics.checks import effective_grip_of
-
     tan_a = math.tan(math.radians(spec.cone_angle))
     widest = max(spec.bearing_diameter, spec.far_bearing_diameter or 0.0)
-    return 0.5 * widest + 0.5 * effective_grip_of(spec) * tan_a
+    return 0.5 * widest + 0.5 * engine.effective_grip_of(spec) * tan_a
 
 
 def cone_neighbours(joints: list[ModelJoint]) -> dict[str, list[str]]:
@@ -301,31 +494,33 @@ def cone_neighbours(joints: list[ModelJoint]) -> dict[str, list[str]]:
     return out
 
 
-def _members_from_geometry(state: _ModelState, index: int) -> tuple[JointSpec, dict]:
-    """k_m by the clipped cone or the FE model; the spec carries it to the engine."""
-    from geomjoint.geometry.cones import clipped_cone_stiffness
+def attach_cone_joints(joints: list[ModelJoint]) -> None:
+    """Give each model joint its cone joint and its cone neighbours (one place decides which cones count)."""
+    neighbours = cone_neighbours(joints)
+    for mj in joints:
+        mj.cone_joint = cone_joint_of(mj)
+        mj.neighbours = tuple(neighbours.get(mj.spec.id, ()))
 
-    mj = state.joints[index]
-    spec = mj.spec
-    details: dict = {}
-    if spec.member_stiffness not in ("cone", "fe"):
-        return spec, details
-    cone_joint = state.cone_joints[spec.id]
-    neighbours = [state.cone_joints[key] for key in state.neighbours.get(spec.id, ())]
-    cone = clipped_cone_stiffness(cone_joint, neighbours, cache=state.cone_cache)
-    details["cone"] = {"stiffness": cone.stiffness, "ideal_stiffness": cone.ideal_stiffness,
-                       "area_fraction_mid_grip": cone.area_fraction_mid_grip,
-                       "lost_to_edges": cone.lost_to_edges, "lost_to_neighbours": cone.lost_to_neighbours}
-    if spec.member_stiffness == "cone":
-        return replace(spec, members_value=cone.stiffness), details
-    outer = None
-    if cone.area_fraction_mid_grip < 1.0 - 1e-6:
-        # the plate the cone really finds: the annulus of the clipped mid-grip area
-        outer = (4.0 * cone.area_mid_grip / math.pi + spec.hole_diameter ** 2) ** 0.5
-    fe = fe_stiffness(spec, outer)
-    details["fe"] = {"stiffness": fe.stiffness, "outer_diameter": fe.outer_diameter,
-                     "mesh_change": fe.mesh_change, "contact_diameters": fe.contact_diameters}
-    return replace(spec, members_value=fe.stiffness), details
+
+@dataclass
+class _ModelState:
+    """What the worker processes inherit (by fork) to compute cone / FE stiffness."""
+
+    joints: list[ModelJoint]
+    cone_cache: Any = None           # geometry.cones.ConeCache shared by the joints of the model
+
+    def cone_source(self, mj: ModelJoint) -> Callable[[], ConeStiffness] | None:
+        if mj.cone_joint is None:
+            return None
+        by_id = {other.spec.id: other for other in self.joints}
+
+        def clipped() -> ConeStiffness:
+            from geomjoint.geometry.cones import clipped_cone_stiffness
+
+            neighbours = [by_id[key].cone_joint for key in mj.neighbours]
+            return cone_record(clipped_cone_stiffness(mj.cone_joint, neighbours, cache=self.cone_cache),
+                               mj.neighbours)
+        return clipped
 
 
 _STATE: _ModelState | None = None   # set in each worker process by _init_worker only
@@ -336,72 +531,46 @@ def _init_worker(state: _ModelState) -> None:
     _STATE = state
 
 
-def _analyse_model_joint(index: int) -> JointResult:
+def _analyse_model_joint(index: int) -> JointResult | UnanalysedJoint:
     return _analyse_one(_STATE, index)
 
 
-def timed_out(spec: JointSpec, seconds: float) -> JointResult:
-    """A joint whose analysis ran past its time limit: the closed-form numbers, and a failing
-    check that says it was not analysed (a joint that was not analysed cannot pass)."""
-    from geomjoint.limits import TIMEOUT_NOTE
-
-    fallback = replace(spec, member_stiffness="frustum" if spec.method != "vdi" else "vdi", members_value=None,
-                       compare_stiffness=False)
-    result = _vdi_result(fallback) if fallback.method == "vdi" else engine.evaluate(fallback)
-    result.spec = spec
-    result.checks.append(Check("analysis", None, None, False,
-                               f"{TIMEOUT_NOTE}: {spec.member_stiffness} stiffness took over {seconds:g} s; "
-                               f"the numbers shown are the closed-form ones"))
-    result.notes.append(TIMEOUT_NOTE)
-    result.verdict, result.governing = engine.rate(result.checks)
-    result.ok = False
-    return result
-
-
-def within_time_limit(spec: JointSpec, work: Callable[[], JointResult]) -> JointResult:
-    """Run one joint's analysis under the per-joint wall-clock limit (geomjoint.limits)."""
-    from geomjoint.limits import JointTimeout, current_limits, run_with_timeout
-
-    seconds = current_limits().joint_seconds
-    try:
-        return run_with_timeout(work, seconds)
-    except JointTimeout:
-        return timed_out(spec, seconds)
-
-
-def _analyse_one(state: _ModelState, index: int) -> JointResult:
+def _analyse_one(state: _ModelState, index: int) -> JointResult | UnanalysedJoint:
+    """One model joint checked; its own bad data (an InputError) sets it aside, not the run."""
     mj = state.joints[index]
-
-    def work() -> JointResult:
-        spec, details = _members_from_geometry(state, index)
-        result = evaluate_joint(spec)
-        result.details.update(details)
-        if "cone" in details and "stiffness_comparison" in result.details:
-            result.details["stiffness_comparison"]["cone"] = details["cone"]["stiffness"]
-        return result
-
-    result = within_time_limit(mj.spec, work)
-    spec = result.spec
+    methods = MemberMethods(mj.spec, cone_source=state.cone_source(mj))
+    try:
+        result = within_time_limit(mj.spec, lambda: assess_joint(mj.spec, methods))
+    except InputError as exc:
+        return UnanalysedJoint(mj.spec.id, str(exc), mj.findings + [
+            _finding("fail", "not-analysed", f"not analysed: {exc}")])
     result.findings = list(mj.findings)
     result.checks.append(stackup_check(mj.findings))
-    result.verdict, result.governing = engine.rate(result.checks)
-    result.ok = result.verdict != "fail"
-    with_remedies(spec, result, hole_limit=spec.hole_diameter)
-    return result
+    return finish(result, hole_limit=result.spec.hole_diameter)
 
 
-def with_remedies(spec: JointSpec, result: JointResult, hole_limit: float | None = None) -> JointResult:
-    """Attach computed remedies to a failing or marginal result."""
-    from geomjoint.remedies import find_remedies, stackup_remedies
+def _analyse_model(state: _ModelState, workers: int, quiet: bool, started: float
+                   ) -> list[JointResult | UnanalysedJoint]:
+    """Every model joint of ``state`` analysed, in order (in worker processes when it pays)."""
+    total = len(state.joints)
+    progress = Progress("analysed", total, quiet=quiet, started=started)
+    workers = workers or os.cpu_count() or 1
+    results: list[JointResult | UnanalysedJoint] = []
+    if workers > 1 and total > 1 and "fork" in multiprocessing.get_all_start_methods():
+        from concurrent.futures import ProcessPoolExecutor
 
-    if result.verdict == "pass" or any(c.name == "analysis" and not c.ok for c in result.checks):
-        return result  # nothing to mend, or nothing known to mend (not analysed)
-    remedies = stackup_remedies(result.findings)
-    bolt_failing = [c for c in result.checks if not c.ok and c.name != "stack-up"]
-    if bolt_failing or (result.verdict == "marginal" and not remedies):
-        remedies += find_remedies(spec, result, evaluate_joint, hole_limit=hole_limit)
-    result.details["remedies"] = remedies
-    return result
+        # fork: the workers inherit the model's shapes instead of re-reading the file
+        ctx = multiprocessing.get_context("fork")
+        with ProcessPoolExecutor(max_workers=min(workers, total), mp_context=ctx,
+                                 initializer=_init_worker, initargs=(state,)) as pool:
+            for result in pool.map(_analyse_model_joint, range(total), chunksize=max(1, total // (4 * workers))):
+                results.append(result)
+                progress.update(len(results))
+    else:
+        for i in range(total):
+            results.append(_analyse_one(state, i))
+            progress.update(i + 1)
+    return results
 
 
 def group_shares(job: Job, scanned: list, groups: list[dict] | None = None) -> dict[str, tuple[float, float, float]]:
@@ -417,6 +586,12 @@ class Analysis:
     scan: Any = None                 # geometry.scan.ScanResult when the job has a model
     model_joints: list[ModelJoint] = field(default_factory=list)
     excluded: list[str] = field(default_factory=list)   # joint ids the job's ``exclude`` names
+    not_analysed: list[UnanalysedJoint] = field(default_factory=list)
+
+    @property
+    def failed(self) -> bool:
+        """A joint fails, or one could not be analysed."""
+        return bool(self.not_analysed) or any(not r.ok for r in self.results)
 
 
 def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, model=None) -> Analysis:
@@ -425,10 +600,10 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     ``model`` (a STEP path or an in-memory cadquery Assembly / Workplane / Shape) replaces the
     job's own ``model``; ``scan`` a scan already made of it.
     """
+    from geomjoint.geometry.scan import scan_model
+
     started = time.monotonic()
     if model is not None and scan is None:
-        from geomjoint.geometry.scan import scan_model
-
         scan = scan_model(model)
     if not job.joints and job.model is None and scan is None:
         raise InputError("no [[joint]] and no model: nothing to check", where=job.path.name)
@@ -437,15 +612,12 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
                    if isinstance(layer, dict)]
     if job.model is None and scan is None:
         check_rules_match(job, typed_ids, typed_parts)
-    results = [with_remedies(spec, within_time_limit(spec, lambda spec=spec: evaluate_joint(spec)))
-               for spec in typed_joint_specs(job)]
+    results = [check_typed_joint(spec) for spec in typed_joint_specs(job)]
     if job.model is None and scan is None:
         if job.groups:
             raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))
         return Analysis(results, excluded=[i for i in typed_ids if is_excluded(job, i)])
     if scan is None:
-        from geomjoint.geometry.scan import scan_model
-
         scan = scan_model(job.model)
     check_rules_match(job, [j.id for j in scan.joints] + typed_ids,
                       typed_parts + [(p.name, p.product) for p in scan.model.parts])
@@ -453,35 +625,36 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     analysed = [j for j in scan.joints if not is_excluded(job, j.id)]
     model_groups = [g for g in job.groups if "positions" not in g]
     shares = group_shares(job, analysed, model_groups) if model_groups else {}
-    model_joints = [model_joint(job, j, shares) for j in analysed]
-    state = _ModelState(model_joints, {})
-    if any(mj.spec.member_stiffness in ("cone", "fe") for mj in model_joints):
-        from geomjoint.geometry.cones import ConeCache
+    model_joints, not_analysed = resolve_model_joints(job, analysed, shares)
+    from geomjoint.geometry.cones import ConeCache
 
-        state.cone_joints = {mj.spec.id: _cone_joint(mj) for mj in model_joints}
-        state.neighbours = cone_neighbours(model_joints)
-        state.cone_cache = ConeCache()
-    total = len(model_joints)
-    progress = Progress("analysed", total, quiet=quiet, started=started)
-    workers = workers or os.cpu_count() or 1
-    model_results: list[JointResult] = []
-    if workers > 1 and total > 1 and "fork" in multiprocessing.get_all_start_methods():
-        from concurrent.futures import ProcessPoolExecutor
+    # the cones (and which neighbours count) are decided here once: the stiffness and the
+    # marked-up model both use them
+    attach_cone_joints(model_joints)
+    state = _ModelState(model_joints, ConeCache())
+    for outcome in _analyse_model(state, workers, quiet, started):
+        (not_analysed if isinstance(outcome, UnanalysedJoint) else results).append(outcome)
+    return Analysis(results, scan, model_joints, excluded, not_analysed)
 
-        # fork: the workers inherit the model's shapes instead of re-reading the file
-        ctx = multiprocessing.get_context("fork")
-        with ProcessPoolExecutor(max_workers=min(workers, total), mp_context=ctx,
-                                 initializer=_init_worker, initargs=(state,)) as pool:
-            for result in pool.map(_analyse_model_joint, range(total), chunksize=max(1, total // (4 * workers))):
-                model_results.append(result)
-                progress.update(len(model_results))
-    else:
-        for i in range(total):
-            model_results.append(_analyse_one(state, i))
-            progress.update(i + 1)
-    return Analysis(results + model_results, scan, model_joints, excluded)
+
+def warn_not_analysed(analysis: Analysis) -> list[JointResult]:
+    """The results, with a warning for each model joint that could not be analysed (a caller that
+    takes only the list of results must still hear of them)."""
+    import warnings
+
+    for u in analysis.not_analysed:
+        warnings.warn(f"joint {u.id}: {u.message}", NotAnalysedWarning, stacklevel=3)
+    return analysis.results
+
+
+class NotAnalysedWarning(UserWarning):
+    """A model joint could not be analysed (its reason is the message)."""
 
 
 def analyze(job: Job, model=None, *, workers: int = 1, quiet: bool = True) -> list[JointResult]:
-    """Analyse every joint of the job (typed-in joints; model joints when the job or ``model`` gives one)."""
-    return analyze_job(job, workers=workers, quiet=quiet, model=model).results
+    """Analyse every joint of the job (typed-in joints; model joints when the job or ``model`` gives one).
+
+    A model joint that cannot be analysed is not in the list: a :class:`NotAnalysedWarning` names it
+    (use :func:`analyze_job` for the joints themselves).
+    """
+    return warn_not_analysed(analyze_job(job, workers=workers, quiet=quiet, model=model))

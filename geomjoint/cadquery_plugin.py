@@ -16,7 +16,7 @@ from pathlib import Path
 
 import cadquery as cq
 
-from geomjoint.analysis import analyze_job
+from geomjoint.analysis import analyze_job, warn_not_analysed
 from geomjoint.geometry.scan import scan_model
 from geomjoint.job import load_job, parse_job
 
@@ -33,10 +33,14 @@ def find_bolted_joints(self):
 
 
 def check_bolted_joints(self, job, workers: int = 1):
-    """Check every joint of this cadquery object with the settings of ``job``; a list of JointResult."""
+    """Check every joint of this cadquery object with the settings of ``job``; a list of JointResult.
+
+    A joint that cannot be analysed (no size, no standard length) is left out of the list with a
+    ``geomjoint.analysis.NotAnalysedWarning`` naming it and its reason.
+    """
     job = _job(job)
     job.model = None
-    return analyze_job(job, workers=workers, model=self).results
+    return warn_not_analysed(analyze_job(job, workers=workers, model=self))
 
 
 def register() -> None:

@@ -14,7 +14,7 @@ from typing import Callable, Iterator
 from geomjoint import catalog
 from geomjoint.errors import InputError
 from geomjoint.mechanics.bolt import required_length
-from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec
+from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec, Remedy
 
 #: the property-class ladders a remedy climbs (ISO 898-1; SAE J429)
 GRADE_LADDERS = (("4.6", "5.6", "8.8", "10.9", "12.9"), ("SAE 2", "SAE 5", "SAE 8"))
@@ -188,14 +188,14 @@ def candidates(spec: JointSpec, result: JointResult, hole_limit: float | None = 
 
 
 def find_remedies(spec: JointSpec, result: JointResult, evaluate: Callable[[JointSpec], JointResult],
-                  hole_limit: float | None = None, limit: int = MAX_REMEDIES) -> list[dict]:
+                  hole_limit: float | None = None, limit: int = MAX_REMEDIES) -> list[Remedy]:
     """The first ``limit`` candidates that make the joint pass (a failing joint: at least not fail).
 
     ``hole_limit``: for a joint in a model the bolt must still pass the existing hole, so
-    only sizes below it are tried.  Each remedy is ``{"change", "result", "verdict"}``.
+    only sizes below it are tried.
     """
     target = ("pass",) if result.verdict == "marginal" else ("pass", "marginal")
-    found: list[dict] = []
+    found: list[Remedy] = []
     kinds_found: set[str] = set()
     for candidate in candidates(spec, result, hole_limit):
         if candidate.kind in kinds_found:
@@ -208,14 +208,14 @@ def find_remedies(spec: JointSpec, result: JointResult, evaluate: Callable[[Join
             governing = next((c for c in trial.checks if c.name == trial.governing), None)
             value = f" {governing.value:.2f}" if governing is not None and governing.value is not None else ""
             kinds_found.add(candidate.kind)
-            found.append({"change": candidate.change, "verdict": trial.verdict,
-                          "result": f"{trial.verdict} (least margin: {trial.governing}{value})"})
+            found.append(Remedy(candidate.change, trial.verdict,
+                                f"{trial.verdict} (least margin: {trial.governing}{value})"))
             if len(found) >= limit:
                 break
     return found
 
 
-def stackup_remedies(findings: list[dict]) -> list[dict]:
+def stackup_remedies(findings: list[dict]) -> list[Remedy]:
     """What the stack-up findings ask for: changes to the parts, not to the bolt."""
     fixes = {
         "misaligned": "align the holes (or open the clearance) so the bolt passes",
@@ -228,5 +228,5 @@ def stackup_remedies(findings: list[dict]) -> list[dict]:
     out = []
     for f in findings:
         if f["severity"] == "fail" and f["code"] in fixes:
-            out.append({"change": fixes[f["code"]], "verdict": "geometry", "result": f["message"]})
+            out.append(Remedy(fixes[f["code"]], "geometry", f["message"]))
     return out

@@ -75,7 +75,7 @@ def test_metric_through_joint_by_hand():
     ratios = {c.name: c.value for c in r.checks if c.value is not None}
     assert r.governing == min(ratios, key=ratios.get) == "yield"
     assert r.verdict == ("pass" if min(ratios.values()) >= MARGINAL_BAND else "marginal")
-    assert r.details["l_d"] == pytest.approx(l_d) and r.details["l_t"] == pytest.approx(l_t)
+    assert r.l_d == pytest.approx(l_d) and r.l_t == pytest.approx(l_t)
     assert r.tightening["torque"] == pytest.approx(0.2 * F_i * d)   # T = K F_i d, K = 0.2 (eq. 8-27)
 
 
@@ -172,7 +172,7 @@ def test_without_preload_bolt_takes_whole_load():
     assert not sep.ok and r.verdict == "fail" and not r.ok
     assert r.factors["yield"] == pytest.approx(830.0 * 84.3 / 20000.0)     # bolt force = P
     assert r.factors["load"] == pytest.approx(830.0 * 84.3 / 20000.0)
-    assert r.details["bolt_force"] == pytest.approx(20000.0)
+    assert r.bolt_force == pytest.approx(20000.0)
     assert (r.sigma_i, r.sigma_a, r.sigma_m) == pytest.approx((0.0, 20000.0 / (2 * 84.3), 20000.0 / (2 * 84.3)))
 
 
@@ -248,7 +248,7 @@ def test_cut_threads_go_the_marin_way():
     # cut threads: Marin with K_f = 3.8 (Table 8-16, high grade) and the machined surface (common practice)
     r = evaluate(metric_joint(fastener=m12(threads="cut")))
     assert r.Se == pytest.approx(4.51 * 1040.0 ** -0.265 * 0.85 * 0.814 * 520.0 / 3.8, rel=1e-12)
-    assert r.details["endurance_method"] == "marin"
+    assert r.endurance_method == "marin"
 
 
 @pytest.mark.parametrize("criterion", ["goodman", "gerber", "asme-elliptic", "soderberg"])

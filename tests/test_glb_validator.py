@@ -13,6 +13,7 @@ import pytest
 
 from geomjoint.analysis import analyze_job
 from geomjoint.geometry.glb import write_glb
+from geomjoint.scene import markup_scene
 from geomjoint.job import load_job
 
 HERE = Path(__file__).resolve().parent / "gltf"
@@ -33,7 +34,7 @@ def validator():
 def test_marked_up_glb_is_valid_gltf(validator, tmp_path):
     analysis = analyze_job(load_job(SAMPLES / "conveyor_drive.toml"))
     glb = tmp_path / "bracket.glb"
-    write_glb(analysis, glb)
+    write_glb(markup_scene(analysis), glb)
     run = subprocess.run([validator, str(HERE / "validate.js"), str(glb)], capture_output=True, text=True,
                          timeout=120)
     assert run.returncode == 0, run.stderr

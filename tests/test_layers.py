@@ -19,12 +19,7 @@ MECHANICS_MAY_IMPORT = CATALOG_MAY_IMPORT + ("geomjoint.mechanics",)
 
 #: known violations being moved by other work: (file, imported module) -> reason.  Each runs as
 #: a strict xfail, so the test turns loud once the import is gone and the entry must go.
-KNOWN = {
-    ("geometry/markup.py", "geomjoint.analysis"):
-        "markup rebuilds the cone joints with analysis._cone_joint; the scene building is moving above geometry/",
-    ("geometry/markup.py", "geomjoint.report"):
-        "markup colours the scene with report.palette; the scene building is moving above geometry/",
-}
+KNOWN: dict[tuple[str, str], str] = {}
 
 
 def _within(name: str, prefixes) -> bool:

@@ -15,22 +15,15 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from geomjoint.analysis import _cone_joint, analyze_job
+from geomjoint.analysis import analyze_job, cone_joint_of
 from geomjoint.errors import InputError
 from geomjoint.geometry.cones import cone_solids
 from geomjoint.geometry.glb import TESSELLATION_FRACTION, tessellate, tessellation_tolerance, write_glb
-from geomjoint.geometry.markup import (
-    has_solid,
-    hole_face_indices,
-    joint_node_name,
-    layer_name,
-    markup_scene,
-    volume,
-    write_marked_step,
-)
+from geomjoint.geometry.markup import has_solid, hole_face_indices, volume, write_marked_step
 from geomjoint.job import load_job
 from geomjoint.outputs import safe_name
 from geomjoint.report.palette import CONE_ALPHA, VERDICT_COLOURS, VERDICT_RGB, hex_to_rgb
+from geomjoint.scene import joint_node_name, layer_name, markup_scene
 
 SAMPLES = Path(__file__).resolve().parents[1] / "samples"
 VERDICTS = ("pass", "marginal", "fail")
@@ -154,8 +147,9 @@ def sample(tmp_path_factory):
     before = {p: digest(p) for p in (model, job_file)}
     analysis = analyze_job(load_job(str(job_file)))
     out = tmp_path_factory.mktemp("markup")
-    summary = write_marked_step(analysis, out / "marked.step")
-    write_glb(analysis, out / "marked.glb")
+    scene = markup_scene(analysis)
+    summary = write_marked_step(scene, out / "marked.step")
+    write_glb(scene, out / "marked.glb")
     after = {p: digest(p) for p in (model, job_file)}
     return {"analysis": analysis, "summary": summary, "out": out, "before": before, "after": after,
             "step": out / "marked.step", "glb": out / "marked.glb", "model": model}
@@ -175,7 +169,8 @@ def results(sample):
 def expected_cones(sample):
     """Cone volumes computed afresh by the cone module, by joint id and (part, side)."""
     a = sample["analysis"]
-    cj = {mj.scan.id: _cone_joint(mj) for mj in a.model_joints}
+    # every other joint as a neighbour: the scene's k-d-tree neighbour list must give the same solids
+    cj = {mj.scan.id: cone_joint_of(mj) for mj in a.model_joints}
     out = {}
     for jid, joint in cj.items():
         out[jid] = {}
@@ -485,7 +480,7 @@ def plain_model(tmp_path_factory):
     job = folder / "plain.toml"
     job.write_text(GENERATED_JOB.format(model=model.name))
     analysis = analyze_job(load_job(str(job)))
-    summary = write_marked_step(analysis, folder / "out.step")
+    summary = write_marked_step(markup_scene(analysis), folder / "out.step")
     return {"analysis": analysis, "summary": summary, "path": folder / "out.step", "model": model}
 
 
@@ -536,7 +531,7 @@ def test_every_verdict_gets_its_colour_layer_and_name(plain_model, tmp_path):
     ids = [mj.scan.id for mj in a.model_joints]
     forced = {ids[0]: "marginal", ids[1]: "fail"}
     results = [dc_replace(r, verdict=forced[r.id]) if r.id in forced else r for r in a.results]
-    summary = write_marked_step(Analysis(results, a.scan, a.model_joints), tmp_path / "v.step")
+    summary = write_marked_step(markup_scene(Analysis(results, a.scan, a.model_joints)), tmp_path / "v.step")
     joints = child(read_step_tree(tmp_path / "v.step")["tops"][0], "joints")
     for node in joints["children"]:
         verdict = forced[node["name"].split(" ")[0]]
@@ -551,9 +546,9 @@ def test_refuses_to_overwrite_the_input_model(plain_model):
     model = plain_model["model"]
     before = digest(model)
     with pytest.raises(InputError):
-        write_marked_step(plain_model["analysis"], model)
+        write_marked_step(markup_scene(plain_model["analysis"]), model)
     with pytest.raises(InputError):
-        write_glb(plain_model["analysis"], model)
+        write_glb(markup_scene(plain_model["analysis"]), model)
     assert digest(model) == before
 
 
@@ -570,7 +565,7 @@ def test_node_names():
 def test_step_writer_keeps_stdout_clean(plain_model, tmp_path, capfd):
     """`check --json` promises JSON alone on stdout: the kernel's transfer statistics must not leak."""
     capfd.readouterr()
-    write_marked_step(plain_model["analysis"], tmp_path / "quiet.step")
+    write_marked_step(markup_scene(plain_model["analysis"]), tmp_path / "quiet.step")
     out, _ = capfd.readouterr()
     assert out == ""
     assert (tmp_path / "quiet.step").read_bytes().startswith(b"ISO-10303-21")
@@ -578,23 +573,23 @@ def test_step_writer_keeps_stdout_clean(plain_model, tmp_path, capfd):
 
 def test_shared_scene_gives_the_same_files(plain_model, tmp_path):
     scene = markup_scene(plain_model["analysis"])
-    s1 = write_marked_step(plain_model["analysis"], tmp_path / "a.step", scene=scene)
-    write_glb(plain_model["analysis"], tmp_path / "a.glb", scene=scene)
+    s1 = write_marked_step(scene, tmp_path / "a.step")
+    write_glb(scene, tmp_path / "a.glb")
     assert s1.joints == plain_model["summary"].joints and s1.cones == pytest.approx(plain_model["summary"].cones)
     tree, _ = glb_json(tmp_path / "a.glb")
     assert sorted(n["name"] for n in tree["nodes"] if "extras" in n and n["name"] != "parts") == sorted(s1.joints)
 
 
 def test_crash_mid_write_leaves_no_file(plain_model, tmp_path, monkeypatch):
-    import geomjoint.geometry.markup as markup
+    import geomjoint.outputs as outputs
 
     def boom(src, dst):
         raise OSError("disk full (simulated)")
 
-    monkeypatch.setattr(markup.os, "replace", boom)
+    monkeypatch.setattr(outputs.os, "replace", boom)
     target = tmp_path / "marked.step"
     with pytest.raises(OSError):
-        write_marked_step(plain_model["analysis"], target)
+        write_marked_step(markup_scene(plain_model["analysis"]), target)
     assert list(tmp_path.iterdir()) == []
 
 

@@ -46,12 +46,12 @@ def test_typed_fe_uses_the_fe_model():
     direct = fe_member_stiffness([FeLayer(l.thickness, l.E, l.poisson) for l in spec.layers], 13.0,
                                  spec.bearing_diameter, spec.far_bearing_diameter, outer_diameter=60.0)
     assert result.member_stiffness == pytest.approx(direct.stiffness, rel=1e-9)
-    assert result.details["fe"]["mesh_change"] < 0.01     # the FE model's own refinement criterion
+    assert result.fe.mesh_change < 0.01     # the FE model's own refinement criterion
 
 
 def test_compare_stiffness_lists_every_method():
     result = run("frustum", "compare_stiffness = true")
-    table = result.details["stiffness_comparison"]
+    table = result.comparison.values()
     assert set(table) == {"frustum", "exponential", "vdi", "fe"}
     assert table["frustum"] == pytest.approx(result.member_stiffness)
     assert all(v > 0 for v in table.values())
@@ -63,7 +63,7 @@ def test_comparison_reaches_json_and_html():
 
     result = run("frustum", "compare_stiffness = true")
     doc = result_document([result], "t")["joints"][0]
-    assert doc["stiffness"]["comparison"] == result.details["stiffness_comparison"]
+    assert doc["stiffness"]["comparison"] == result.comparison.values()
     page = html_report([result], title="t")
     assert "Member stiffness by every method" in page and "axisymmetric finite elements" in page
 

@@ -59,8 +59,8 @@ def test_sample_model_verdicts(tmp_path, scan):
     assert any(f["code"] == "misaligned" for f in r["J02"].findings)
     assert not next(c for c in r["J04"].checks if c.name == "length").ok
     # the remedy for the short bolt is a standard length that passes the re-check
-    remedies = r["J04"].details["remedies"]
-    assert any(m["change"].startswith("bolt length 35 ->") and m["verdict"] in ("pass", "marginal") for m in remedies)
+    remedies = r["J04"].remedies
+    assert any(m.change.startswith("bolt length 35 ->") and m.verdict in ("pass", "marginal") for m in remedies)
 
 
 def test_typed_joint_equals_model_joint(tmp_path, scan):
@@ -162,26 +162,26 @@ def test_model_joints_by_cone_and_fe(tmp_path, scan):
     cone = by_id(analyze_job(load_job(write_job(tmp_path, cone_job, "cone.toml")), scan=scan).results)
     for jid, r in cone.items():
         assert r.stiffness_method == "cone"
-        ideal = r.details["cone"]["ideal_stiffness"]
+        ideal = r.cone.ideal_stiffness
         # clipping only removes material: never stiffer than the same cones unclipped
         assert r.member_stiffness <= ideal * (1 + 1e-9)
-        assert 0 < r.details["cone"]["area_fraction_mid_grip"] <= 1 + 1e-9
+        assert 0 < r.cone.area_fraction_mid_grip <= 1 + 1e-9
     fe_job = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nmember_stiffness = "fe"')
     fe = by_id(analyze_job(load_job(write_job(tmp_path, fe_job, "fe.toml")), scan=scan).results)
     assert set(fe) == set(frustum)
     for r in fe.values():
         assert r.stiffness_method == "fe" and 0 < r.joint_constant < 1
-        assert r.details["fe"]["mesh_change"] < 0.01
+        assert r.fe.mesh_change < 0.01
 
 
 def test_neighbour_search_changes_nothing(tmp_path, scan):
     """Only joints whose cones can meet are passed as neighbours; passing all gives the same k_m."""
-    from geomjoint.analysis import _cone_joint, cone_neighbours, model_joint
+    from geomjoint.analysis import cone_joint_of, cone_neighbours, model_joint
     from geomjoint.geometry.cones import clipped_cone_stiffness
 
     job = load_job(write_job(tmp_path))
     joints = [model_joint(job, j, {}) for j in scan.joints]
-    cones = {mj.spec.id: _cone_joint(mj) for mj in joints}
+    cones = {mj.spec.id: cone_joint_of(mj) for mj in joints}
     near = cone_neighbours(joints)
     for jid, cone in cones.items():
         everyone = [c for k, c in cones.items() if k != jid]
@@ -201,8 +201,8 @@ def test_sample_jobs_end_to_end(job, expected):
     assert {r.id: r.verdict for r in results} == expected
     if job.startswith("gearbox"):
         j03 = by_id(results)["J03"]
-        assert any(m["change"] == "bolt length 35 -> 25 mm" for m in j03.details["remedies"])
-        assert all(r.details["fatigue_criterion"] == "vdi" and r.tightening["torque"] > 0 for r in results)
+        assert any(m.change == "bolt length 35 -> 25 mm" for m in j03.remedies)
+        assert all(r.fatigue_criterion == "vdi" and r.tightening["torque"] > 0 for r in results)
     else:
         assert all(r.spec.fastener.designation == "1/2-13 UNC" and r.stiffness_method == "cone" for r in results)
 
@@ -222,7 +222,7 @@ def test_inch_job_reports_in_inch_units():
 def test_compare_stiffness_of_a_model_joint_includes_the_clipped_cone(tmp_path, scan):
     text = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nmember_stiffness = "fe"\ncompare_stiffness = true')
     result = by_id(analyze_job(load_job(write_job(tmp_path, text, "cmp.toml")), scan=scan).results)["J01"]
-    table = result.details["stiffness_comparison"]
+    table = result.comparison.values()
     assert set(table) == {"frustum", "exponential", "vdi", "cone", "fe"}
-    assert table["cone"] == pytest.approx(result.details["cone"]["stiffness"])
+    assert table["cone"] == pytest.approx(result.cone.stiffness)
     assert table["fe"] == pytest.approx(result.member_stiffness)

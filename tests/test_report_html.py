@@ -38,13 +38,17 @@ from geomjoint.report.text import CAUTION
 
 from geomjoint.mechanics.joint import (
     Check,
+    ConeStiffness,
     FastenerSpec,
     FatigueSpec,
     JointResult,
     JointSpec,
     LayerSpec,
     PreloadSpec,
+    Remedy,
+    VdiSpec,
 )
+from geomjoint.mechanics.vdi import vdi_chain
 
 E_STEEL = 207_000.0      # MPa, Shigley 10th ed., Table 8-8 (from memory)
 E_CAST_IRON = 100_000.0  # MPa, gray cast iron, Shigley 10th ed., Table 8-8 (from memory)
@@ -110,14 +114,11 @@ def make_result(jid: str, fastener: FastenerSpec, layers: tuple[LayerSpec, ...],
     if scatter > 1.0:
         # mean-of-band convention: F_min = 2 F_i/(1 + a), F_max = 2 a F_i/(1 + a)
         tightening = {"preload_min": 2 * F_i / (1 + scatter), "preload_max": 2 * scatter * F_i / (1 + scatter)}
-    details = {"fatigue_criterion": criterion}
-    if remedies:
-        details["remedies"] = remedies
     return JointResult(id=jid, ok=verdict != "fail", verdict=verdict, governing=governing, spec=spec, grip=grip,
                        effective_grip=eff_grip, bolt_stiffness=k_b, member_stiffness=k_m, joint_constant=C,
                        stiffness_method="frustum", preload=F_i, Se=Se, sigma_a=s_a, sigma_m=s_m, sigma_i=s_i,
                        n_f=n_f, factors=factors, checks=checks, tightening=tightening,
-                       findings=findings or [], details=details, notes=["built by hand for the report tests"])
+                       findings=findings or [], fatigue_criterion=criterion, remedies=list(remedies or []), notes=["built by hand for the report tests"])
 
 
 # ISO M12x1.75: A_s = 84.3 mm^2 (ISO 898-1:2013), d2, d3, D1 by ISO 724 (from memory);
@@ -154,7 +155,7 @@ def sample_results() -> list[JointResult]:
                     tapped=True, d_w=24.0, d_h=17.5, l_d=0.0, eff_grip=28.0, E_members=E_ALUMINIUM,
                     p_min=5_000.0, p_max=60_000.0, Se=129.0, criterion="gerber", required_fatigue=3.0,
                     scatter=1.6,
-                    remedies=[{"change": "M20 8.8", "result": "fatigue 3.4"}],
+                    remedies=[Remedy("M20 8.8", "pass", "fatigue 3.4")],
                     findings=[{"severity": "warn", "code": "soft-layer", "message": "aluminium cover under the head"}])
     # inch through joint with a washer: 1/8 in washer + two 3/4 in plates
     c = make_result("C3", UNC_12_SAE5,
@@ -419,7 +420,7 @@ def test_criterion_curves():
 @pytest.mark.parametrize("criterion", ["goodman", "gerber", "asme-elliptic", "soderberg"])
 def test_fatigue_diagram_for_each_criterion(results, criterion):
     r = results[0]
-    r = dataclasses.replace(r, details={**r.details, "fatigue_criterion": criterion})
+    r = dataclasses.replace(r, fatigue_criterion=criterion)
     svg = fatigue_diagram_svg(r)
     root = ET.fromstring(svg)
     text = " ".join(t.text or "" for t in root.iter("{http://www.w3.org/2000/svg}text"))
@@ -472,11 +473,10 @@ def test_vdi_and_clipped_cone_details_render(results):
     # what the pipeline leaves for a VDI joint with a geometry-clipped cone
     r = results[0]
     k = r.member_stiffness
-    vdi = dataclasses.replace(r, details={**r.details, "fatigue_criterion": "vdi",
-                                          "vdi": {"preload": r.preload, "sigma_AS": 52.0},
-                                          "cone": {"stiffness": k, "ideal_stiffness": 1.25 * k,
-                                                   "area_fraction_mid_grip": 0.8, "lost_to_edges": 0.2,
-                                                   "lost_to_neighbours": 0.0}},
+    chain = vdi_chain(dataclasses.replace(r.spec, method="vdi", vdi=VdiSpec()))
+    vdi = dataclasses.replace(r, fatigue_criterion="vdi", vdi=chain,
+                              cone=ConeStiffness(stiffness=k, ideal_stiffness=1.25 * k, area_fraction_mid_grip=0.8,
+                                                 area_mid_grip=100.0, lost_to_edges=0.2, lost_to_neighbours=0.0),
                               Se=52.0, n_f=52.0 / r.sigma_a)
     doc = html_report([vdi], title="vdi")
     for svg in svgs(doc):
@@ -484,6 +484,11 @@ def test_vdi_and_clipped_cone_details_render(results):
     assert "VDI 2230 endurance limit" in doc and "R9" in doc
     assert "cone area kept at mid-grip: 80 %" in doc
     assert "Pressure cone clipped by the parts" in doc
+    # what the HTML shows, results.json has too (one record read by both)
+    joint = result_document([vdi], "t")["joints"][0]
+    assert joint["vdi"]["sigma_AS"] == chain.sigma_AS and joint["vdi"]["F_M_zul"] == chain.F_M_zul
+    assert f'<th scope="row">F_M_zul</th>' in doc
+    assert joint["stiffness"]["cone"]["area_fraction_mid_grip"] == 0.8
     # the flat VDI line: sigma_a = sigma_AS for every mean stress up to S_p (VDI 2230-1:2015 R9, from memory)
     xs, ys = criterion_curve("vdi", 52.0, 1040.0, 830.0, 940.0, n=5)
     assert ys == [52.0] * 5 and xs[-1] == 830.0

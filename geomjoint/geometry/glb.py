@@ -1,6 +1,7 @@
 """The marked-up model as a binary glTF (GLB) for web and game-engine viewers, via trimesh.
 
-The scene is the one of :func:`geomjoint.geometry.markup.markup_scene`:
+The scene is the one of :func:`geomjoint.scene.markup_scene` (plain records of
+:mod:`geomjoint.geometry.markup`):
 
     world
       parts                      one mesh node per model part (its own colour)
@@ -18,7 +19,6 @@ colours, which glTF defines in linear RGB (the palette is sRGB and is converted)
 """
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import numpy as np
@@ -29,7 +29,7 @@ from OCP.TopLoc import TopLoc_Location
 from OCP.TopoDS import TopoDS_Shape
 
 from geomjoint.geometry import topology
-from geomjoint.geometry.markup import MarkupItem, MarkupScene, markup_scene, srgb_to_linear
+from geomjoint.geometry.markup import MarkupItem, MarkupScene, input_paths, srgb_to_linear
 
 #: linear deflection of the tessellation as a fraction of the model's bounding-box diagonal
 TESSELLATION_FRACTION = 1e-3
@@ -100,11 +100,10 @@ def _mesh(item: MarkupItem, deflection: float):
     return mesh
 
 
-def build_scene(analysis, scene_data: MarkupScene | None = None):
+def build_scene(scene_data: MarkupScene):
     """The trimesh Scene of the marked-up model (joint nodes carry their results as metadata)."""
     import trimesh
 
-    scene_data = scene_data if scene_data is not None else markup_scene(analysis)
     deflection = tessellation_tolerance(scene_data.diagonal)
     scene = trimesh.Scene()
     base = scene.graph.base_frame
@@ -128,19 +127,14 @@ def build_scene(analysis, scene_data: MarkupScene | None = None):
     return scene
 
 
-def write_glb(analysis, path: Path, *, scene: MarkupScene | None = None) -> None:
-    """Write the marked-up model of ``analysis`` (geomjoint.analysis.Analysis) as GLB at ``path``.
+def write_glb(scene: MarkupScene, path: Path) -> None:
+    """Write the marked-up ``scene`` (geomjoint.scene.markup_scene) as GLB at ``path``.
 
     Written to a temporary name in the same folder and renamed (no half file under
-    ``path``); refuses to replace the input model.  ``scene``: a
-    :func:`~geomjoint.geometry.markup.markup_scene` already built (shared with the STEP writer).
+    ``path``); refuses to replace the input model.
     """
     from trimesh.exchange.gltf import export_glb
 
     from geomjoint.outputs import write_atomic
 
-    path = Path(path)
-    source = getattr(getattr(analysis.scan, "model", None), "source", None)
-    data = export_glb(build_scene(analysis, scene))
-    protect = [Path(source)] if source and source != "<memory>" and os.path.exists(source) else []
-    write_atomic(path, data, protect=protect)
+    write_atomic(Path(path), export_glb(build_scene(scene)), protect=input_paths(scene))

@@ -25,8 +25,11 @@ because cadquery's importer reads such a leaf as its parent's own shape.  Each p
 (a part definition used by several instances is copied), so that hole faces of one
 instance can carry a colour without colouring the other instances.
 
-:func:`markup_scene` builds the scene once as plain records; :func:`write_marked_step`
-writes it through XCAF and :func:`geomjoint.geometry.glb.write_glb` through trimesh.
+The scene (which solids, their names, colours and layers) is assembled above this layer,
+by :func:`geomjoint.scene.markup_scene`, as the plain records of this module; here are the
+solids it is built from (hole faces, the axis marker, catalogue hardware) and the writer:
+:func:`write_marked_step` writes it through XCAF and :func:`geomjoint.geometry.glb.write_glb`
+through trimesh.  The geometry layer knows no job, analysis, report or palette.
 """
 from __future__ import annotations
 
@@ -65,11 +68,8 @@ from geomjoint.errors import InputError
 from geomjoint.geometry import topology
 from geomjoint.geometry.holes import axis_frame
 from geomjoint.geometry.model import quiet_stdout
-from geomjoint.outputs import MAX_NAME_LENGTH, safe_name
-from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
+from geomjoint.outputs import MAX_NAME_LENGTH, safe_name, write_atomic
 
-#: prefix of the XCAF layer of each verdict ("geomjoint pass", ...)
-LAYER_PREFIX = "geomjoint"
 #: diameter of the axis marker as a fraction of the bolt diameter (thin, still visible)
 AXIS_DIAMETER_RATIO = 0.15
 #: the axis marker runs this far (× bolt diameter) past the hardware at both ends
@@ -79,11 +79,11 @@ FACE_AXIS_TOL = 1e-2
 FACE_PARALLEL_TOL = 1e-4
 #: faces count as inside a hole's axial extent within this margin, mm
 FACE_EXTENT_TOL = 1e-2
+#: the bore cut through a generated nut overshoots both faces by this, mm (a cut flush with a
+#: face can leave a skin of zero thickness)
+NUT_BORE_PAD = 1.0
 
-
-def layer_name(verdict: str) -> str:
-    """The XCAF layer of a verdict: "geomjoint pass" / "geomjoint marginal" / "geomjoint fail"."""
-    return f"{LAYER_PREFIX} {verdict}"
+RGB = tuple[float, float, float]
 
 
 @dataclass
@@ -97,7 +97,7 @@ class MarkupItem:
     alpha: float = 1.0
     source: str = "model"              # "model" (a part of the input) | "generated"
     part: str | None = None            # the model part name it comes from
-    hole_faces: dict[int, str] = field(default_factory=dict)  # face index -> verdict (parts only)
+    hole_faces: dict[int, RGB] = field(default_factory=dict)  # face index -> sRGB of its joint (parts only)
 
 
 @dataclass
@@ -108,6 +108,8 @@ class JointMarkup:
     name: str                          # "J07 M10x40 10.9 marginal fatigue 1.12"
     verdict: str
     governing: str
+    rgb: RGB                           # sRGB 0..1 of the joint assembly
+    layer: str                         # XCAF layer of the joint's solids ("geomjoint pass")
     factor: float | None               # of the governing check, when numeric
     fastener: dict[str, Any]
     factors: dict[str, float | None]
@@ -128,6 +130,7 @@ class MarkupScene:
     parts: list[MarkupItem]            # model parts that are no joint's hardware
     joints: list[JointMarkup]
     diagonal: float                    # bounding-box diagonal of the model, mm
+    source: str | None = None          # path of the input model (never overwritten), None in memory
 
 
 @dataclass
@@ -159,7 +162,8 @@ def node_name(name: str) -> str:
     return base
 
 
-def _unique(name: str, taken: set[str]) -> str:
+def unique_node_name(name: str, taken: set[str]) -> str:
+    """:func:`node_name`, made unique among ``taken`` (which it joins)."""
     base = node_name(name)
     out, k = base, 2
     while out in taken:
@@ -281,7 +285,7 @@ def hole_face_indices(solid: TopoDS_Shape, ref, direction, t0: float, t1: float,
     return out
 
 
-def _layer_hole_faces(layer, joint) -> list[int]:
+def layer_hole_faces(layer, joint) -> list[int]:
     if layer.solid is None:
         return []
     hole = layer.hole
@@ -297,49 +301,30 @@ def _layer_hole_faces(layer, joint) -> list[int]:
     return hole_face_indices(layer.solid, p, d, layer.start, layer.end, 0.5 * layer.hole_diameter)
 
 
-# ----------------------------------------------------------------------------- joint name
+# ----------------------------------------------------------------------------- generated solids
 
-def _finite(value) -> float | None:
-    """A factor as a JSON-safe number: unbounded or missing -> None (JSON has no infinity)."""
-    return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else None
+@dataclass
+class GeneratedSolid:
+    """A solid made for the scene from the catalogue (hardware the model does not have)."""
 
-
-def _governing_factor(result) -> float | None:
-    for c in result.checks:
-        if c.name == result.governing and isinstance(c.value, (int, float)) and math.isfinite(c.value):
-            return float(c.value)
-    value = result.factors.get(result.governing)
-    return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else None
+    kind: str                          # "bolt" | "nut"
+    shape: TopoDS_Shape = field(repr=False)
+    length: float | None = None        # bolt length, mm
 
 
-def joint_node_name(result) -> str:
-    """``J07 M10x40 10.9 marginal fatigue 1.12``: id, size x length, grade, verdict, governing, factor."""
-    f = result.spec.fastener
-    size = f.designation + (f"x{f.length:g}" if f.length else "")
-    words = [result.id, size, f.grade, result.verdict, result.governing]
-    factor = _governing_factor(result)
-    if factor is not None:
-        words.append(f"{factor:.2f}")
-    return safe_name(" ".join(str(w) for w in words if w))
+def generated_hardware(joint, fastener, notes: list[str]) -> list[GeneratedSolid]:
+    """Bolt (hex prism or round head + shank) and nut from the catalog, where none is modelled.
 
-
-def _fastener_record(spec) -> dict[str, Any]:
-    f = spec.fastener
-    return {"designation": f.designation, "length": f.length, "grade": f.grade, "d": f.d,
-            "pitch": f.pitch, "head": f.head, "system": f.system}
-
-
-# ----------------------------------------------------------------------------- the scene
-
-def _generated_hardware(joint, spec, taken: set[str], rgb, notes: list[str]) -> list[MarkupItem]:
-    """Bolt (hex prism or round head + shank) and nut from the catalog, where none is modelled."""
+    ``joint``: geometry.stacks.Joint; ``fastener``: the resolved fastener (designation, d,
+    length, head); what cannot be made is said in ``notes``.
+    """
     from geomjoint import catalog
 
-    out: list[MarkupItem] = []
+    out: list[GeneratedSolid] = []
     p = np.asarray(joint.point, float)
     d = np.asarray(joint.direction, float)
     d = d / np.linalg.norm(d)
-    f = spec.fastener
+    f = fastener
     try:
         t = catalog.thread(f.designation)
     except InputError as exc:
@@ -366,102 +351,28 @@ def _generated_hardware(joint, spec, taken: set[str], rgb, notes: list[str]) -> 
             else:
                 head_solid = _hex_prism(head_start, d, head.width, head.height)
             shank = _cylinder(p, d, 0.5 * f.d, length)
-            bolt = BRepAlgoAPI_Fuse(head_solid, shank).Shape()
-            name = _unique(f"bolt {f.designation}x{length:g} (catalog)", taken)
-            out.append(MarkupItem(name, "bolt", bolt, rgb, source="generated"))
+            out.append(GeneratedSolid("bolt", BRepAlgoAPI_Fuse(head_solid, shank).Shape(), length))
     if nut_dims is not None:
         start = p + grip_end * d
         prism = _hex_prism(start, d, nut_dims.width, nut_dims.height)
-        bore = _cylinder(start - d, d, 0.5 * f.d, nut_dims.height + 2.0)
-        nut = BRepAlgoAPI_Cut(prism, bore).Shape()
-        out.append(MarkupItem(_unique(f"nut {f.designation} (catalog)", taken), "nut", nut, rgb,
-                              source="generated"))
+        bore = _cylinder(start - NUT_BORE_PAD * d, d, 0.5 * f.d, nut_dims.height + 2.0 * NUT_BORE_PAD)
+        out.append(GeneratedSolid("nut", BRepAlgoAPI_Cut(prism, bore).Shape()))
     return out
 
 
-def _axis_marker(joint, spec) -> TopoDS_Shape:
+def axis_marker(joint, fastener) -> TopoDS_Shape:
+    """A thin cylinder on the bolt axis, past the hardware at both ends."""
     p = np.asarray(joint.point, float)
     d = np.asarray(joint.direction, float)
     d = d / np.linalg.norm(d)
-    dia = spec.fastener.d
+    dia = fastener.d
     over = AXIS_OVERHANG_RATIO * dia
     head = joint.bolt.head_height if joint.bolt is not None else dia
-    end = max([layer.end for layer in joint.layers] + [joint.grip, spec.fastener.length or 0.0])
+    end = max([layer.end for layer in joint.layers] + [joint.grip, fastener.length or 0.0])
     if joint.nut is not None:
         end = max(end, joint.layers[-1].end + joint.nut.height)
     start = p - (head + over) * d
     return _cylinder(start, d, 0.5 * AXIS_DIAMETER_RATIO * dia, head + over + end + over)
-
-
-def markup_scene(analysis) -> MarkupScene:
-    """The marked-up scene of an analysed model: parts, and per model joint its components.
-
-    Raises InputError when the analysis has no model.
-    """
-    from geomjoint.analysis import _cone_joint
-    from geomjoint.geometry.cones import cone_solids
-
-    if analysis.scan is None:
-        raise InputError("the marked-up model needs a job with a model")
-    model = analysis.scan.model
-    by_id = {r.id: r for r in analysis.results}
-    stem = Path(model.source).stem if model.source and model.source != "<memory>" else "model"
-    diagonal = bounding_diagonal([p.solid for p in model.parts])
-
-    hardware_of: dict[str, str] = {}         # part name -> joint id
-    for mj in analysis.model_joints:
-        j = mj.scan
-        for hw in [j.bolt, j.nut, *j.washers]:
-            if hw is not None and hw.part not in hardware_of:
-                hardware_of[hw.part] = j.id
-
-    hole_faces: dict[str, dict[int, str]] = {}
-    cone_joints = {mj.scan.id: _cone_joint(mj) for mj in analysis.model_joints}
-    joints: list[JointMarkup] = []
-    joint_names: set[str] = set()
-    for mj in analysis.model_joints:
-        j = mj.scan
-        result = by_id.get(j.id)
-        if result is None:
-            continue
-        rgb = verdict_rgb(result.verdict)
-        jm = JointMarkup(id=j.id, name=_unique(joint_node_name(result), joint_names), verdict=result.verdict,
-                         governing=result.governing, factor=_governing_factor(result),
-                         fastener=_fastener_record(result.spec),
-                         factors={k: _finite(v) for k, v in result.factors.items()})
-        taken: set[str] = set()
-        neighbours = [c for key, c in cone_joints.items() if key != j.id]
-        for cname, shape in cone_solids(cone_joints[j.id], neighbours):
-            _, part, side = cname.rsplit(":", 2) if cname.count(":") >= 2 else ("", cname, "")
-            if not has_solid(shape):
-                jm.notes.append(f"{j.id}: no cone material in {part} ({side} side)")
-                continue
-            jm.items.append(MarkupItem(_unique(f"cone {part} {side}", taken), "cone", shape, rgb,
-                                       alpha=CONE_ALPHA, source="generated", part=part))
-        jm.items.append(MarkupItem(_unique("axis", taken), "axis", _axis_marker(j, result.spec), rgb,
-                                   source="generated"))
-        for kind, hw in [("bolt", j.bolt), ("nut", j.nut), *[("washer", w) for w in j.washers]]:
-            if hw is None or hardware_of.get(hw.part) != j.id:
-                continue
-            part = model.part(hw.part)
-            jm.items.append(MarkupItem(_unique(part.name, taken), kind, part.solid, rgb, part=part.name))
-        jm.items += _generated_hardware(j, result.spec, taken, rgb, jm.notes)
-        for layer in j.layers:
-            if layer.role == "washer" or layer.part in hardware_of:
-                continue
-            for idx in _layer_hole_faces(layer, j):
-                hole_faces.setdefault(layer.part, {})[idx] = result.verdict
-        joints.append(jm)
-
-    parts: list[MarkupItem] = []
-    part_names: set[str] = set()
-    for p in model.parts:
-        if p.name in hardware_of and any(jm.id == hardware_of[p.name] for jm in joints):
-            continue
-        rgb = model_colour_srgb(p.colour) if p.colour is not None else hex_to_rgb(PART_COLOUR)
-        parts.append(MarkupItem(_unique(p.name, part_names), "part", p.solid, rgb, part=p.name,
-                                hole_faces=hole_faces.get(p.name, {})))
-    return MarkupScene(title=safe_name(f"geomjoint {stem}"), parts=parts, joints=joints, diagonal=diagonal)
 
 
 # ----------------------------------------------------------------------------- STEP through XCAF
@@ -506,15 +417,17 @@ class _XcafBuilder:
         self.colours.SetColor(proto, _colour(item.rgb, item.alpha), XCAFDoc_ColorSurf)
         if item.hole_faces:
             faces = _faces(base)
-            for idx, verdict in sorted(item.hole_faces.items()):
+            for idx, rgb in sorted(item.hole_faces.items()):
                 sub = self.shapes.AddSubShape(proto, faces[idx])
                 if not sub.IsNull():
-                    self.colours.SetColor(sub, _colour(verdict_rgb(verdict)), XCAFDoc_ColorSurf)
+                    self.colours.SetColor(sub, _colour(rgb), XCAFDoc_ColorSurf)
         if layer:
             self.layers.SetLayer(proto, TCollection_ExtendedString(layer), False)
         return self.place(parent, proto, item.name, loc)
 
-    def write(self, path: Path) -> None:
+    def write(self, path: Path, shown: Path | None = None) -> None:
+        """Write the document to ``path`` (``shown``: the path named in an error)."""
+        shown = shown or path
         self.shapes.UpdateAssemblies()
         writer = STEPCAFControl_Writer()
         writer.SetNameMode(True)
@@ -524,34 +437,27 @@ class _XcafBuilder:
             done = writer.Transfer(self.doc, STEPControl_AsIs)
             status = writer.Write(str(path)) if done else None
         if not done:
-            raise InputError("the marked-up model could not be transferred to STEP", where=str(path))
+            raise InputError("the marked-up model could not be transferred to STEP", where=str(shown))
         if status != IFSelect_RetDone:
-            raise InputError("the marked-up STEP file could not be written", where=str(path))
+            raise InputError("the marked-up STEP file could not be written", where=str(shown))
 
 
-def _refuse_input(path: Path, analysis) -> None:
-    source = getattr(getattr(analysis.scan, "model", None), "source", None)
-    if source and source != "<memory>" and os.path.exists(source) and path.exists() \
-            and os.path.samefile(source, path):
-        raise InputError("refusing to overwrite the input model", where=str(path))
+def input_paths(scene: MarkupScene) -> list[Path]:
+    """The input model behind the scene, which no output may replace."""
+    source = scene.source
+    return [Path(source)] if source and source != "<memory>" and os.path.exists(source) else []
 
 
-def _atomic_target(path: Path):
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".part")
-    os.close(fd)
-    return Path(tmp)
+def write_marked_step(scene: MarkupScene, path: Path) -> MarkupSummary:
+    """Write the marked-up ``scene`` (geomjoint.scene.markup_scene) to ``path`` as STEP.
 
-
-def write_marked_step(analysis, path: Path, *, scene: MarkupScene | None = None) -> MarkupSummary:
-    """Write the marked-up model of ``analysis`` (geomjoint.analysis.Analysis) to ``path`` as STEP.
-
-    The file is written to a temporary name in the same folder and renamed, so a crash
-    leaves no half file under ``path``; ``path`` must not be the input model.  ``scene``:
-    a :func:`markup_scene` already built (shared with the GLB writer to build the cones once).
+    Written through :func:`geomjoint.outputs.write_atomic` (no half file under ``path``);
+    ``path`` must not be the input model.
     """
     path = Path(path)
-    _refuse_input(path, analysis)
-    scene = scene if scene is not None else markup_scene(analysis)
+    protect = input_paths(scene)
+    if any(path.exists() and os.path.samefile(p, path) for p in protect):
+        raise InputError("refusing to overwrite the input model", where=str(path))
     b = _XcafBuilder()
     top = b.assembly(scene.title)
     parts_asm = b.assembly("parts")
@@ -565,28 +471,24 @@ def write_marked_step(analysis, path: Path, *, scene: MarkupScene | None = None)
     if scene.joints:
         joints_asm = b.assembly("joints")
         for jm in scene.joints:
-            layer = layer_name(jm.verdict)
             asm = b.assembly(jm.name)
             for item in jm.items:
-                b.item(asm, item, layer)
+                b.item(asm, item, jm.layer)
                 if item.kind == "cone":
                     summary.cones[f"{jm.name}/{item.name}"] = volume(item.shape)
                 if item.source == "generated" and item.kind in ("bolt", "nut", "washer"):
                     summary.generated.append(f"{jm.id}/{item.name}")
-            b.layers.SetLayer(asm, TCollection_ExtendedString(layer), False)
-            b.colours.SetColor(asm, _colour(verdict_rgb(jm.verdict)), XCAFDoc_ColorSurf)
+            b.layers.SetLayer(asm, TCollection_ExtendedString(jm.layer), False)
+            b.colours.SetColor(asm, _colour(jm.rgb), XCAFDoc_ColorSurf)
             b.place(joints_asm, asm, jm.name)
             summary.joints[jm.id] = jm.name
             summary.verdicts[jm.id] = jm.verdict
-            summary.layers.setdefault(layer, []).append(jm.name)
+            summary.layers.setdefault(jm.layer, []).append(jm.name)
             summary.notes += jm.notes
         b.place(top, joints_asm, "joints")
-    tmp = _atomic_target(path)
-    try:
-        b.write(tmp)
-        os.replace(tmp, path)
-    except BaseException:
-        if tmp.exists():
-            tmp.unlink()
-        raise
+    # OCCT writes to a path of its own: a private temporary folder, then one atomic write
+    with tempfile.TemporaryDirectory(prefix="geomjoint-step-") as tmp:
+        written = Path(tmp) / "model.step"
+        b.write(written, shown=path)
+        write_atomic(path, written.read_bytes(), protect=protect)
     return summary

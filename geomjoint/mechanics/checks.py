@@ -23,7 +23,8 @@ from geomjoint.mechanics import bolt as B
 from geomjoint.mechanics import fatigue as FT
 from geomjoint.mechanics import members as M
 from geomjoint.mechanics import preload as PL
-from geomjoint.mechanics.joint import TAPPED_MEMBER_DEFINITION, Check, JointResult, JointSpec, StiffnessSplit
+from geomjoint.mechanics.joint import TAPPED_MEMBER_DEFINITION, UNRATED, Check, JointResult, JointSpec, StiffnessSplit
+from geomjoint.mechanics.vdi import clamp_load_for_slip
 
 #: a joint whose smallest factor/required ratio lies below this is "marginal" rather than
 #: "pass" (our own choice: 10 % over the requirement)
@@ -304,8 +305,11 @@ def rate(checks: list[Check]) -> tuple[str, str]:
     return verdict, governing.name
 
 
-def evaluate(spec: JointSpec) -> JointResult:
-    """Check one joint by the textbook engine (Shigley ch. 8) and return its result."""
+def assess(spec: JointSpec) -> JointResult:
+    """The textbook engine's numbers and checks of one joint (Shigley ch. 8), not yet rated.
+
+    The caller adds any further checks and rates the result once (:func:`rate_result`).
+    """
     f, fat = spec.fastener, spec.fatigue
     notes = list(spec.notes)
     grip = effective_grip_of(spec)
@@ -338,19 +342,59 @@ def evaluate(spec: JointSpec) -> JointResult:
     if F_i <= 0:
         checks[2] = Check("separation", 0.0, req["separation"], False, "no preload: the joint is not clamped")
     checks.append(length_check(spec, bolt))
-    verdict, governing = rate(checks)
-
-    details = {
-        "thread_length": bolt.thread_length, "l_d": bolt.l_d, "l_t": bolt.l_t, "shank": bolt.shank,
-        "bolt_force": share * P + F_i, "member_force": (1.0 - share) * P - F_i,
-        "endurance_method": endurance.method, "endurance_factors": dict(endurance.factors),
-        "load_line_slope": (sigma_m - sigma_i) / sigma_a if sigma_a > 0 else None,
-    }
     return JointResult(
-        id=spec.id, ok=verdict != "fail", verdict=verdict, governing=governing, spec=spec,
+        id=spec.id, ok=False, verdict=UNRATED, governing="", spec=spec,
         grip=spec.clamped_thickness if spec.tapped else spec.grip, effective_grip=grip,
         bolt_stiffness=bolt.stiffness, member_stiffness=k_m, joint_constant=C, stiffness_method=method,
         preload=F_i, Se=endurance.Se, sigma_a=sigma_a, sigma_m=sigma_m, sigma_i=sigma_i, n_f=n_f,
-        factors=factors, checks=checks, tightening=tightening, notes=notes, details=details,
+        factors=factors, checks=checks, tightening=tightening, notes=notes,
+        thread_length=bolt.thread_length, l_d=bolt.l_d, l_t=bolt.l_t, shank=bolt.shank,
+        bolt_force=share * P + F_i, member_force=(1.0 - share) * P - F_i,
+        load_line_slope=(sigma_m - sigma_i) / sigma_a if sigma_a > 0 else None,
+        endurance_method=endurance.method, endurance_factors=dict(endurance.factors),
         stiffness_split=stiffness_split(spec, bolt),
     )
+
+
+def rate_result(result: JointResult) -> JointResult:
+    """Set the verdict, the governing check and ``ok`` from the result's checks, once.
+
+    Every check must be in: a result is rated exactly once, at the end of its analysis.
+    """
+    if result.verdict != UNRATED:
+        raise ValueError(f"joint {result.id}: the result is already rated ({result.verdict})")
+    result.verdict, result.governing = rate(result.checks)
+    result.ok = result.verdict != "fail"
+    return result
+
+
+def evaluate(spec: JointSpec) -> JointResult:
+    """Check one joint by the textbook engine alone (Shigley ch. 8) and rate it."""
+    return rate_result(assess(spec))
+
+
+def slip_check(spec: JointSpec, preload: float, joint_constant: float) -> Check:
+    """Friction grip of a joint that carries shear (textbook mode).
+
+    Residual clamp load F_K = F_i − (1 − C)·P_max must carry the shear by friction:
+    factor = F_K / F_KQ with F_KQ = F_Q / (q_F·μ_T) (VDI 2230-1 eq. R12 form).
+    ``preload`` F_i in N, ``joint_constant`` C; friction and interfaces from ``spec.vdi``.
+
+    Example (the joint needs only its shear, load, friction and requirements here):
+
+    >>> from types import SimpleNamespace
+    >>> from geomjoint.mechanics.joint import VdiSpec
+    >>> spec = SimpleNamespace(shear=1500.0, load_max=4000.0, required={}, vdi=VdiSpec(friction_interface=0.15))
+    >>> c = slip_check(spec, preload=20000.0, joint_constant=0.25)
+    >>> round(c.value, 3)      # (20000 - 0.75*4000) / (1500 / 0.15) = 1.7
+    1.7
+    """
+    v = spec.vdi
+    mu, interfaces = v.friction_interface, v.interfaces_shear
+    needed = clamp_load_for_slip(spec.shear, interfaces, mu)
+    residual = preload - (1.0 - joint_constant) * spec.load_max
+    value = max(residual, 0.0) / needed
+    required = spec.required.get("slip", 1.0)
+    return Check("slip", value, required, value >= required,
+                 f"residual clamp load {residual:.0f} N against {needed:.0f} N for {spec.shear:.0f} N shear "
+                 f"(mu_T = {mu:g}, {interfaces} interface(s))")

@@ -8,7 +8,11 @@ DESIGN.md field for field.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # only for the annotation: vdi.py imports this module
+    from geomjoint.mechanics.vdi import VdiResult
 
 #: Young's modulus of bolt steel, MPa (Shigley, 10th ed., Table 8-8: 207 GPa)
 BOLT_STEEL_E = 207_000.0
@@ -185,13 +189,78 @@ class StiffnessSplit:
     model: str                  # how those two compliances were computed
 
 
+@dataclass(frozen=True)
+class Remedy:
+    """One suggested change to a failing or marginal joint, re-checked before it is offered."""
+
+    change: str                     # what to change ("bolt length 35 -> 25 mm")
+    verdict: str                    # verdict after the change: "pass" | "marginal"; "geometry" for a part fix
+    result: str                     # what the re-check says ("pass (least margin: fatigue 1.41)")
+
+
+@dataclass(frozen=True)
+class ConeStiffness:
+    """The clipped pressure cone's member stiffness, as plain numbers.
+
+    The geometry layer computes it (geometry.cones.ConeResult); the joint result keeps
+    this record so that mechanics and the reports never import the CAD layer.
+    """
+
+    stiffness: float                # k_m of the clipped cones, N/mm
+    ideal_stiffness: float          # k_m of the unclipped cones, N/mm
+    area_fraction_mid_grip: float   # clipped / ideal area at mid-grip
+    area_mid_grip: float            # clipped area at mid-grip, mm^2
+    lost_to_edges: float            # fraction of the ideal mid-grip area
+    lost_to_neighbours: float       # fraction of the ideal mid-grip area
+    neighbours: tuple[str, ...] = ()  # joints whose cones were clipped against this one's
+
+
+@dataclass(frozen=True)
+class FeRun:
+    """One axisymmetric FE run of the member stack (mechanics.fe) and the outline it used."""
+
+    stiffness: float                # k_m, N/mm
+    outer_diameter: float           # plate diameter used, mm
+    mesh_change: float              # |k(refined) - k(coarse)| / k(refined)
+    contact_diameters: tuple[float, ...]  # per interface, from the head side, mm
+    layer_outer_diameters: tuple[float, ...]  # outside diameter of each modelled layer, mm
+    outline: str                    # where the outer diameter comes from (see OUTLINES)
+
+
+#: where an FE run's outer diameter comes from
+OUTLINES = {
+    "clipped-cone": "a disc of the clipped cone's mid-grip area (the parts' outline)",
+    "job": "outside_diameter of the job",
+    "converged": "widened until k_m stops changing (unbounded plates)",
+}
+
+
+@dataclass(frozen=True)
+class StiffnessComparison:
+    """Member stiffness by every method that applies to the joint, N/mm (``compare_stiffness``)."""
+
+    frustum: float | None = None
+    exponential: float | None = None
+    vdi: float | None = None
+    cone: float | None = None
+    fe: float | None = None
+
+    def values(self) -> dict[str, float]:
+        """Method -> k_m of the methods that were run."""
+        return {f.name: getattr(self, f.name) for f in fields(self) if getattr(self, f.name) is not None}
+
+
 @dataclass
 class JointResult:
-    """What the engine says of one joint; mirrors the result JSON of DESIGN.md."""
+    """What the engine says of one joint; mirrors the result JSON of DESIGN.md.
+
+    ``verdict``, ``governing`` and ``ok`` are set once, when every check of the joint is in
+    (``mechanics.checks.rate_result``); before that the verdict is :data:`UNRATED`.
+    """
 
     id: str
     ok: bool
-    verdict: str                    # "pass" | "marginal" | "fail"
+    verdict: str                    # "pass" | "marginal" | "fail" (UNRATED until rated)
     governing: str                  # name of the check with the least margin
     spec: JointSpec
     grip: float                     # mm (as the scan defines it)
@@ -211,5 +280,29 @@ class JointResult:
     tightening: dict[str, float] | None = None
     notes: list[str] = field(default_factory=list)
     findings: list[dict] = field(default_factory=list)
-    details: dict = field(default_factory=dict)  # extra numbers for reports (VDI chain, stripping)
+    # the bolt as the engine modelled it (Shigley 10th ed., Table 8-7)
+    thread_length: float | None = None  # L_T used, mm
+    l_d: float | None = None        # unthreaded length in the grip, mm
+    l_t: float | None = None        # threaded length in the grip, mm
+    shank: float | None = None      # L - L_T before cutting at the grip, mm
+    bolt_force: float | None = None  # F_b = C P + F_i at P_max, N
+    member_force: float | None = None  # F_m = (1 - C) P - F_i at P_max, N
+    load_line_slope: float | None = None  # (sigma_m - sigma_i) / sigma_a
+    endurance_method: str | None = None  # "table" | "marin" | "given" (textbook engine)
+    endurance_factors: dict[str, float] = field(default_factory=dict)  # Marin factor -> value
+    fatigue_criterion: str | None = None  # what the engine used; None: the spec's criterion
+    vdi: VdiResult | None = None    # the VDI 2230-1 chain, when method = "vdi"
+    cone: ConeStiffness | None = None  # the clipped cone, when the geometry computed one
+    fe: FeRun | None = None         # the FE run, when the chosen method or the comparison ran one
+    comparison: StiffnessComparison | None = None
+    remedies: list[Remedy] = field(default_factory=list)
     stiffness_split: StiffnessSplit | None = None  # tapped joints: the member/bolt definition used
+
+    @property
+    def criterion(self) -> str:
+        """The fatigue criterion the engine used (as results.json reports it)."""
+        return self.fatigue_criterion or self.spec.fatigue.criterion
+
+
+#: the verdict of a result whose checks are not all in yet
+UNRATED = "unrated"

@@ -12,10 +12,12 @@ from __future__ import annotations
 import html
 import math
 import re
+from dataclasses import asdict
 
 from geomjoint.mechanics.joint import JointResult
 from geomjoint.report import plots
 from geomjoint.report.plots import VERDICT_COLOURS, VERDICT_TEXT, ReportUnits, report_units
+from geomjoint.report.json_doc import vdi_numbers
 from geomjoint.report.text import CAUTION
 
 #: where each member-stiffness method comes from, for the numbers table
@@ -246,7 +248,7 @@ def _joints_table(results: list[JointResult], u: ReportUnits) -> str:
 
 
 def _preload_source(r: JointResult, u: ReportUnits) -> str:
-    if isinstance(r.details.get("vdi"), dict):
+    if r.vdi is not None:
         return "service preload of the VDI 2230-1 (2015) chain (table below)"
     p = r.spec.preload
     if p.mode == "proof_fraction":
@@ -272,7 +274,7 @@ _ENDURANCE_SOURCES = {
 def _endurance_source(r: JointResult) -> str:
     if plots.criterion_of(r) == "vdi":
         return "endurance limit σ_AS of the bolt thread, VDI 2230-1 (2015) R9"
-    method = r.details.get("endurance_method")
+    method = r.endurance_method
     if method in _ENDURANCE_SOURCES:
         return _ENDURANCE_SOURCES[method]
     return "Shigley 10th ed., Table 8-17, or Marin factors (ch. 6)"
@@ -384,9 +386,9 @@ def _checks(r: JointResult) -> str:
 
 
 def _vdi(r: JointResult, u: ReportUnits) -> str:
-    vdi = r.details.get("vdi")
-    if not isinstance(vdi, dict) or not vdi:
+    if r.vdi is None:
         return ""
+    vdi = vdi_numbers(r.vdi)   # the same numbers as results.json
     rows = []
     for key, value in vdi.items():
         if value is None:
@@ -400,7 +402,7 @@ def _vdi(r: JointResult, u: ReportUnits) -> str:
             f'</summary><table class="vdi"><tbody>{"".join(rows)}</tbody></table></details>')
 
 
-#: the geometry-based member stiffness numbers the pipeline leaves in ``details``
+#: the geometry-based member stiffness numbers of the result (as results.json has them)
 _GEOMETRY_ROWS = {
     "cone": ("Pressure cone clipped by the parts", (
         ("stiffness", "stiffness of the clipped cone", "k"),
@@ -427,9 +429,10 @@ _GEOMETRY_ROWS = {
 def _geometry(r: JointResult, u: ReportUnits) -> str:
     out = []
     for key, (heading, rows) in _GEOMETRY_ROWS.items():
-        data = r.details.get(key)
-        if not isinstance(data, dict):
+        record = getattr(r, "comparison" if key == "stiffness_comparison" else key)
+        if record is None:
             continue
+        data = record.values() if key == "stiffness_comparison" else asdict(record)
         body = []
         for name, label, kind in rows:
             v = data.get(name)
@@ -453,14 +456,26 @@ def _findings(r: JointResult) -> str:
         items = "".join(f'<li><b>{_e(str(x.get("severity", "info")).upper())}</b> '
                         f'{_e(x.get("code", ""))}: {_e(x.get("message", ""))}</li>' for x in r.findings)
         parts.append(f'<h3>Findings</h3><ul class="findings">{items}</ul>')
-    remedies = r.details.get("remedies") or []
-    if remedies:
-        items = "".join(f'<li>{_e(x.get("change", ""))} → {_e(x.get("result", ""))}</li>' for x in remedies)
+    if r.remedies:
+        items = "".join(f'<li>{_e(x.change)} → {_e(x.result)}</li>' for x in r.remedies)
         parts.append(f'<h3>Remedies</h3><ul class="remedies">{items}</ul>')
     if r.notes:
         items = "".join(f"<li>{_e(n)}</li>" for n in r.notes)
         parts.append(f'<h3>Notes</h3><ul class="notes">{items}</ul>')
     return "".join(parts)
+
+
+def _not_analysed(joints: list) -> str:
+    """The model joints that could not be analysed: each fails, with its reason and findings."""
+    if not joints:
+        return ""
+    items = []
+    for j in joints:
+        found = "".join(f'<li><b>{_e(str(x.get("severity", "info")).upper())}</b> {_e(x.get("code", ""))}: '
+                        f'{_e(x.get("message", ""))}</li>' for x in j.findings)
+        items.append(f'<li data-joint="{_e(j.id)}">{_badge("fail")} <b>{_e(j.id)}</b>: {_e(j.message)}'
+                     f'<ul class="findings">{found}</ul></li>')
+    return f'<section id="not-analysed"><h2>Joints not analysed</h2><ul>{"".join(items)}</ul></section>'
 
 
 def _labelled(svg: str, label: str) -> str:
@@ -488,7 +503,7 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
 
 
 def html_report(results: list[JointResult], *, title: str, units: str = "SI",
-                overview_svg: str | None = None) -> str:
+                overview_svg: str | None = None, not_analysed: list = ()) -> str:
     """The whole report as one self-contained HTML document.
 
     Parameters
@@ -502,6 +517,8 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
     overview_svg : str or None
         An SVG picture of the model with the joints numbered (inserted as given;
         it must not reference outside resources).
+    not_analysed : list of analysis.UnanalysedJoint
+        Model joints that could not be resolved: listed as failing, with their reason.
 
     Returns
     -------
@@ -518,7 +535,7 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
                     f'<figcaption>Joints numbered and coloured by verdict.</figcaption></figure></section>')
     unit_note = (f'<p class="src">Units: forces {u.force}, lengths {u.length}, stresses {u.stress}, '
                  f'stiffness {u.stiffness}.</p>')
-    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results))
+    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results)) + _not_analysed(not_analysed)
     return ("<!DOCTYPE html>\n"
             f'<html lang="en"><head><meta charset="utf-8">'
             f'<meta name="viewport" content="width=device-width, initial-scale=1">'

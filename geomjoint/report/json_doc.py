@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import json
 import math
+from dataclasses import asdict, fields
 from typing import Any
 
 from geomjoint.mechanics.joint import JointResult
@@ -27,6 +28,50 @@ def bearing_document(spec) -> dict[str, Any]:
             "hole": {"diameter": spec.hole_diameter, "source": spec.hole_source}}
 
 
+def _plain(value: Any) -> Any:
+    """A record's value as JSON: tuples as lists, non-finite numbers as null."""
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    if isinstance(value, dict):
+        return {k: _plain(v) for k, v in value.items()}
+    if isinstance(value, float):
+        return _num(value)
+    return value
+
+
+def vdi_numbers(chain) -> dict[str, Any]:
+    """The scalar numbers of a VDI 2230-1 chain (mechanics.vdi.VdiResult), as the reports show them."""
+    out = {}
+    for f in fields(chain):
+        v = getattr(chain, f.name)
+        if v is None or isinstance(v, (int, float, str)):
+            out[f.name] = _plain(v)
+    return out
+
+
+def _stiffness(r: JointResult) -> dict[str, Any]:
+    doc: dict[str, Any] = {"bolt": r.bolt_stiffness, "members": r.member_stiffness, "C": r.joint_constant,
+                           "method": r.stiffness_method}
+    if r.comparison is not None and r.comparison.values():
+        doc["comparison"] = r.comparison.values()
+    if r.cone is not None:
+        doc["cone"] = _plain(asdict(r.cone))
+    if r.fe is not None:
+        doc["fe"] = _plain(asdict(r.fe))
+    if r.stiffness_split is not None:
+        doc["definition"] = stiffness_definition(r.stiffness_split)
+    return doc
+
+
+def _fatigue(r: JointResult) -> dict[str, Any]:
+    doc: dict[str, Any] = {"criterion": r.criterion, "Se": r.Se, "sigma_a": r.sigma_a, "sigma_m": r.sigma_m,
+                           "sigma_i": r.sigma_i, "n_f": _num(r.n_f)}
+    if r.endurance_method is not None and r.vdi is None:
+        doc["endurance_method"] = r.endurance_method
+        doc["endurance_factors"] = _plain(dict(r.endurance_factors))
+    return doc
+
+
 def joint_document(r: JointResult) -> dict[str, Any]:
     f = r.spec.fastener
     doc: dict[str, Any] = {
@@ -35,24 +80,18 @@ def joint_document(r: JointResult) -> dict[str, Any]:
         "verdict": r.verdict,
         "governing": r.governing,
         "fastener": {"designation": f.designation, "grade": f.grade, "d": f.d, "pitch": f.pitch,
-                     "stress_area": f.stress_area, "length": f.length},
+                     "stress_area": f.stress_area, "length": f.length,
+                     **({"thread_length": r.thread_length} if r.thread_length is not None else {})},
         "grip": r.grip,
         "effective_grip": r.effective_grip,
         **bearing_document(r.spec),
         "service_load": r.spec.loaded,
         "layers": [{"part": layer.part, "material": layer.material, "thickness": layer.thickness,
                     "role": layer.role} for layer in r.spec.layers],
-        "stiffness": {"bolt": r.bolt_stiffness, "members": r.member_stiffness, "C": r.joint_constant,
-                      "method": r.stiffness_method,
-                      **({"comparison": r.details["stiffness_comparison"]}
-                         if r.details.get("stiffness_comparison") else {}),
-                      **({"definition": stiffness_definition(r.stiffness_split)} if r.stiffness_split else {})},
+        "stiffness": _stiffness(r),
         "preload": r.preload,
         "load": {"min": r.spec.load_min, "max": r.spec.load_max, "shear": r.spec.shear},
-        "fatigue": {"criterion": r.spec.fatigue.criterion if r.details.get("fatigue_criterion") is None
-                    else r.details["fatigue_criterion"],
-                    "Se": r.Se, "sigma_a": r.sigma_a, "sigma_m": r.sigma_m, "sigma_i": r.sigma_i,
-                    "n_f": _num(r.n_f)},
+        "fatigue": _fatigue(r),
         "factors": {k: _num(v) for k, v in r.factors.items()},
         "checks": [{"name": c.name, "value": _num(c.value), "required": _num(c.required), "ok": c.ok,
                     "note": c.note} for c in r.checks],
@@ -61,8 +100,10 @@ def joint_document(r: JointResult) -> dict[str, Any]:
     }
     if r.tightening:
         doc["tightening"] = {k: float(v) for k, v in r.tightening.items()}
-    if r.details.get("remedies"):
-        doc["remedies"] = r.details["remedies"]
+    if r.vdi is not None:
+        doc["vdi"] = vdi_numbers(r.vdi)
+    if r.remedies:
+        doc["remedies"] = [asdict(m) for m in r.remedies]
     return doc
 
 
@@ -73,23 +114,31 @@ def stiffness_definition(split) -> dict[str, Any]:
             "model": split.model}
 
 
-def result_document(results: list[JointResult], version: str, excluded: list[str] | None = None) -> dict[str, Any]:
-    """``excluded``: the joint ids the job's ``exclude`` names (not analysed)."""
+def result_document(results: list[JointResult], version: str, excluded: list[str] | None = None,
+                    not_analysed: list = ()) -> dict[str, Any]:
+    """The whole document. ``excluded``: the joint ids the job's ``exclude`` names (not analysed);
+    ``not_analysed``: model joints that could not be resolved (analysis.UnanalysedJoint), listed
+    with their reason and counted as failed."""
     excluded = list(excluded or [])
-    return {
+    doc = {
         "version": version,
         "units": {"force": "N", "length": "mm", "stress": "MPa"},
         "joints": [joint_document(r) for r in results],
         "excluded": excluded,
         "summary": {
-            "joints": len(results),
-            "failed": sum(1 for r in results if not r.ok),
+            "joints": len(results) + len(not_analysed),
+            "failed": sum(1 for r in results if not r.ok) + len(not_analysed),
             "marginal": sum(1 for r in results if r.verdict == "marginal"),
             "passed": sum(1 for r in results if r.verdict == "pass"),
             "unloaded": sum(1 for r in results if not r.spec.loaded),
             "excluded": len(excluded),
         },
     }
+    if not_analysed:
+        doc["summary"]["not_analysed"] = len(not_analysed)
+        doc["not_analysed"] = [{"id": u.id, "ok": False, "verdict": "fail", "reason": u.reason,
+                                "message": u.message, "findings": list(u.findings)} for u in not_analysed]
+    return doc
 
 
 def dumps(doc: dict[str, Any]) -> str:

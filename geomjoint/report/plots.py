@@ -175,8 +175,8 @@ def _thread_length(result: JointResult) -> float | None:
         return None
     if f.fully_threaded:
         return f.length
-    if result.details.get("thread_length"):
-        return float(result.details["thread_length"])   # what the engine used
+    if result.thread_length:
+        return float(result.thread_length)   # what the engine used
     from geomjoint.mechanics.bolt import bolt_thread_length
 
     try:
@@ -292,10 +292,10 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
             ax.add_patch(Polygon([(s(x), -s(zz)) for x, zz in poly], closed=True, facecolor=CONE_COLOUR,
                                  alpha=0.18, edgecolor=CONE_COLOUR, lw=1.0, ls="--"))
     ax.plot([0, 0], [s(head_h * 1.3), -s(max(length, stack_end) * 1.05)], color="black", lw=0.5, ls="-.")
-    cone = result.details.get("cone")
-    if isinstance(cone, dict) and isinstance(cone.get("area_fraction_mid_grip"), (int, float)):
+    cone = result.cone
+    if cone is not None:
         # the geometry clipped the cones: say how much of the mid-grip area the parts really offer
-        ax.annotate(f"cone area kept at mid-grip: {100.0 * cone['area_fraction_mid_grip']:.0f} %",
+        ax.annotate(f"cone area kept at mid-grip: {100.0 * cone.area_fraction_mid_grip:.0f} %",
                     (s(half_width), -s(mid)), xytext=(4, -12), textcoords="offset points", fontsize=7,
                     color=CONE_COLOUR)
 
@@ -387,7 +387,7 @@ def joint_diagram_svg(result: JointResult, units: str = "SI") -> str:
 
 def criterion_of(result: JointResult) -> str:
     """The fatigue criterion the engine used (as results.json reports it)."""
-    return result.details.get("fatigue_criterion") or result.spec.fatigue.criterion
+    return result.criterion
 
 
 def criterion_curve(criterion: str, Se: float, S_ut: float, S_p: float, S_y: float,

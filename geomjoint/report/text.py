@@ -39,7 +39,10 @@ def _factor_cells(r: JointResult) -> list[str]:
     return [_fmt(r.factors.get(k)) for k in ("yield", "load", "separation", "fatigue")]
 
 
-def result_table(results: list[JointResult], units: str = "SI", excluded: list[str] | None = None) -> str:
+def result_table(results: list[JointResult], units: str = "SI", excluded: list[str] | None = None,
+                 not_analysed: list = ()) -> str:
+    """The table; ``excluded``: joint ids the job excludes; ``not_analysed``: model joints that could
+    not be resolved (analysis.UnanalysedJoint)."""
     grip_label, per_mm, preload_label, per_newton = TABLE_UNITS[units]
     head = ["joint", "fastener", grip_label, "C", preload_label, "n yield", "n load", "n sep", "n fat",
             "verdict", "governing"]
@@ -61,12 +64,17 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
         for c in failed:
             numbers = f" {_fmt(c.value)} < {_fmt(c.required)}" if c.value is not None else ""
             lines.append(f"  {r.id}: {c.name} fails:{numbers}  {c.note}".rstrip())
-        for remedy in r.details.get("remedies", []):
-            lines.append(f"  {r.id}: remedy: {remedy['change']} -> {remedy['result']}")
-    n_fail = sum(1 for r in results if not r.ok)
+        for remedy in r.remedies:
+            lines.append(f"  {r.id}: remedy: {remedy.change} -> {remedy.result}")
+    for u in not_analysed:
+        lines.append(f"  {u.id}: FAIL {u.message}")
+    n_fail = sum(1 for r in results if not r.ok) + len(not_analysed)
     n_marg = sum(1 for r in results if r.verdict == "marginal")
     lines.append("")
-    summary = f"{len(results)} joints: {len(results) - n_fail - n_marg} pass, {n_marg} marginal, {n_fail} fail"
+    total = len(results) + len(not_analysed)
+    summary = f"{total} joints: {total - n_fail - n_marg} pass, {n_marg} marginal, {n_fail} fail"
+    if not_analysed:
+        summary += f" ({len(not_analysed)} not analysed)"
     n_unloaded = sum(1 for r in results if not r.spec.loaded)
     if n_unloaded:
         summary += f"; {n_unloaded} with no service load (separation and fatigue not checked)"
