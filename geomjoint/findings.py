@@ -15,6 +15,9 @@ JOB_FINDING_CODES = {
     "job-model-mismatch": "warn: a [[fasteners]] rule sets another size than the modelled bolt (the job's is used); "
                           "info: [defaults] names another size than the modelled bolt (the model's is used)",
     "nut-not-modelled": "info: a through joint with a modelled bolt has no modelled nut: a catalogue hex nut is assumed",
+    "not-analysed": "fail: the joint could not be sized or resolved (no size, no standard length, no hardware data "
+                    "for its size, a hole or seat the bolt does not fit); the message says why, the other joints "
+                    "are checked",
 }
 
 #: every finding code a scan or a check can give

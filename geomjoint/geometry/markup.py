@@ -14,10 +14,8 @@ What the file holds (an XCAF document written by OCCT's STEP writer, AP214, mm):
           bolt_M10x40_7, nut_..., washer_... the modelled hardware, or
           bolt M10x40 (catalog), nut M10 (catalog)   generated from the catalog dimensions
 
-The verdict is told three ways, so that it survives viewers that drop one of them: by
-colour (palette in :mod:`geomjoint.report.palette`), by name, and by XCAF layer
-("geomjoint pass" / "geomjoint marginal" / "geomjoint fail"; every solid of a joint's
-assembly and the assembly itself are on its verdict's layer).
+The scene tells the verdict three ways (colour, name, XCAF layer; see :mod:`geomjoint.scene`);
+every solid of a joint's assembly and the assembly itself are put on the joint's layer.
 
 Node names are sanitised with :func:`geomjoint.outputs.safe_name` and made unique among
 siblings (a cadquery assembly demands that); a name ending in "_part" gets a trailing "_",
