@@ -13,9 +13,11 @@ from pathlib import Path
 
 import pytest
 
+from conftest import validate_result
 from geomjoint.analysis import analyze_job
 from geomjoint.job import parse_job
 from geomjoint.mechanics.joint import STIFFNESS_METHODS
+from geomjoint.report.json_doc import result_document
 
 SAMPLES = Path(__file__).resolve().parents[1] / "samples"
 
@@ -116,5 +118,9 @@ def test_comparison_fe_sees_the_strap(strap_and_plate):
         # results.json says which outline each FE run used, per layer
         assert r.fe is not None and len(r.fe.layer_outer_diameters) == 2
         assert r.fe.outline == ("clipped-cone" if name == "strap" else "converged")
+        doc = result_document(list(compared.values()), "t")
+        validate_result(doc)
+        fe_doc = doc["joints"][0]["stiffness"]["fe"]
+        assert fe_doc["layer_outer_diameters"] == [r.fe.outer_diameter] * 2 and fe_doc["outline"] == r.fe.outline
     # the strap is narrower than the cone: the FE that sees it is less stiff than the plate (issue 16: about -10 %)
     assert fe["strap"] < 0.97 * fe["plate"]

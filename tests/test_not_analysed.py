@@ -10,10 +10,9 @@ import json
 import sys
 from pathlib import Path
 
-import jsonschema
 import pytest
 
-from conftest import load_schema
+from conftest import validate_result
 from geomjoint.cli import main
 
 SAMPLES = Path(__file__).resolve().parents[1] / "samples"
@@ -81,7 +80,7 @@ def test_a_bore_with_no_size_is_not_analysed_and_the_bolts_are(folder, ids, caps
     for name in ("results.json", "report.txt", "report.html", "cover-checked.step", "cover-checked.glb"):
         assert (out / name).stat().st_size > 0, name
     doc = json.loads((out / "results.json").read_text())
-    jsonschema.validate(doc, load_schema("result.schema.json"))
+    validate_result(doc)
     assert sorted(j["id"] for j in doc["joints"]) == sorted(ids["bolts"])
     assert all(j["verdict"] != "fail" for j in doc["joints"])
     [skipped] = doc["not_analysed"]
@@ -102,7 +101,7 @@ def test_a_forced_size_with_no_standard_length_is_not_analysed(folder, ids):
     code, out = run(folder, "short", rules=rules)
     assert code == 1
     doc = json.loads((out / "results.json").read_text())
-    jsonschema.validate(doc, load_schema("result.schema.json"))
+    validate_result(doc)
     reasons = {j["id"]: j["reason"] for j in doc["not_analysed"]}
     assert set(reasons) == {bolt, ids["bore"]}
     assert "M3" in reasons[bolt] and "length" in reasons[bolt]

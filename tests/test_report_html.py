@@ -487,7 +487,9 @@ def test_vdi_and_clipped_cone_details_render(results):
     # what the HTML shows, results.json has too (one record read by both)
     joint = result_document([vdi], "t")["joints"][0]
     assert joint["vdi"]["sigma_AS"] == chain.sigma_AS and joint["vdi"]["F_M_zul"] == chain.F_M_zul
-    assert f'<th scope="row">F_M_zul</th>' in doc
+    from geomjoint.report.html import VDI_LABELS
+
+    assert f'<th scope="row">{html.escape(VDI_LABELS.get("F_M_zul", "F_M_zul"), quote=False)}</th>' in doc
     assert joint["stiffness"]["cone"]["area_fraction_mid_grip"] == 0.8
     # the flat VDI line: sigma_a = sigma_AS for every mean stress up to S_p (VDI 2230-1:2015 R9, from memory)
     xs, ys = criterion_curve("vdi", 52.0, 1040.0, 830.0, 940.0, n=5)
