@@ -12,7 +12,6 @@ is not analysed: it is reported with its reason and findings, and the other join
 """
 from __future__ import annotations
 
-import fnmatch
 import math
 import multiprocessing
 import os
@@ -22,19 +21,8 @@ from typing import Any, Callable
 
 import numpy as np
 
-from geomjoint import catalog
 from geomjoint.errors import InputError
-from geomjoint.job import (
-    Job,
-    build_spec,
-    check_rules_match,
-    is_excluded,
-    joint_load,
-    material_for_part,
-    material_layer_fields,
-    settings_for,
-    typed_joint_specs,
-)
+from geomjoint.job import Job, check_rules_match, is_excluded
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics.checks import slip_check
 from geomjoint.mechanics.joint import (
@@ -43,12 +31,12 @@ from geomjoint.mechanics.joint import (
     FeRun,
     JointResult,
     JointSpec,
-    LayerSpec,
     StiffnessComparison,
 )
 from geomjoint.mechanics.stripping import engagement_of, stripping_check
 from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
 from geomjoint.progress import Progress
+from geomjoint.resolve import ModelJoint, UnanalysedJoint, not_analysed, resolve_model_joints, typed_joint_specs
 
 #: textbook checks that the VDI chain replaces when ``method = "vdi"``
 VDI_REPLACES = ("fatigue",)
@@ -59,9 +47,6 @@ COMPARED_METHODS = ("frustum", "exponential", "vdi", "fe")
 #: a clipped cone keeping at least this fraction of its mid-grip area counts as unclipped
 #: (round-off of the section areas)
 UNCLIPPED_FRACTION = 1.0 - 1e-6
-
-#: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
-WASHER_MATERIAL = "steel"
 
 #: the check that says a joint was not analysed (timeout, or it could not be resolved)
 ANALYSIS_CHECK = "analysis"
@@ -277,173 +262,6 @@ def check_typed_joint(spec: JointSpec) -> JointResult:
 
 # ----------------------------------------------------------------------------- model joints
 
-@dataclass
-class ModelJoint:
-    """A joint found in the model, resolved for the engine.
-
-    ``cone_joint`` (geometry.cones.ConeJoint) and ``neighbours`` (ids of the joints whose cones
-    can reach its material) are set by the analysis when a method needs the geometry; the
-    marked-up model draws the same cones against the same neighbours.
-    """
-
-    scan: Any                        # geometry.stacks.Joint
-    spec: JointSpec
-    findings: list[dict] = field(default_factory=list)
-    cone_joint: Any = None
-    neighbours: tuple[str, ...] = ()
-
-
-@dataclass
-class UnanalysedJoint:
-    """A model joint that could not be resolved for the engine: it fails, with the reason."""
-
-    id: str
-    reason: str                      # the one-line error that stopped it
-    findings: list[dict] = field(default_factory=list)
-
-    @property
-    def message(self) -> str:
-        return f"not analysed: {self.reason}"
-
-
-def _finding(severity: str, code: str, message: str) -> dict:
-    return {"severity": severity, "code": code, "message": message}
-
-
-def _same_size(a: str, b: str) -> bool:
-    return catalog.thread(a).designation == catalog.thread(b).designation
-
-
-def _choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> str:
-    """Designation: a [[fasteners]] rule > the modelled bolt > the size inferred from the hole > [defaults]."""
-    ruled = any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "fastener" in r for r in job.fastener_rules)
-    modelled = joint.nominal if joint.bolt is not None else None
-    if ruled:
-        chosen = settings["fastener"]
-        if modelled and not _same_size(chosen, modelled):
-            findings.append(_finding("warn", "job-model-mismatch",
-                                     f"job sets {chosen} but the modelled bolt {joint.bolt.part} is {modelled}; "
-                                     f"the job's {chosen} is used"))
-        return chosen
-    if modelled:
-        default = settings.get("fastener")
-        if default and not _same_size(default, modelled):
-            findings.append(_finding("info", "job-model-mismatch",
-                                     f"[defaults] fastener {default} differs from the modelled bolt {modelled}; "
-                                     f"the modelled bolt is used"))
-        return modelled
-    if joint.nominal:
-        return joint.nominal
-    if "fastener" in settings:
-        return settings["fastener"]
-    raise InputError(f"joint {joint.id}: no bolt modelled and no size could be inferred from its hole; "
-                     f"set fastener in [defaults] or [[fasteners]]", where=job.where("fastener"))
-
-
-def _layer_material(job: Job, part: str, role: str) -> Any:
-    try:
-        return material_for_part(job, part)
-    except InputError:
-        if role == "washer":
-            return WASHER_MATERIAL
-        raise
-
-
-def _model_layers(job: Job, joint) -> list[LayerSpec]:
-    """The scanned layers with the materials the job gives their parts."""
-    layers = []
-    for layer in joint.layers:
-        fields = material_layer_fields(_layer_material(job, layer.part, layer.role),
-                                       f"{job.path.name}: [materials] (part {layer.part!r})")
-        layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
-    return layers
-
-
-def _model_geometry(joint) -> dict[str, float]:
-    """What the model fixes of the joint (bearing and hole diameters, bolt length, nut, gaps)."""
-    geometry = {
-        "bearing_diameter": joint.head_bearing_diameter,
-        "far_bearing_diameter": joint.nut_bearing_diameter,
-        "hole_diameter": joint.hole_diameter if not joint.tapped or len(joint.layers) > 1 else None,
-        "length": joint.bolt_length,
-        "nut_height": joint.nut_height,
-        "gaps": sum(g.size for g in joint.gaps),
-    }
-    return {k: v for k, v in geometry.items() if v is not None}
-
-
-def _model_load(job: Job, joint_id: str, group_loads: dict[str, tuple[float, float, float]],
-                where: str) -> tuple[float, float, float]:
-    """(min, max, shear) per bolt: the job's [[load]] rules plus the joint's share of its [[group]]."""
-    lo, hi, shear = joint_load(job, joint_id, None, where)
-    if joint_id in group_loads:
-        g_lo, g_hi, g_shear = group_loads[joint_id]
-        lo, hi, shear = lo + g_lo, hi + g_hi, shear + g_shear
-    return lo, hi, shear
-
-
-def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
-    """A scanned joint + the job → JointSpec (layers with materials, hardware, loads).
-
-    Raises InputError when the joint cannot be resolved (see :func:`resolve_model_joints`).
-    """
-    findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
-    settings = settings_for(job, joint.id)
-    settings["fastener"] = _choose_fastener(job, joint, settings, findings)
-    if joint.head_kind and not any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "head" in r
-                                   for r in job.fastener_rules):
-        settings["head"] = joint.head_kind
-    where = f"{job.path.name}: joint {joint.id}"
-    if joint.nut is None and joint.bolt is not None and not joint.tapped:
-        findings.append(_finding("info", "nut-not-modelled", "no nut modelled: catalogue hex nut assumed"))
-    notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
-    spec = build_spec(job, joint.id, settings, _model_layers(job, joint), tapped=joint.tapped,
-                      load=_model_load(job, joint.id, group_loads, where), where=where,
-                      geometry=_model_geometry(joint), notes=notes)
-    return ModelJoint(joint, spec, findings)
-
-
-#: job keys whose failure is the joint's own (its size, length, hardware or hole), not a bad value
-#: written in the job file: such a joint is not analysed, the run goes on
-JOINT_SIZING_KEYS = ("fastener", "grade", "head", "length", "hole_diameter", "bearing_diameter")
-
-
-def joint_own_trouble(exc: InputError, where: str) -> bool:
-    """Whether an error resolving one model joint is that joint's own (True) or the job file's (False).
-
-    The joint's own: no size inferred, no standard length reaches, no hardware data for its size,
-    a hole or seat the bolt does not fit (errors about JOINT_SIZING_KEYS or with no key).  The job
-    file's: a value that does not parse, a choice that does not exist, a part without a material
-    ([materials] is the job's) -- those stay exit 2 for the whole run.
-    """
-    text = str(exc)
-    if not text.startswith(where):
-        return True                  # a catalogue lookup that names no key of the job
-    key = text[len(where):].split(":", 1)[0].lstrip(".")
-    return key == "" or key in JOINT_SIZING_KEYS
-
-
-def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[float, float, float]]
-                         ) -> tuple[list[ModelJoint], list[UnanalysedJoint]]:
-    """Every scanned joint resolved for the engine; one that cannot be is set aside with its reason.
-
-    A joint's own trouble (:func:`joint_own_trouble`) never stops the run: the joint fails as not
-    analysed and the others are checked.  A bad job file still raises (exit 2).
-    """
-    resolved: list[ModelJoint] = []
-    unresolved: list[UnanalysedJoint] = []
-    for joint in scanned:
-        try:
-            resolved.append(model_joint(job, joint, group_loads))
-        except InputError as exc:
-            if "[materials]" in str(exc) or not joint_own_trouble(exc, f"{job.path.name}: joint {joint.id}"):
-                raise
-            findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
-            findings.append(_finding("fail", "not-analysed", f"not analysed: {str(exc)}"))
-            unresolved.append(UnanalysedJoint(joint.id, str(exc), findings))
-    return resolved, unresolved
-
-
 def stackup_check(findings: list[dict]) -> Check:
     """The scan's stack-up findings as a check: any `fail` finding fails the joint."""
     failing = [f for f in findings if f["severity"] == "fail"]
@@ -542,8 +360,7 @@ def _analyse_one(state: _ModelState, index: int) -> JointResult | UnanalysedJoin
     try:
         result = within_time_limit(mj.spec, lambda: assess_joint(mj.spec, methods))
     except InputError as exc:
-        return UnanalysedJoint(mj.spec.id, str(exc), mj.findings + [
-            _finding("fail", "not-analysed", f"not analysed: {exc}")])
+        return not_analysed(mj.spec.id, str(exc), mj.findings)
     result.findings = list(mj.findings)
     result.checks.append(stackup_check(mj.findings))
     return finish(result, hole_limit=result.spec.hole_diameter)

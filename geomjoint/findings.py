@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from geomjoint.geometry.scan import FINDING_CODES as SCAN_FINDING_CODES
 
-#: codes the analysis adds (geomjoint.analysis.model_joint), with what they mean
+#: codes added when a model joint is resolved against the job (geomjoint.resolve), with what they mean
 JOB_FINDING_CODES = {
     "job-model-mismatch": "warn: a [[fasteners]] rule sets another size than the modelled bolt (the job's is used); "
                           "info: [defaults] names another size than the modelled bolt (the model's is used)",

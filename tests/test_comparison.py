@@ -44,7 +44,7 @@ def _assert_same(compared: dict, chosen: dict) -> int:
     for jid, r in compared.items():
         table = r.comparison.values()
         if r.spec.method == "vdi":
-            # the VDI 2230-1 chain is built on its own substitute body whatever is chosen (job.build_spec)
+            # the VDI 2230-1 chain is built on its own substitute body whatever is chosen (resolve.stiffness_method)
             assert table["vdi"] == pytest.approx(r.member_stiffness, rel=SAME), jid
             checked += 1
             continue

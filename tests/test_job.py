@@ -4,7 +4,8 @@ import textwrap
 import pytest
 
 from geomjoint.errors import InputError
-from geomjoint.job import load_job, typed_joint_specs
+from geomjoint.job import load_job
+from geomjoint.resolve import typed_joint_specs
 
 BASE = """
 [defaults]

@@ -176,7 +176,8 @@ def test_model_joints_by_cone_and_fe(tmp_path, scan):
 
 def test_neighbour_search_changes_nothing(tmp_path, scan):
     """Only joints whose cones can meet are passed as neighbours; passing all gives the same k_m."""
-    from geomjoint.analysis import cone_joint_of, cone_neighbours, model_joint
+    from geomjoint.analysis import cone_joint_of, cone_neighbours
+    from geomjoint.resolve import model_joint
     from geomjoint.geometry.cones import clipped_cone_stiffness
 
     job = load_job(write_job(tmp_path))

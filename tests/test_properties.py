@@ -25,7 +25,8 @@ from hypothesis import strategies as st
 
 from geomjoint.analysis import evaluate_joint
 from geomjoint.cli import main
-from geomjoint.job import parse_job, typed_joint_specs
+from geomjoint.job import parse_job
+from geomjoint.resolve import typed_joint_specs
 from geomjoint.report.json_doc import dumps, result_document
 
 QUICK = settings(max_examples=50, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])

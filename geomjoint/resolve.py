@@ -1,0 +1,628 @@
+"""Resolving a joint for the engine: the job's settings + the layers (+ what the model measured)
+→ :class:`~geomjoint.mechanics.joint.JointSpec`, the same steps for typed-in and model joints.
+
+The steps, each a function of its own: the fastener (designation, grade, head → catalogue
+numbers), the bearing and hole diameters (job, else model, else catalogue), the bolt length
+(the job's or the model's, else the shortest standard length that reaches), the preload,
+fatigue and VDI 2230-1 specs.  A model joint also gets its fastener chosen
+(:func:`choose_fastener`), its layers' materials and its loads; one that cannot be resolved is
+set aside as an :class:`UnanalysedJoint` (:func:`resolve_model_joints`).  The job file's own
+reading (keys, values with their units, rule patterns) stays in :mod:`geomjoint.job`.
+"""
+from __future__ import annotations
+
+import fnmatch
+from dataclasses import dataclass, field, replace
+from typing import Any
+
+from geomjoint import catalog
+from geomjoint.errors import InputError, did_you_mean
+from geomjoint.job import (  # the job file's value readers (one home for how a value is read)
+    ABSOLUTE_ZERO_C,
+    BEARING_FACE_KEYS,
+    CONE_ANGLE_RANGE_DEG,
+    ENDURANCE_MODES,
+    FE_BEARINGS,
+    FRICTION_KEYS,
+    HEAD_KINDS,
+    MAX_PRELOAD_FRACTION,
+    METHODS,
+    NO_SERVICE_LOAD_NOTE,
+    NUT_FACTOR_RANGE,
+    REQUIRED_KEYS,
+    SOURCE_CATALOGUE,
+    SOURCE_JOB,
+    SOURCE_MODEL,
+    SURFACES,
+    TEMPERATURE_KEYS,
+    THREAD_KINDS,
+    Job,
+    _bool,
+    _check_keys,
+    _choice,
+    _force,
+    _friction,
+    _length,
+    _number,
+    _typed_layers,
+    is_excluded,
+    joint_load,
+    load_rules_cover,
+    material_for_part,
+    material_layer_fields,
+    settings_for,
+)
+from geomjoint.mechanics.bolt import required_length
+from geomjoint.mechanics.joint import (
+    CRITERIA,
+    STIFFNESS_METHODS,
+    FastenerSpec,
+    FatigueSpec,
+    JointSpec,
+    LayerSpec,
+    ROOM_TEMPERATURE,
+    PreloadSpec,
+    VdiSpec,
+)
+from geomjoint.mechanics.vdi import ROUGHNESS_BANDS, ROUGHNESS_CLASSES, roughness_class
+from geomjoint.units import parse_percent, parse_quantity
+
+
+# ----------------------------------------------------------------------------- preload, fatigue, VDI specs
+
+def _preload_spec(s: dict[str, Any], where: str, friction: dict[str, float]) -> PreloadSpec:
+    scatter = _number(s.get("scatter", 1.0), f"{where}.scatter", 1.0, None)
+    nut_factor = None
+    if "nut_factor" in s:
+        nut_factor = _number(s["nut_factor"], f"{where}.nut_factor", *NUT_FACTOR_RANGE)
+    common = dict(nut_factor=nut_factor, friction_thread=friction.get("thread"),
+                  friction_head=friction.get("head"), scatter=scatter)
+    if "torque" in s:
+        torque = parse_quantity(s["torque"], "torque", where=f"{where}.torque")
+        if torque <= 0:
+            raise InputError("must be greater than zero", where=f"{where}.torque")
+        if nut_factor is None and ("thread" not in friction or "head" not in friction):
+            raise InputError("a torque needs 'nut_factor' or friction = { thread, head }", where=f"{where}.torque")
+        return PreloadSpec("torque", torque, **common)
+    value = s["preload"]
+    key = f"{where}.preload"
+    if isinstance(value, str) and value.strip().lower() in ("none", "0", "0%"):
+        return PreloadSpec("none", 0.0, **common)
+    if isinstance(value, str) and value.strip().endswith("%"):
+        fraction = parse_percent(value, where=key)
+        if not 0 <= fraction <= MAX_PRELOAD_FRACTION:
+            raise InputError(f"{value!r} is outside 0-{MAX_PRELOAD_FRACTION * 100:g} % of the proof load", where=key)
+        return PreloadSpec("proof_fraction" if fraction > 0 else "none", fraction, **common)
+    force = _force(value, key)
+    if force < 0:
+        raise InputError("must not be negative", where=key)
+    return PreloadSpec("force" if force > 0 else "none", force, **common)
+
+
+def _friction_table(s: dict[str, Any], where: str) -> dict[str, float]:
+    if "friction" not in s:
+        return {}
+    table = _check_keys(s["friction"], FRICTION_KEYS, f"{where}.friction")
+    return {k: _friction(v, f"{where}.friction.{k}") for k, v in table.items()}
+
+
+def _temperature(value: Any, where: str) -> float:
+    t = parse_quantity(value, "temperature", where=where)
+    if t <= ABSOLUTE_ZERO_C:
+        raise InputError(f"{value!r} is at or below absolute zero", where=where)
+    return t
+
+
+def _temperatures(s: dict[str, Any], where: str) -> tuple[float, float]:
+    """(assembly, service) in degC; a single value is the service temperature."""
+    value = s.get("temperature")
+    if value is None:
+        return ROOM_TEMPERATURE, ROOM_TEMPERATURE
+    if isinstance(value, dict):
+        table = _check_keys(value, TEMPERATURE_KEYS, f"{where}.temperature")
+        assembly = (_temperature(table["assembly"], f"{where}.temperature.assembly")
+                    if "assembly" in table else ROOM_TEMPERATURE)
+        service = (_temperature(table["service"], f"{where}.temperature.service")
+                   if "service" in table else ROOM_TEMPERATURE)
+        return assembly, service
+    return ROOM_TEMPERATURE, _temperature(value, f"{where}.temperature")
+
+
+def _required(s: dict[str, Any], where: str) -> dict[str, float]:
+    """The required factors the job sets; a check the job does not name keeps its engine's
+    default (1.0 for the textbook checks, VDI 2230-1's recommended margins for the VDI ones)."""
+    required: dict[str, float] = {}
+    if "required" in s:
+        table = _check_keys(s["required"], REQUIRED_KEYS, f"{where}.required")
+        for k, v in table.items():
+            required[k] = _number(v, f"{where}.required.{k}", 0.0, None)
+    return required
+
+
+
+# ----------------------------------------------------------------------------- the joint spec
+
+@dataclass(frozen=True)
+class ResolvedFastener:
+    spec: FastenerSpec
+    thread: Any
+    head: Any
+
+
+def fastener_for(s: dict[str, Any], where: str) -> ResolvedFastener:
+    """Resolve fastener designation and grade to a FastenerSpec (length left to the caller)."""
+    if "fastener" not in s:
+        raise InputError("no fastener given (set it in [defaults] or on the joint)", where=f"{where}.fastener")
+    try:
+        thread = catalog.thread(s["fastener"])
+    except InputError as exc:
+        raise InputError(str(exc), where=f"{where}.fastener") from None
+    try:
+        grade = catalog.grade(s["grade"], thread.d)
+    except InputError as exc:
+        raise InputError(str(exc), where=f"{where}.grade") from None
+    head_kind = _choice(s["head"], HEAD_KINDS, f"{where}.head")
+    head = catalog.head(thread, head_kind)
+    spec = FastenerSpec(
+        designation=thread.designation, system=thread.system, d=thread.d, pitch=thread.pitch,
+        d2=thread.d2, d3=thread.d3, D1=thread.D1, stress_area=thread.stress_area,
+        grade=grade.name, proof=grade.proof, yield_strength=grade.yield_strength, tensile=grade.tensile,
+        fully_threaded=_bool(s["fully_threaded"], f"{where}.fully_threaded"),
+        threads=_choice(s["threads"], THREAD_KINDS, f"{where}.threads"), head=head_kind,
+        rolled_after_heat_treatment=_bool(s.get("rolled_after_heat_treatment", False),
+                                          f"{where}.rolled_after_heat_treatment"),
+    )
+    if "thread_length" in s:
+        spec = replace(spec, thread_length=_length(s["thread_length"], f"{where}.thread_length"))
+    return ResolvedFastener(spec, thread, head)
+
+
+def _bearing_faces(value: Any, where: str, tapped: bool) -> tuple[float | None, float | None]:
+    """``bearing_diameter`` → (head face, nut face), mm; None where the job leaves a face alone.
+
+    One value is every bearing face of the joint (head and nut of a through joint, the head of
+    a tapped one); ``{ head = "...", nut = "..." }`` sets each face on its own.
+    """
+    if isinstance(value, dict):
+        table = _check_keys(value, BEARING_FACE_KEYS, where)
+        if not table:
+            raise InputError("give head and/or nut, e.g. { head = \"18 mm\", nut = \"16.6 mm\" }", where=where)
+        if tapped and "nut" in table:
+            raise InputError("a tapped joint has no nut face; give only head", where=f"{where}.nut")
+        head = _length(table["head"], f"{where}.head") if "head" in table else None
+        nut = _length(table["nut"], f"{where}.nut") if "nut" in table else None
+        return head, nut
+    both = _length(value, where)
+    return both, None if tapped else both
+
+
+def _bearing_diameters(s: dict[str, Any], geometry: dict[str, float], layers: list[LayerSpec],
+                       fastener: ResolvedFastener, tapped: bool, where: str
+                       ) -> tuple[float, str, float | None, str | None]:
+    """(head d_w, its source, nut d_w, its source): the job's ``bearing_diameter``, else the
+    modelled hardware, else the catalogue (washer outside diameter when a washer is clamped,
+    else the head's / nut's bearing diameter). The nut face is None for a tapped joint."""
+    thread = fastener.thread
+    washer_outer = catalog.washer(thread).outer
+    head, head_source = geometry.get("bearing_diameter"), SOURCE_MODEL
+    if head is None:
+        head = washer_outer if layers[0].role == "washer" else fastener.head.bearing_diameter
+        head_source = SOURCE_CATALOGUE
+    far: float | None = None
+    far_source: str | None = None
+    if not tapped:
+        far, far_source = geometry.get("far_bearing_diameter"), SOURCE_MODEL
+        if far is None:
+            far = washer_outer if layers[-1].role == "washer" else catalog.nut(thread).bearing_diameter
+            far_source = SOURCE_CATALOGUE
+    if "bearing_diameter" in s:
+        job_head, job_nut = _bearing_faces(s["bearing_diameter"], f"{where}.bearing_diameter", tapped)
+        if job_head is not None:
+            head, head_source = job_head, SOURCE_JOB
+        if job_nut is not None:
+            far, far_source = job_nut, SOURCE_JOB
+    return head, head_source, far, far_source
+
+
+def _roughness(value: Any, where: str) -> str:
+    """``roughness`` → the VDI 2230-1 roughness class of the embedding table.
+
+    A mean roughness depth R_z with its unit ("16 um"), a band name ("Rz<10", "Rz10-40",
+    "Rz40-160"), or the older class names fine | medium | coarse, which are the same bands.
+    """
+    if isinstance(value, str):
+        text = value.strip()
+        if text in ROUGHNESS_CLASSES:
+            return text
+        band = ROUGHNESS_BANDS.get(text.replace(" ", "").replace("um", "").replace("µm", ""))
+        if band:
+            return band
+        if text[:2] in ("Rz", "RZ", "rz"):
+            text = text[2:].strip()
+        if any(ch.isdigit() for ch in text):
+            rz_um = parse_quantity(text, "length", where=where) * 1000.0
+            try:
+                return roughness_class(rz_um)
+            except InputError as exc:
+                raise InputError(str(exc), where=where) from None
+    choices = (*ROUGHNESS_BANDS, *ROUGHNESS_CLASSES)
+    raise InputError(f"{value!r} is not a mean roughness depth R_z such as \"16 um\" nor one of "
+                     f"{', '.join(choices)}{did_you_mean(str(value), choices)}", where=where)
+
+
+#: member stiffness when the job names none: the frustum for through joints; for tapped joints
+#: the VDI 2230-1 tapped-joint body, the closed form nearest the FE on the cases of
+#: docs/tapped_stiffness.md (within 12 % on all five; the Table 8-7 frustum is 17 % off on one)
+DEFAULT_STIFFNESS = JointSpec.member_stiffness
+TAPPED_DEFAULT_STIFFNESS = "vdi"
+
+
+def stiffness_method(s: dict[str, Any], tapped: bool, where: str, notes: list[str]) -> tuple[str, str]:
+    """(method, member stiffness method): the job's, else the default for the joint's kind; the
+    VDI 2230-1 chain always uses its own body."""
+    method = _choice(s["method"], METHODS, f"{where}.method")
+    default_stiffness = TAPPED_DEFAULT_STIFFNESS if tapped else DEFAULT_STIFFNESS
+    stiffness = _choice(s.get("member_stiffness", default_stiffness), STIFFNESS_METHODS, f"{where}.member_stiffness")
+    if method == "vdi" and stiffness != "vdi" and "member_stiffness" in s:
+        # the VDI 2230-1 chain is built on its own substitute deformation body
+        notes.append(f"method vdi: member stiffness by the VDI substitute deformation body, not {stiffness}")
+    return method, "vdi" if method == "vdi" else stiffness
+
+
+def cone_angle_of(s: dict[str, Any], where: str) -> float:
+    """The pressure-cone half angle, deg, within CONE_ANGLE_RANGE_DEG."""
+    cone_angle = parse_quantity(s["cone_angle"], "angle", where=f"{where}.cone_angle")
+    lo_angle, hi_angle = CONE_ANGLE_RANGE_DEG
+    if not lo_angle <= cone_angle <= hi_angle:
+        raise InputError(f"{s['cone_angle']!r} is outside {lo_angle:g}-{hi_angle:g} deg", where=f"{where}.cone_angle")
+    return cone_angle
+
+
+def hole_diameter_of(s: dict[str, Any], geometry: dict[str, float], thread, tapped: bool,
+                     where: str) -> tuple[float, str]:
+    """(hole diameter, its source): the job's, else the model's, else the catalogue clearance hole."""
+    fit = _choice(s["hole_fit"], ("fine", "medium", "coarse"), f"{where}.hole_fit")
+    hole, hole_source = geometry.get("hole_diameter"), SOURCE_MODEL
+    if not hole:
+        hole, hole_source = catalog.clearance_hole(thread, fit), SOURCE_CATALOGUE
+    if "hole_diameter" in s:
+        hole, hole_source = _length(s["hole_diameter"], f"{where}.hole_diameter"), SOURCE_JOB
+    if hole < thread.d and not tapped:
+        raise InputError(f"hole diameter {hole:g} mm is smaller than the bolt ({thread.d:g} mm)",
+                         where=f"{where}.hole_diameter")
+    return hole, hole_source
+
+
+def outside_diameter_of(s: dict[str, Any], bearing: float, where: str) -> float | None:
+    """The job's ``outside_diameter`` (None: unbounded), larger than the bearing diameter."""
+    if "outside_diameter" not in s:
+        return None
+    outside = _length(s["outside_diameter"], f"{where}.outside_diameter")
+    if outside <= bearing:
+        raise InputError("must be larger than the bearing diameter", where=f"{where}.outside_diameter")
+    return outside
+
+
+def bolt_length(s: dict[str, Any], geometry: dict[str, float], layers: list[LayerSpec], fastener: ResolvedFastener,
+                tapped: bool, nut_height: float | None, where: str, notes: list[str]) -> float:
+    """The job's length, else the model's, else the shortest standard length that reaches, mm.
+
+    The length needed is the one rule of mechanics.bolt.required_length (through joint: grip,
+    gaps, nut and protrusion; tapped joint: the clamped layers and the minimum engagement by
+    the tapped part's material).
+    """
+    thread = fastener.thread
+    length = geometry.get("length")
+    if "length" in s:
+        length = _length(s["length"], f"{where}.length")
+    if length is not None:
+        return length
+    grip = sum(layer.thickness for layer in layers)
+    needed = required_length(grip - layers[-1].thickness if tapped else grip, d=thread.d, pitch=thread.pitch,
+                             tapped=tapped, gaps=geometry.get("gaps", 0.0), nut_height=nut_height,
+                             tapped_depth=layers[-1].thickness, tapped_material=layers[-1].material)
+    try:
+        length = catalog.shortest_length(thread, needed, fastener.spec.head)
+    except InputError as exc:
+        raise InputError(str(exc), where=f"{where}.length") from None
+    notes.append(f"bolt length {length:g} mm chosen: shortest standard length >= {needed:.1f} mm")
+    return length
+
+
+def fatigue_spec(s: dict[str, Any], service_temperature: float, where: str) -> FatigueSpec:
+    """The fatigue settings: criterion, reliability, surface, endurance mode, an explicit S_e."""
+    fatigue = FatigueSpec(
+        criterion=_choice(s["criterion"], CRITERIA, f"{where}.criterion"),
+        reliability=_number(s["reliability"], f"{where}.reliability", 0.0, 1.0, open_interval=True),
+        surface=_choice(s["surface"], SURFACES, f"{where}.surface"),
+        temperature=service_temperature,
+        endurance=_choice(s["endurance"], ENDURANCE_MODES, f"{where}.endurance"),
+        Se=parse_quantity(s["Se"], "stress", where=f"{where}.Se") if "Se" in s else None,
+    )
+    if fatigue.Se is not None and fatigue.Se <= 0:
+        raise InputError("must be greater than zero", where=f"{where}.Se")
+    return fatigue
+
+
+def vdi_spec(s: dict[str, Any], friction: dict[str, float], preload: PreloadSpec,
+             temperatures: tuple[float, float], where: str) -> VdiSpec:
+    """The VDI 2230-1 inputs (friction, scatter, clamp load, roughness, load introduction, temperatures)."""
+    assembly_t, service_t = temperatures
+    return VdiSpec(
+        friction_thread=friction.get("thread", VdiSpec.friction_thread),
+        friction_head=friction.get("head", VdiSpec.friction_head),
+        friction_interface=friction.get("interface", VdiSpec.friction_interface),
+        scatter=preload.scatter if "scatter" in s else VdiSpec.scatter,
+        clamp_required=_force(s["clamp_required"], f"{where}.clamp_required") if "clamp_required" in s else 0.0,
+        roughness=_roughness(s.get("roughness", VdiSpec.roughness), f"{where}.roughness"),
+        load_introduction=_number(s.get("load_introduction", VdiSpec.load_introduction),
+                                  f"{where}.load_introduction", 0.0, 1.0),
+        temperature_assembly=assembly_t, temperature_service=service_t,
+    )
+
+
+def build_spec(
+    job: Job,
+    joint_id: str,
+    settings: dict[str, Any],
+    layers: list[LayerSpec],
+    *,
+    tapped: bool,
+    load: tuple[float, float, float],
+    where: str,
+    with_nut: bool = True,
+    engagement: float | None = None,
+    geometry: dict[str, float] | None = None,
+    notes: tuple[str, ...] = (),
+    own_load: bool = False,
+) -> JointSpec:
+    """Everything but the layers and load → JointSpec. Shared by typed-in and model joints.
+
+    ``geometry`` may carry numbers the model measured (bearing_diameter, far_bearing_diameter,
+    hole_diameter, length, nut_height); job keys still override them.  ``own_load``: the joint
+    gives its own ``load`` (a typed-in joint), so it has a service load even without a rule.
+    """
+    s = settings
+    geometry = geometry or {}
+    fastener = fastener_for(s, where)
+    thread = fastener.thread
+    notes = list(notes)
+    method, stiffness = stiffness_method(s, tapped, where, notes)
+    temperatures = _temperatures(s, where)
+    fatigue = fatigue_spec(s, temperatures[1], where)
+    cone_angle = cone_angle_of(s, where)
+    bearing, bearing_source, far, far_source = _bearing_diameters(s, geometry, layers, fastener, tapped, where)
+    hole, hole_source = hole_diameter_of(s, geometry, thread, tapped, where)
+    for face, diameter in (("head", bearing), ("nut", far)):
+        if diameter is not None and diameter <= hole:
+            raise InputError(f"{face} bearing diameter {diameter:g} mm is not larger than the hole ({hole:g} mm)",
+                             where=f"{where}.bearing_diameter")
+    outside = outside_diameter_of(s, bearing, where)
+    nut_height = None if tapped else geometry.get("nut_height", catalog.nut(thread).height)
+    length = bolt_length(s, geometry, layers, fastener, tapped, nut_height, where, notes)
+    friction = _friction_table(s, where)
+    preload = _preload_spec(s, where, friction)
+    vdi = vdi_spec(s, friction, preload, temperatures, where)
+    lo, hi, shear = load
+    loaded = own_load or load_rules_cover(job, joint_id) or any(v > 0 for v in load)
+    if not loaded:
+        notes.append(NO_SERVICE_LOAD_NOTE)
+    return JointSpec(
+        id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
+        bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
+        bearing_source=bearing_source, far_bearing_source=far_source, hole_source=hole_source,
+        outside_diameter=outside, method=method, member_stiffness=stiffness,
+        fe_bearing=_choice(s.get("fe_bearing", "rigid"), FE_BEARINGS, f"{where}.fe_bearing"),
+        compare_stiffness=_bool(s.get("compare_stiffness", False), f"{where}.compare_stiffness"), cone_angle=cone_angle,
+        preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
+        engagement=engagement, nut_height=nut_height, gaps=geometry.get("gaps", 0.0),
+        required=_required(s, where), notes=tuple(notes), loaded=loaded, require_load=job.require_loads,
+    )
+
+
+# ----------------------------------------------------------------------------- typed-in joints
+
+def joint_spec(job: Job, joint: dict[str, Any], extra_load: tuple[float, float, float] | None = None) -> JointSpec:
+    """A typed-in [[joint]] table → JointSpec (``extra_load``: a [[group]] share to add)."""
+    jid = joint["id"]
+    index = job.joints.index(joint) if joint in job.joints else 0
+    where = f"{job.path.name}: joint[{index}] ({jid})"
+    tapped = _bool(joint.get("tapped", False), f"{where}.tapped")
+    layers = _typed_layers(joint, where, tapped)
+    engagement = _length(joint["engagement"], f"{where}.engagement") if "engagement" in joint else None
+    settings = settings_for(job, jid, joint)
+    lo, hi, shear = joint_load(job, jid, joint.get("load"), where)
+    if extra_load:
+        lo, hi, shear = lo + extra_load[0], hi + extra_load[1], shear + extra_load[2]
+    return build_spec(job, jid, settings, layers, tapped=tapped, load=(lo, hi, shear), where=where,
+                      engagement=engagement, own_load="load" in joint)
+
+
+def typed_joint_specs(job: Job) -> list[JointSpec]:
+    """Every typed-in joint, with the shares of [[group]] loads that name typed-in joints."""
+    from geomjoint.grouping import group_loads
+
+    typed_groups = [g for g in job.groups if "positions" in g]
+    shares = group_loads(job, {}, typed_groups) if typed_groups else {}
+    return [joint_spec(job, joint, shares.get(joint["id"])) for joint in job.joints
+            if not is_excluded(job, joint["id"])]
+
+
+
+# ----------------------------------------------------------------------------- model joints
+
+#: material of recognised washers when no [materials] glob names them (DESIGN.md: steel)
+WASHER_MATERIAL = "steel"
+
+@dataclass
+class ModelJoint:
+    """A joint found in the model, resolved for the engine.
+
+    ``cone_joint`` (geometry.cones.ConeJoint) and ``neighbours`` (ids of the joints whose cones
+    can reach its material) are set by the analysis when a method needs the geometry; the
+    marked-up model draws the same cones against the same neighbours.
+    """
+
+    scan: Any                        # geometry.stacks.Joint
+    spec: JointSpec
+    findings: list[dict] = field(default_factory=list)
+    cone_joint: Any = None
+    neighbours: tuple[str, ...] = ()
+
+
+@dataclass
+class UnanalysedJoint:
+    """A model joint that could not be resolved for the engine: it fails, with the reason."""
+
+    id: str
+    reason: str                      # the one-line error that stopped it
+    findings: list[dict] = field(default_factory=list)
+
+    @property
+    def message(self) -> str:
+        return f"not analysed: {self.reason}"
+
+
+def _finding(severity: str, code: str, message: str) -> dict:
+    return {"severity": severity, "code": code, "message": message}
+
+
+def _same_size(a: str, b: str) -> bool:
+    return catalog.thread(a).designation == catalog.thread(b).designation
+
+
+def choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> str:
+    """Designation: a [[fasteners]] rule > the modelled bolt > the size inferred from the hole > [defaults]."""
+    ruled = any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "fastener" in r for r in job.fastener_rules)
+    modelled = joint.nominal if joint.bolt is not None else None
+    if ruled:
+        chosen = settings["fastener"]
+        if modelled and not _same_size(chosen, modelled):
+            findings.append(_finding("warn", "job-model-mismatch",
+                                     f"job sets {chosen} but the modelled bolt {joint.bolt.part} is {modelled}; "
+                                     f"the job's {chosen} is used"))
+        return chosen
+    if modelled:
+        default = settings.get("fastener")
+        if default and not _same_size(default, modelled):
+            findings.append(_finding("info", "job-model-mismatch",
+                                     f"[defaults] fastener {default} differs from the modelled bolt {modelled}; "
+                                     f"the modelled bolt is used"))
+        return modelled
+    if joint.nominal:
+        return joint.nominal
+    if "fastener" in settings:
+        return settings["fastener"]
+    raise InputError(f"joint {joint.id}: no bolt modelled and no size could be inferred from its hole; "
+                     f"set fastener in [defaults] or [[fasteners]]", where=job.where("fastener"))
+
+
+def _layer_material(job: Job, part: str, role: str) -> Any:
+    try:
+        return material_for_part(job, part)
+    except InputError:
+        if role == "washer":
+            return WASHER_MATERIAL
+        raise
+
+
+def _model_layers(job: Job, joint) -> list[LayerSpec]:
+    """The scanned layers with the materials the job gives their parts."""
+    layers = []
+    for layer in joint.layers:
+        fields = material_layer_fields(_layer_material(job, layer.part, layer.role),
+                                       f"{job.path.name}: [materials] (part {layer.part!r})")
+        layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
+    return layers
+
+
+def _model_geometry(joint) -> dict[str, float]:
+    """What the model fixes of the joint (bearing and hole diameters, bolt length, nut, gaps)."""
+    geometry = {
+        "bearing_diameter": joint.head_bearing_diameter,
+        "far_bearing_diameter": joint.nut_bearing_diameter,
+        "hole_diameter": joint.hole_diameter if not joint.tapped or len(joint.layers) > 1 else None,
+        "length": joint.bolt_length,
+        "nut_height": joint.nut_height,
+        "gaps": sum(g.size for g in joint.gaps),
+    }
+    return {k: v for k, v in geometry.items() if v is not None}
+
+
+def _model_load(job: Job, joint_id: str, group_loads: dict[str, tuple[float, float, float]],
+                where: str) -> tuple[float, float, float]:
+    """(min, max, shear) per bolt: the job's [[load]] rules plus the joint's share of its [[group]]."""
+    lo, hi, shear = joint_load(job, joint_id, None, where)
+    if joint_id in group_loads:
+        g_lo, g_hi, g_shear = group_loads[joint_id]
+        lo, hi, shear = lo + g_lo, hi + g_hi, shear + g_shear
+    return lo, hi, shear
+
+
+def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
+    """A scanned joint + the job → JointSpec (layers with materials, hardware, loads).
+
+    Raises InputError when the joint cannot be resolved (see :func:`resolve_model_joints`).
+    """
+    findings = [_finding(f.severity, f.code, f.message) for f in joint.findings]
+    settings = settings_for(job, joint.id)
+    settings["fastener"] = choose_fastener(job, joint, settings, findings)
+    if joint.head_kind and not any(fnmatch.fnmatchcase(joint.id, r["joints"]) and "head" in r
+                                   for r in job.fastener_rules):
+        settings["head"] = joint.head_kind
+    where = f"{job.path.name}: joint {joint.id}"
+    if joint.nut is None and joint.bolt is not None and not joint.tapped:
+        findings.append(_finding("info", "nut-not-modelled", "no nut modelled: catalogue hex nut assumed"))
+    notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
+    spec = build_spec(job, joint.id, settings, _model_layers(job, joint), tapped=joint.tapped,
+                      load=_model_load(job, joint.id, group_loads, where), where=where,
+                      geometry=_model_geometry(joint), notes=notes)
+    return ModelJoint(joint, spec, findings)
+
+
+#: job keys whose failure is the joint's own (its size, length, hardware or hole), not a bad value
+#: written in the job file: such a joint is not analysed, the run goes on
+JOINT_SIZING_KEYS = ("fastener", "grade", "head", "length", "hole_diameter", "bearing_diameter")
+
+
+def joint_own_trouble(exc: InputError, where: str) -> bool:
+    """Whether an error resolving one model joint is that joint's own (True) or the job file's (False).
+
+    The joint's own: no size inferred, no standard length reaches, no hardware data for its size,
+    a hole or seat the bolt does not fit (errors about JOINT_SIZING_KEYS or with no key).  The job
+    file's: a value that does not parse, a choice that does not exist, a part without a material
+    ([materials] is the job's) -- those stay exit 2 for the whole run.
+    """
+    text = str(exc)
+    if not text.startswith(where):
+        return True                  # a catalogue lookup that names no key of the job
+    key = text[len(where):].split(":", 1)[0].lstrip(".")
+    return key == "" or key in JOINT_SIZING_KEYS
+
+
+def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[float, float, float]]
+                         ) -> tuple[list[ModelJoint], list[UnanalysedJoint]]:
+    """Every scanned joint resolved for the engine; one that cannot be is set aside with its reason.
+
+    A joint's own trouble (:func:`joint_own_trouble`) never stops the run: the joint fails as not
+    analysed and the others are checked.  A bad job file still raises (exit 2).
+    """
+    resolved: list[ModelJoint] = []
+    unresolved: list[UnanalysedJoint] = []
+    for joint in scanned:
+        try:
+            resolved.append(model_joint(job, joint, group_loads))
+        except InputError as exc:
+            if "[materials]" in str(exc) or not joint_own_trouble(exc, f"{job.path.name}: joint {joint.id}"):
+                raise
+            unresolved.append(not_analysed(joint.id, str(exc),
+                                           [_finding(f.severity, f.code, f.message) for f in joint.findings]))
+    return resolved, unresolved
+
+
+def not_analysed(joint_id: str, reason: str, findings: list[dict]) -> UnanalysedJoint:
+    """The joint set aside, with its findings and the one that says why it was not analysed."""
+    return UnanalysedJoint(joint_id, reason, list(findings) + [
+        _finding("fail", "not-analysed", f"not analysed: {reason}")])
+
+
