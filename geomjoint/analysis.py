@@ -417,10 +417,10 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     ``model`` (a STEP path or an in-memory cadquery Assembly / Workplane / Shape) replaces the
     job's own ``model``; ``scan`` a scan already made of it.
     """
-    from geomjoint.geometry.scan import scan_model
-
     started = time.monotonic()
     if model is not None and scan is None:
+        from geomjoint.geometry.scan import scan_model
+
         scan = scan_model(model)
     if not job.joints and job.model is None and scan is None:
         raise InputError("no [[joint]] and no model: nothing to check", where=job.path.name)
@@ -435,6 +435,8 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
             raise InputError("[[group]] loads need a model (joint positions)", where=job.where("group"))
         return Analysis(results, excluded=[i for i in typed_ids if is_excluded(job, i)])
     if scan is None:
+        from geomjoint.geometry.scan import scan_model  # the CAD kernel only for a model
+
         scan = scan_model(job.model)
     check_rules_match(job, [j.id for j in scan.joints] + typed_ids,
                       typed_parts + [(p.name, p.product) for p in scan.model.parts])
