@@ -13,7 +13,8 @@ import pytest
 from geomjoint import catalog
 from geomjoint.analysis import analyze_job
 from geomjoint.geometry.scan import scan_model
-from geomjoint.job import parse_job, typed_joint_specs
+from geomjoint.job import parse_job
+from geomjoint.resolve import typed_joint_specs
 from geomjoint.mechanics import checks
 from geomjoint.mechanics.bolt import minimum_engagement, required_length
 from geomjoint.remedies import _size_candidates
