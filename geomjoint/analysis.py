@@ -91,7 +91,8 @@ def fe_run(spec: JointSpec, outer_diameter: float | None, outline: str) -> FeRun
     # the axisymmetric model gives every layer the same outer diameter
     return FeRun(stiffness=fe.stiffness, outer_diameter=fe.outer_diameter, mesh_change=fe.mesh_change,
                  contact_diameters=tuple(fe.contact_diameters),
-                 layer_outer_diameters=tuple(fe.outer_diameter for _ in layers), outline=outline)
+                 layer_outer_diameters=tuple(fe.outer_diameter for _ in layers), outline=outline,
+                 thread_region_compliance=fe.thread_region_compliance)
 
 
 @dataclass

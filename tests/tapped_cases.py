@@ -8,8 +8,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
-from geomjoint.analysis import fe_stiffness
-from geomjoint.job import parse_job, typed_joint_specs
+from geomjoint.analysis import MemberMethods
+from geomjoint.job import parse_job
+from geomjoint.resolve import typed_joint_specs
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics import vdi
 from geomjoint.mechanics.joint import JointSpec
@@ -81,7 +82,9 @@ def fe_result(case: Case, thread_load: str = "decaying"):
     """The FE of the joint (mechanics.fe through the pipeline's own call)."""
     spec = case_spec(case)
     if thread_load == "decaying":
-        return fe_stiffness(spec)
+        methods = MemberMethods(spec)
+        methods.value("fe")
+        return methods.fe
     # the same model with the uniform wall traction, for the sensitivity to the thread load
     from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
     from geomjoint.mechanics.stripping import engagement_of

@@ -101,7 +101,7 @@ def test_methods_stay_at_their_documented_distance_from_the_fe(case, fe_values):
 @pytest.mark.parametrize("case", CASES, ids=lambda c: c.label)
 def test_the_default_for_tapped_joints_is_near_the_fe(case, fe_values):
     spec = case_spec(case)
-    assert spec.member_stiffness == "vdi"                   # job.TAPPED_DEFAULT_STIFFNESS
+    assert spec.member_stiffness == "vdi"                   # resolve.TAPPED_DEFAULT_STIFFNESS
     result = evaluate_joint(spec)
     assert result.member_stiffness == pytest.approx(fe_values[case.label].stiffness, rel=DEFAULT_TOLERANCE)
 

@@ -225,6 +225,9 @@ class FeRun:
     contact_diameters: tuple[float, ...]  # per interface, from the head side, mm
     layer_outer_diameters: tuple[float, ...]  # outside diameter of each modelled layer, mm
     outline: str                    # where the outer diameter comes from (see OUTLINES)
+    #: tapped joint: compliance of the tapped part from the interface to its thread flanks, on the
+    #: bolt side (like VDI delta_M), mm/N; 0.0 for a through joint
+    thread_region_compliance: float = 0.0
 
 
 #: where an FE run's outer diameter comes from
