@@ -7,6 +7,7 @@ folder.
 from __future__ import annotations
 
 import tempfile
+import time
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -19,6 +20,28 @@ RESULTS_JSON = "results.json"
 REPORT_TEXT = "report.txt"
 REPORT_HTML = "report.html"
 
+#: the outputs a check can write (``--outputs``): results.json, report.txt, report.html, the
+#: marked-up STEP and the GLB; a model job writes all of them unless asked for fewer
+OUTPUT_KINDS = ("json", "text", "html", "step", "glb")
+
+
+def parse_outputs(text: str | None) -> frozenset[str]:
+    """The output kinds of a comma-separated list ("json,html"); None or "all" is every kind.
+
+    >>> sorted(parse_outputs("json, html"))
+    ['html', 'json']
+    """
+    if text is None or text.strip().lower() == "all":
+        return frozenset(OUTPUT_KINDS)
+    kinds = {k.strip().lower() for k in text.split(",") if k.strip()}
+    unknown = sorted(kinds - set(OUTPUT_KINDS))
+    if unknown or not kinds:
+        from geomjoint.errors import InputError
+
+        raise InputError(f"unknown output {', '.join(unknown) or '(none)'}; choose from {', '.join(OUTPUT_KINDS)} "
+                         f"or all", where="--outputs")
+    return frozenset(kinds)
+
 
 @dataclass
 class CheckRun:
@@ -29,6 +52,7 @@ class CheckRun:
     table: str
     files: dict[str, bytes] = field(default_factory=dict)
     not_analysed: list[UnanalysedJoint] = field(default_factory=list)
+    timings: dict[str, float] = field(default_factory=dict)   # seconds per stage, for benchmarks
 
     @property
     def failed(self) -> bool:
@@ -36,46 +60,84 @@ class CheckRun:
         return bool(self.not_analysed) or any(not r.ok for r in self.results)
 
 
-def _model_outputs(job: Job, analysis: Analysis) -> dict[str, bytes]:
+class _Clock:
+    """Seconds per stage of a check (what the benchmark prints)."""
+
+    def __init__(self, timings: dict[str, float]):
+        self.timings = timings
+        self.last = time.perf_counter()
+
+    def lap(self, stage: str) -> None:
+        now = time.perf_counter()
+        self.timings[stage] = self.timings.get(stage, 0.0) + now - self.last
+        self.last = now
+
+
+def _model_outputs(job: Job, analysis: Analysis, kinds: frozenset[str], clock: _Clock) -> dict[str, bytes]:
     """The marked-up STEP and GLB of a model job (written by the kernel to a temp folder)."""
-    from geomjoint.scene import write_marked_model
+    from geomjoint.geometry.glb import write_glb
+    from geomjoint.geometry.markup import write_marked_step
+    from geomjoint.scene import markup_scene
 
     stem = safe_name(job.model.stem) + "-checked"
     files = {}
+    scene = markup_scene(analysis)   # cone solids built once for both files
+    clock.lap("scene")
     with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
-        step, glb = Path(tmp) / f"{stem}.step", Path(tmp) / f"{stem}.glb"
-        write_marked_model(analysis, step=step, glb=glb)   # cone solids built once for both files
-        for path in (step, glb):
-            files[path.name] = path.read_bytes()
+        if "step" in kinds:
+            step = Path(tmp) / f"{stem}.step"
+            write_marked_step(scene, step)
+            files[step.name] = step.read_bytes()
+            clock.lap("step")
+        if "glb" in kinds:
+            glb = Path(tmp) / f"{stem}.glb"
+            write_glb(scene, glb)
+            files[glb.name] = glb.read_bytes()
+            clock.lap("glb")
     return files
 
 
-def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: str = "") -> CheckRun:
-    """Analyse one job file and render results.json, report.txt, report.html (+ marked-up model)."""
+def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: str = "",
+              outputs: frozenset[str] | None = None) -> CheckRun:
+    """Analyse one job file and render results.json, report.txt, report.html (+ marked-up model).
+
+    ``outputs``: the kinds of :data:`OUTPUT_KINDS` to render (default all); the result
+    document and the table are always made (they are what the command prints).
+    """
     from geomjoint.report.html import html_report
     from geomjoint.report.json_doc import dumps, result_document
     from geomjoint.report.text import result_table
 
+    kinds = frozenset(OUTPUT_KINDS) if outputs is None else frozenset(outputs)
+    timings: dict[str, float] = {}
+    clock = _Clock(timings)
     job = load_job(job_path)
     analysis = analyze_job(job, workers=workers, quiet=quiet)
+    clock.lap("analysis")
     results = analysis.results
     document = result_document(results, version, analysis.excluded, analysis.not_analysed)
+    files: dict[str, bytes] = {}
+    if "json" in kinds:
+        files[RESULTS_JSON] = dumps(document).encode("utf-8")
+    clock.lap("results.json")
     table = result_table(results, job.units, analysis.excluded, analysis.not_analysed)
-    overview = None
-    if analysis.scan is not None and analysis.model_joints:
-        from geomjoint.geometry.overview import model_overview
-        from geomjoint.report.plots import overview_svg
+    if "text" in kinds:
+        files[REPORT_TEXT] = table.encode("utf-8")
+    clock.lap("report.txt")
+    if "html" in kinds:
+        overview = None
+        if analysis.scan is not None and analysis.model_joints:
+            from geomjoint.geometry.overview import model_overview
+            from geomjoint.report.plots import overview_svg
 
-        scan = analysis.scan
-        hardware = {h.part for h in (*scan.bolts, *scan.nuts, *scan.washers)}
-        overview = overview_svg(model_overview(scan, hardware), {**{u.id: "fail" for u in analysis.not_analysed}, **{r.id: r.verdict for r in results}})
-    files = {
-        RESULTS_JSON: dumps(document).encode("utf-8"),
-        REPORT_TEXT: table.encode("utf-8"),
-        REPORT_HTML: html_report(results, title=job.title or job.path.stem, units=job.units,
-                                 overview_svg=overview, not_analysed=analysis.not_analysed).encode("utf-8"),
-    }
-    if analysis.scan is not None and analysis.model_joints:
-        files.update(_model_outputs(job, analysis))
+            scan = analysis.scan
+            hardware = {h.part for h in (*scan.bolts, *scan.nuts, *scan.washers)}
+            verdicts = {**{u.id: "fail" for u in analysis.not_analysed}, **{r.id: r.verdict for r in results}}
+            overview = overview_svg(model_overview(scan, hardware), verdicts)
+        files[REPORT_HTML] = html_report(results, title=job.title or job.path.stem, units=job.units,
+                                         overview_svg=overview, not_analysed=analysis.not_analysed).encode("utf-8")
+        clock.lap("report.html")
+    if analysis.scan is not None and analysis.model_joints and kinds & {"step", "glb"}:
+        files.update(_model_outputs(job, analysis, kinds, clock))
     inputs = [job.path] + ([job.model] if job.model else [])
-    return CheckRun(job.path, inputs, results, document, table, files, analysis.not_analysed)
+    return CheckRun(job.path, inputs, results, document, table, files, analysis.not_analysed, timings)

@@ -72,15 +72,16 @@ def _fastener_record(spec) -> dict[str, Any]:
             "pitch": f.pitch, "head": f.head, "system": f.system}
 
 
-def _cone_items(mj, by_id: dict, rgb, taken: set[str], notes: list[str]) -> list[MarkupItem]:
-    """The joint's clipped cone solids, against the same neighbours its stiffness used."""
+def _cone_items(mj, by_id: dict, rgb, taken: set[str], notes: list[str], cache) -> list[MarkupItem]:
+    """The joint's clipped cone solids, against the same neighbours its stiffness used
+    (``cache``: the model's ConeCache, so identical pieces share one solid)."""
     from geomjoint.geometry.cones import cone_solids
 
     if mj.cone_joint is None:
         return []
     out = []
     neighbours = [by_id[key].cone_joint for key in mj.neighbours if key in by_id]
-    for cname, shape in cone_solids(mj.cone_joint, neighbours):
+    for cname, shape in cone_solids(mj.cone_joint, neighbours, cache=cache):
         _, part, side = cname.rsplit(":", 2) if cname.count(":") >= 2 else ("", cname, "")
         if not has_solid(shape):
             notes.append(f"{mj.scan.id}: no cone material in {part} ({side} side)")
@@ -127,6 +128,11 @@ def markup_scene(analysis) -> MarkupScene:
             if hw is not None and hw.part not in hardware_of:
                 hardware_of[hw.part] = j.id
 
+    from geomjoint.geometry.cones import ConeCache
+
+    # sections (the analysis' own, when it kept them) and cone solids shared by the joints
+    cone_cache = getattr(analysis, "cone_cache", None) or ConeCache()
+    face_tables: dict = {}                   # hole faces of each part, read once
     hole_faces: dict[str, dict[int, tuple[float, float, float]]] = {}
     joints: list[JointMarkup] = []
     joint_names: set[str] = set()
@@ -142,14 +148,14 @@ def markup_scene(analysis) -> MarkupScene:
                          fastener=_fastener_record(result.spec),
                          factors={k: _finite(v) for k, v in result.factors.items()})
         taken: set[str] = set()
-        jm.items += _cone_items(mj, by_id, rgb, taken, jm.notes)
+        jm.items += _cone_items(mj, by_id, rgb, taken, jm.notes, cone_cache)
         jm.items.append(MarkupItem(unique_node_name("axis", taken), "axis", axis_marker(j, result.spec.fastener),
                                    rgb, source="generated"))
         jm.items += _hardware_items(mj, model, hardware_of, rgb, taken, jm.notes)
         for layer in j.layers:
             if layer.role == "washer" or layer.part in hardware_of:
                 continue
-            for idx in layer_hole_faces(layer, j):
+            for idx in layer_hole_faces(layer, j, face_tables):
                 hole_faces.setdefault(layer.part, {})[idx] = rgb
         joints.append(jm)
 

@@ -474,3 +474,134 @@ def test_many_faced_part_is_cut_to_a_block_without_changing_the_result(monkeypat
     whole = clipped_cone_stiffness(joint)
     # the same sections from the whole part and from the block around the axis (identity)
     assert blocked.stiffness == pytest.approx(whole.stiffness, rel=1e-10)
+
+
+# ---------------------------------------------------------------- cone solids: whole, clipped, shared
+
+def reference_cone_solids(joint, neighbours=()):
+    """The cone pieces by the plain construction: cone − hole cylinder, ∩ the whole part, ∩ the
+    own-side half-space of each neighbour (two booleans per piece, whatever the part)."""
+    from OCP.BRepAlgoAPI import BRepAlgoAPI_Common, BRepAlgoAPI_Cut
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace
+    from OCP.BRepPrimAPI import BRepPrimAPI_MakeCone, BRepPrimAPI_MakeCylinder, BRepPrimAPI_MakeHalfSpace
+    from OCP.gp import gp_Ax2, gp_Dir, gp_Pln, gp_Pnt
+    import numpy as np
+
+    n = np.asarray(joint.axis_direction, float)
+    p0 = np.asarray(joint.axis_point, float)
+    tan = math.tan(math.radians(joint.cone_angle_deg))
+    L = max(l.z_end for l in joint.layers)
+    out = []
+    for layer in joint.layers:
+        for side, lo, hi in (("head", 0.0, L / 2), ("far", L / 2, L)):
+            za, zb = max(layer.z_start, lo), min(layer.z_end, hi)
+            if zb - za <= 1e-9:
+                continue
+            r = (lambda z: joint.bearing_diameter / 2 + z * tan) if side == "head" else \
+                (lambda z: joint.far_bearing_diameter / 2 + (L - z) * tan)
+            base = p0 + za * n
+            cone = BRepPrimAPI_MakeCone(gp_Ax2(gp_Pnt(*base), gp_Dir(*n)), r(za), r(zb), zb - za).Shape()
+            hole = BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*(base - n)), gp_Dir(*n)), layer.hole_diameter / 2,
+                                            zb - za + 2).Shape()
+            shape = BRepAlgoAPI_Common(BRepAlgoAPI_Cut(cone, hole).Shape(), layer.solid).Shape()
+            for other in neighbours:
+                q = np.asarray(other.axis_point, float)
+                w = (q - p0) - ((q - p0) @ n) * n
+                w /= np.linalg.norm(w)
+                m = 0.5 * (p0 + q) + L / 2 * n
+                face = BRepBuilderAPI_MakeFace(gp_Pln(gp_Pnt(*m), gp_Dir(*w))).Face()
+                half = BRepPrimAPI_MakeHalfSpace(face, gp_Pnt(*(m - w))).Solid()
+                shape = BRepAlgoAPI_Common(shape, half).Shape()
+            out.append((f"{joint.id}:{layer.part}:{side}", shape))
+    return out
+
+
+def _centre(shape):
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(shape, props)
+    c = props.CentreOfMass()
+    return c.X(), c.Y(), c.Z()
+
+
+def test_whole_cones_are_one_solid_per_piece_placed_at_each_joint():
+    from geomjoint.geometry.cones import ConeCache
+
+    pts = [(40.0 * i, 40.0 * j) for i in range(3) for j in range(2)]
+    top = slab(-40, 120, -40, 80, 10.0, 20.0, holes=pts)
+    bot = slab(-40, 120, -40, 80, 0.0, 10.0, holes=pts)
+    plates = [(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_STEEL, "bottom")]
+    joints = [joint_on(plates, at=p, jid=f"J{k}") for k, p in enumerate(pts)]
+    cache = ConeCache()
+    solids = [cone_solids(j, [o for o in joints if o is not j], cache=cache) for j in joints]
+    # the cones never leave the plates: each piece is the plain hollow frustum (mathematics)
+    r0, r1 = DW / 2, DW / 2 + 10.0 * TAN
+    frustum = math.pi * 10.0 / 3 * (r0 * r0 + r0 * r1 + r1 * r1) - math.pi * (HOLE / 2) ** 2 * 10.0
+    for (x, y), pieces in zip(pts, solids):
+        assert [n.split(":", 1)[1] for n, _ in pieces] == ["top:head", "bottom:far"]
+        for (name, shape), (zlo, zhi) in zip(pieces, [(10.0, 20.0), (0.0, 10.0)]):
+            assert volume(shape) == pytest.approx(frustum, rel=1e-9), name
+            cx, cy, cz = _centre(shape)
+            assert (cx, cy) == (pytest.approx(x, abs=1e-9), pytest.approx(y, abs=1e-9))
+            assert zlo < cz < zhi
+    # and the same as the plain construction, piece by piece
+    for (_, fast), (_, ref) in zip(solids[0], reference_cone_solids(joints[0])):
+        assert volume(fast) == pytest.approx(volume(ref), rel=1e-9)
+    # one definition per distinct piece: every joint's head piece is an instance of the first
+    heads = [pieces[0][1] for pieces in solids]
+    assert all(h.IsPartner(heads[0]) for h in heads) and not heads[0].IsSame(heads[1])
+    assert not solids[0][0][1].IsPartner(solids[0][1][1])   # head and far pieces differ in place
+
+
+def test_clipped_cones_equal_the_plain_construction_and_instances_share_them():
+    from geomjoint.geometry.cones import ConeCache
+
+    # a bolt 11 mm from the plate edge (its cone, up to 14.8 mm wide, runs out), a neighbour 24 mm away
+    holes = [(0.0, 0.0), (24.0, 0.0)]
+    top = slab(-11, 100, -60, 60, 10.0, 20.0, holes=holes)
+    bot = slab(-11, 100, -60, 60, 0.0, 10.0, holes=holes)
+    plates = [(top, 10.0, E_STEEL, "top"), (bot, 10.0, E_ALU, "bottom")]
+    a = joint_on(plates, at=holes[0], jid="A")
+    b = joint_on(plates, at=holes[1], jid="B")
+    for fast, ref in zip(cone_solids(a, [b]), reference_cone_solids(a, [b])):
+        assert fast[0] == ref[0]
+        assert volume(fast[1]) == pytest.approx(volume(ref[1]), rel=1e-7), fast[0]
+    # two placed instances of one small bracket definition, each with a bolt near its edge
+    bracket = slab(-11, 30, -20, 20, 0.0, 10.0, holes=[(0.0, 0.0)])
+    base = slab(-200, 200, -200, 200, -10.0, 0.0, holes=[(0.0, 0.0), (100.0, 50.0)])
+    cache = ConeCache()
+    pieces = []
+    for k, at in enumerate([(0.0, 0.0), (100.0, 50.0)]):
+        placed = bracket.moved(cq.Location(cq.Vector(at[0], at[1], 0.0)))
+        assert placed.wrapped.IsPartner(bracket.wrapped)
+        layers = [ConeLayer(placed.wrapped, 0.0, 10.0, E_STEEL, f"bracket{k}", HOLE),
+                  ConeLayer(base.wrapped, 10.0, 20.0, E_STEEL, "base", HOLE)]
+        joint = ConeJoint(f"K{k}", (at[0], at[1], 10.0), (0.0, 0.0, -1.0), layers, DW, DW)
+        got = cone_solids(joint, cache=cache)
+        for (name, shape), (_, ref) in zip(got, reference_cone_solids(joint)):
+            assert volume(shape) == pytest.approx(volume(ref), rel=1e-7), name
+        pieces.append(got)
+    # the clipped bracket piece is built once and placed twice; so is the whole base piece
+    assert pieces[0][0][1].IsPartner(pieces[1][0][1])
+    assert pieces[0][1][1].IsPartner(pieces[1][1][1])
+    assert volume(pieces[0][0][1]) < volume(pieces[0][1][1]) * (1 - 1e-3)   # the bracket piece is clipped
+
+
+def test_placed_instances_share_the_section_of_their_definition():
+    from geomjoint.geometry.sections import PlaneFrame, SectionCache, section_polygons
+
+    # a washer-like ring with a flat, placed three times (moved, moved, turned): each placed
+    # section equals the kernel's own section of that placed shape
+    ring = (cq.Workplane("XY").circle(10.0).circle(5.5).extrude(2.0)
+            .cut(cq.Workplane("XY").box(30, 30, 10).translate((0, 24.0, 0)))).val()
+    cache = SectionCache()
+    frame = PlaneFrame.for_direction((0.0, 0.0, -1.0))
+    for at, turn in (((40.0, 5.0, 10.0), 0.0), ((-7.0, 90.0, 10.0), 0.0), ((3.0, 4.0, 10.0), 30.0)):
+        placed = ring.moved(cq.Location(cq.Vector(*at), cq.Vector(0, 0, 1), turn))
+        offset = frame.offset_of((0.0, 0.0, at[2] + 1.0))
+        shared = cache.section(placed.wrapped, frame, offset).geom
+        direct = section_polygons(placed.wrapped, frame, offset)
+        assert direct.area > 0
+        assert shared.area == pytest.approx(direct.area, rel=1e-9)
+        assert shared.symmetric_difference(direct).area < 1e-9 * direct.area
+    # the two moved copies share one kernel section; the turned one has its own
+    assert sum(len(v) for v in cache._definitions.values()) == 2

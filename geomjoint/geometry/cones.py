@@ -175,9 +175,11 @@ class ConeResult:
 
 @dataclass
 class ConeCache:
-    """Caches shared by the joints of one model (face catalogues, whole-part sections)."""
+    """Caches shared by the joints of one model (face catalogues, whole-part sections, and the
+    cone solids of :func:`cone_solids`, one per distinct piece, placed once per joint)."""
 
     sections: SectionCache = field(default_factory=SectionCache)
+    solids: dict = field(default_factory=dict)
 
 
 # --------------------------------------------------------------------------------------
@@ -842,7 +844,15 @@ def _integrate_region(cone: _Cone, sampler: _LayerSampler, side: str, a: float, 
     return delta
 
 
-def cone_solids(joint: ConeJoint, neighbours: Sequence[ConeJoint] = ()) -> list[tuple[str, object]]:
+#: relative tolerance of "the cone piece lies wholly in its part": the clipped disc area at
+#: the widest radius of the piece equals the full disc to this fraction (exact 2-D areas)
+_WHOLE_RTOL = 1e-9
+#: decimals of the key of a cone piece (mm; placements to 1e-6 mm, directions to 1e-9)
+_KEY_DECIMALS = 6
+
+
+def cone_solids(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (),
+                cache: ConeCache | None = None) -> list[tuple[str, object]]:
     """The clipped cone volumes of a joint as B-rep solids, one per layer and cone side.
 
     Each is (hollow frustum of the cone over the layer's z-range, minus the cylinder of the
@@ -850,41 +860,162 @@ def cone_solids(joint: ConeJoint, neighbours: Sequence[ConeJoint] = ()) -> list[
     the part.  Names are ``"<joint id>:<part>:head"`` / ``":far"``.  Returns
     (name, ``TopoDS_Shape``) pairs for the marked-up model export.
 
+    Where the piece lies wholly in its part (the part is prismatic over the piece and its
+    section holds the full disc of the widest cone radius, no neighbour's plane reaches it),
+    the hollow frustum itself is that volume exactly and is built without a boolean.  Other
+    pieces are cut from the part trimmed to a box around the joint (small booleans whatever
+    the part's size).  Every piece is built once in the joint's own frame and placed; joints
+    with the same piece (same radii, hole and height, and the same part geometry around it)
+    share one solid (same ``TShape``, another location), so writers can instance it.  Pass
+    the model's ``cache`` to share sections and solids between joints.
+
     Example: a wide plate, 10 mm, d_w = 18, hole 13, α = 30°, one layer: two solids whose
     volumes sum to the integral of π(r² − r_h²) over the grip.
     """
-    from OCP.BRepAlgoAPI import BRepAlgoAPI_Common, BRepAlgoAPI_Cut
-    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace
-    from OCP.BRepPrimAPI import BRepPrimAPI_MakeCone, BRepPrimAPI_MakeCylinder, BRepPrimAPI_MakeHalfSpace
-    from OCP.gp import gp_Ax2, gp_Dir, gp_Pln, gp_Pnt
+    from OCP.TopLoc import TopLoc_Location
 
+    cache = cache if cache is not None else ConeCache()
     cone = _Cone(joint)
     planes = _bisector_planes(cone, neighbours)
     out = []
+    samplers: dict[int, _LayerSampler] = {}
     for layer, side, za, zb in cone.pieces():
+        sampler = samplers.get(id(layer))
+        if sampler is None:
+            sampler = samplers[id(layer)] = _LayerSampler(cone, layer, planes, cache)
         ra, rb = float(cone.side_radius(za, side)), float(cone.side_radius(zb, side))
-        base = cone.point(za)
-        axis = gp_Ax2(gp_Pnt(*base), gp_Dir(*cone.n))
-        frustum = BRepPrimAPI_MakeCone(axis, ra, rb, zb - za).Shape()
         rh = 0.5 * layer.hole_diameter
-        pad = 1.0
-        hole_axis = gp_Ax2(gp_Pnt(*(base - pad * cone.n)), gp_Dir(*cone.n))
-        hole = BRepPrimAPI_MakeCylinder(hole_axis, rh, zb - za + 2 * pad).Shape()
-        shape = _boolean(BRepAlgoAPI_Cut(frustum, hole), joint, layer.part)
-        shape = _boolean(BRepAlgoAPI_Common(shape, as_occ_shape(layer.solid)), joint, layer.part)
-        reach = max(ra, rb) + _LENGTH_TOL
-        ends = (cone.point(za), cone.point(zb))
-        for plane in planes:
-            if layer.part not in plane.parts:
-                continue
-            if all(float(np.dot(np.asarray(p) - plane.m, plane.w)) < -reach for p in ends):
-                continue  # the whole piece lies on our side: the boolean would only cost (and can fail)
-            face = BRepBuilderAPI_MakeFace(gp_Pln(gp_Pnt(*plane.m), gp_Dir(*plane.w))).Face()
-            keep = plane.m - plane.w  # a point on our side
-            half = BRepPrimAPI_MakeHalfSpace(face, gp_Pnt(*keep)).Solid()
-            shape = _boolean(BRepAlgoAPI_Common(shape, half), joint, layer.part)
+        place = _piece_placement(cone, za)
+        cutting = _cutting_planes(cone, sampler.planes, za, zb, max(ra, rb))
+        if not cutting and _wholly_in_part(cone, sampler, side, za, zb):
+            key = ("whole", *(round(x, _KEY_DECIMALS) for x in (ra, rb, zb - za, rh)))
+            local = cache.solids.get(key)
+            if local is None:
+                local = cache.solids[key] = _hollow_frustum(ra, rb, zb - za, rh)
+        else:
+            local = _clipped_piece(cone, sampler, place, za, zb, ra, rb, rh, cutting, cache)
+        shape = local if local.IsNull() else local.Located(TopLoc_Location(place))
         out.append((f"{joint.id}:{layer.part}:{side}", shape))
     return out
+
+
+def _piece_placement(cone: _Cone, z: float):
+    """gp_Trsf from the piece's own frame (origin on the axis at height z, +Z along the axis,
+    +X along the section frame's u) to model coordinates."""
+    from OCP.gp import gp_Ax3, gp_Dir, gp_Pnt, gp_Trsf
+
+    trsf = gp_Trsf()
+    trsf.SetDisplacement(gp_Ax3(), gp_Ax3(gp_Pnt(*map(float, cone.point(z))), gp_Dir(*map(float, cone.n)),
+                                          gp_Dir(*map(float, cone.u))))
+    return trsf
+
+
+def _cutting_planes(cone: _Cone, planes: list[_Plane], za: float, zb: float, reach: float) -> list[_Plane]:
+    """The neighbours' bisecting planes that can cut the piece (the others lie beyond its reach)."""
+    ends = (cone.point(za), cone.point(zb))
+    reach += _LENGTH_TOL
+    return [plane for plane in planes
+            if not all(float(np.dot(np.asarray(p) - plane.m, plane.w)) < -reach for p in ends)]
+
+
+def _wholly_in_part(cone: _Cone, sampler: _LayerSampler, side: str, za: float, zb: float) -> bool:
+    """True when the hollow frustum of the piece lies in the part's material everywhere.
+
+    The part must be prismatic over the piece (every face within reach parallel to the axis,
+    none across it), so one section holds for all heights; in that section the disc of the
+    widest radius, less the bolt hole, must be material: its exact clipped area equals the
+    full disc, and the hole the section leaves is no wider than the layer's hole.
+    """
+    layer = sampler.layer
+    lo, hi = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
+    rh = sampler.rh
+    for a, b, prismatic in sampler.regions(lo, hi):
+        sa, sb = max(a, za), min(b, zb)
+        if sb - sa <= _LENGTH_TOL:
+            continue
+        if not prismatic:
+            return False
+        # the same window and section as the stiffness integration, so the cache serves both
+        size = 1.05 * cone.reach(a, b) + 1.0
+        mid = 0.5 * (a + b)
+        local = sampler.local_at(mid, mid, size)
+        if local.hole_area > math.pi * rh * rh * (1.0 + _WHOLE_RTOL) + _LENGTH_TOL:
+            return False          # the part's own hole is wider than the layer's: a boolean says how
+        r = max(float(cone.side_radius(sa, side)), float(cone.side_radius(sb, side)))
+        edges = _edges_of(local.geom)
+        full = math.pi * r * r
+        if float(disc_polygon_area(edges.a, edges.b, r)[0]) < full * (1.0 - _WHOLE_RTOL):
+            return False
+    return True
+
+
+def _hollow_frustum(ra: float, rb: float, height: float, rh: float):
+    """The hollow frustum r_h ≤ r ≤ r(z), 0 ≤ z ≤ height (r from ra to rb), as one revolved solid."""
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace, BRepBuilderAPI_MakePolygon
+    from OCP.BRepPrimAPI import BRepPrimAPI_MakeRevol
+    from OCP.gp import gp_Ax1, gp_Dir, gp_Pnt
+
+    poly = BRepBuilderAPI_MakePolygon()
+    for x, z in ((rh, 0.0), (ra, 0.0), (rb, height), (rh, height)):
+        poly.Add(gp_Pnt(float(x), 0.0, float(z)))
+    poly.Close()
+    face = BRepBuilderAPI_MakeFace(poly.Wire(), True).Face()
+    return BRepPrimAPI_MakeRevol(face, gp_Ax1(gp_Pnt(0, 0, 0), gp_Dir(0, 0, 1)), 2.0 * math.pi).Shape()
+
+
+def _shape_key(shape, cache: ConeCache) -> int:
+    """A number naming the part's TShape (instances of one part definition share it)."""
+    from OCP.TopLoc import TopLoc_Location
+
+    bare = shape.Located(TopLoc_Location())
+    bucket = cache.solids.setdefault(("tshape", hash(bare)), [])
+    for k, other in enumerate(bucket):
+        if other.IsPartner(bare):
+            return hash(bare) * 31 + k
+    bucket.append(bare)
+    return hash(bare) * 31 + len(bucket) - 1
+
+
+def _clipped_piece(cone: _Cone, sampler: _LayerSampler, place, za: float, zb: float, ra: float, rb: float,
+                   rh: float, cutting: list[_Plane], cache: ConeCache):
+    """(hollow frustum) ∩ (the part trimmed to a box around the piece) ∩ own-side half-spaces,
+    in the piece's own frame; reused for a piece of the same part definition placed alike."""
+    from OCP.BRepAlgoAPI import BRepAlgoAPI_Common
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace
+    from OCP.BRepPrimAPI import BRepPrimAPI_MakeBox, BRepPrimAPI_MakeHalfSpace
+    from OCP.gp import gp_Dir, gp_Pln, gp_Pnt
+    from OCP.TopLoc import TopLoc_Location
+
+    joint, layer = cone.joint, sampler.layer
+    part = as_occ_shape(layer.solid)
+    inverse = place.Inverted()
+    local_part = part.Moved(TopLoc_Location(inverse))      # the part seen from the piece's frame
+    key = None
+    if not cutting:
+        rel = local_part.Location().Transformation()
+        matrix = tuple(round(rel.Value(i, j), _KEY_DECIMALS) for i in (1, 2, 3) for j in (1, 2, 3, 4))
+        key = ("clipped", _shape_key(part, cache), matrix,
+               *(round(x, _KEY_DECIMALS) for x in (ra, rb, zb - za, rh)))
+        if key in cache.solids:
+            return cache.solids[key]
+    height = zb - za
+    reach = max(ra, rb) + 1.0
+    pad = 1.0 + 0.01 * height
+    box = BRepPrimAPI_MakeBox(gp_Pnt(-reach, -reach, -pad), 2 * reach, 2 * reach, height + 2 * pad).Shape()
+    shape = _hollow_frustum(ra, rb, height, rh)     # lies inside the box
+    trimmed = BRepAlgoAPI_Common(local_part, box)
+    block = trimmed.Shape() if trimmed.IsDone() else local_part
+    shape = _boolean(BRepAlgoAPI_Common(shape, block), joint, layer.part)
+    for plane in cutting:
+        m = gp_Pnt(*map(float, plane.m)).Transformed(inverse)
+        keep = gp_Pnt(*map(float, plane.m - plane.w)).Transformed(inverse)   # a point on our side
+        w = gp_Dir(*map(float, plane.w)).Transformed(inverse)
+        face = BRepBuilderAPI_MakeFace(gp_Pln(m, w)).Face()
+        half = BRepPrimAPI_MakeHalfSpace(face, keep).Solid()
+        shape = _boolean(BRepAlgoAPI_Common(shape, half), joint, layer.part)
+    if key is not None:
+        cache.solids[key] = shape
+    return shape
 
 
 def _boolean(operation, joint: ConeJoint, part: str):

@@ -12,7 +12,9 @@ The scene is the one of :func:`geomjoint.scene.markup_scene` (plain records of
                                  coloured by verdict
 
 glTF node names are unique in the file, so a joint's children carry the joint id in
-front.  Shapes are tessellated by OCCT (BRepMesh_IncrementalMesh) with a linear
+front.  Each distinct shape definition is tessellated once per colour and its mesh shared by
+every node that places it (the node's matrix is the placement), so a model of hundreds of
+identical bolts holds one bolt mesh per verdict.  Shapes are tessellated by OCCT (BRepMesh_IncrementalMesh) with a linear
 deflection of TESSELLATION_FRACTION of the model's bounding-box diagonal, so a big
 frame and a small bracket get the same look.  Colours are written as glTF PBR base
 colours, which glTF defines in linear RGB (the palette is sRGB and is converted).
@@ -83,45 +85,100 @@ def tessellate(shape: TopoDS_Shape, deflection: float,
     return np.vstack(verts), np.vstack(tris)
 
 
-def _mesh(item: MarkupItem, deflection: float):
-    import trimesh
-    from trimesh.visual.material import PBRMaterial
+def _placement(shape: TopoDS_Shape) -> np.ndarray:
+    """The 4 x 4 matrix of a shape's location (model coordinates of its definition's points)."""
+    trsf = shape.Location().Transformation()
+    m = np.eye(4)
+    for i in range(3):
+        for j in range(4):
+            m[i, j] = trsf.Value(i + 1, j + 1)
+    return m
 
-    vertices, faces = tessellate(item.shape, deflection)
-    if len(faces) == 0:
-        return None
-    linear = srgb_to_linear(item.rgb)
-    material = PBRMaterial(name=item.name, baseColorFactor=[*linear, float(item.alpha)],
-                           metallicFactor=METALLIC, roughnessFactor=ROUGHNESS,
-                           alphaMode="BLEND" if item.alpha < 1.0 else "OPAQUE", doubleSided=item.alpha < 1.0)
-    mesh = trimesh.Trimesh(vertices=vertices, faces=faces, process=False)
-    mesh.visual = trimesh.visual.TextureVisuals(material=material)
-    mesh.metadata["kind"] = item.kind
-    return mesh
+
+class _MeshLibrary:
+    """One glTF mesh per distinct (shape definition, colour, opacity, kind), shared by the nodes.
+
+    The model's hardware is placed instances of a few definitions, and identical cone pieces
+    share one solid (:func:`geomjoint.geometry.cones.cone_solids`): each definition is
+    tessellated once, in its own coordinates, and every node that shows it carries the
+    placement as its matrix (glTF 2.0 §3.5: a mesh may be referenced by many nodes).
+    """
+
+    def __init__(self, deflection: float):
+        self.deflection = deflection
+        self.meshes: dict[tuple, str | None] = {}
+        self.bare: dict[int, list[tuple[TopoDS_Shape, int]]] = {}
+        self.geometry: dict[str, object] = {}
+
+    def _definition(self, shape: TopoDS_Shape) -> tuple[TopoDS_Shape, int]:
+        bare = shape.Located(TopLoc_Location())
+        bucket = self.bare.setdefault(hash(bare), [])
+        for other, k in bucket:
+            if other.IsPartner(bare):
+                return other, k
+        k = sum(len(b) for b in self.bare.values())
+        bucket.append((bare, k))
+        return bare, k
+
+    def mesh_for(self, item: MarkupItem) -> str | None:
+        """The geometry name of the item's mesh (None when the shape has no triangles)."""
+        bare, k = self._definition(item.shape)
+        key = (k, tuple(round(float(c), 6) for c in item.rgb), round(float(item.alpha), 6), item.kind)
+        if key not in self.meshes:
+            self.meshes[key] = self._build(bare, item, f"{item.kind} {len(self.meshes) + 1}")
+        return self.meshes[key]
+
+    def _build(self, bare: TopoDS_Shape, item: MarkupItem, name: str) -> str | None:
+        import trimesh
+        from trimesh.visual.material import PBRMaterial
+
+        vertices, faces = tessellate(bare, self.deflection)
+        if len(faces) == 0:
+            return None
+        linear = srgb_to_linear(item.rgb)
+        material = PBRMaterial(name=name, baseColorFactor=[*linear, float(item.alpha)],
+                               metallicFactor=METALLIC, roughnessFactor=ROUGHNESS,
+                               alphaMode="BLEND" if item.alpha < 1.0 else "OPAQUE", doubleSided=item.alpha < 1.0)
+        mesh = trimesh.Trimesh(vertices=vertices, faces=faces, process=False)
+        mesh.visual = trimesh.visual.TextureVisuals(material=material)
+        mesh.metadata["kind"] = item.kind
+        self.geometry[name] = mesh
+        return name
 
 
 def build_scene(scene_data: MarkupScene):
-    """The trimesh Scene of the marked-up model (joint nodes carry their results as metadata)."""
+    """The trimesh Scene of the marked-up model (joint nodes carry their results as metadata).
+
+    Each node of a part, cone, axis or piece of hardware has its placement as its matrix and
+    refers to the mesh of its shape's definition, shared with every other node that shows the
+    same definition in the same colour.
+    """
     import trimesh
 
     deflection = tessellation_tolerance(scene_data.diagonal)
+    library = _MeshLibrary(deflection)
     scene = trimesh.Scene()
     base = scene.graph.base_frame
     eye = np.eye(4)
+
+    def place(item: MarkupItem, node: str, parent: str) -> None:
+        geom = library.mesh_for(item)
+        if geom is None:
+            return
+        if geom not in scene.geometry:
+            scene.add_geometry(library.geometry[geom], node_name=node, geom_name=geom, parent_node_name=parent,
+                               transform=_placement(item.shape))
+        else:
+            scene.graph.update(frame_from=parent, frame_to=node, matrix=_placement(item.shape), geometry=geom)
+
     scene.graph.update(frame_from=base, frame_to="parts", matrix=eye, metadata={"kind": "parts"})
     for item in scene_data.parts:
-        mesh = _mesh(item, deflection)
-        if mesh is not None:
-            scene.add_geometry(mesh, node_name=item.name, geom_name=item.name, parent_node_name="parts")
+        place(item, item.name, "parts")
     for jm in scene_data.joints:
         # edge metadata is what trimesh writes as the node's glTF extras
         scene.graph.update(frame_from=base, frame_to=jm.id, matrix=eye, metadata=jm.extras)
         for item in jm.items:
-            mesh = _mesh(item, deflection)
-            if mesh is None:
-                continue
-            name = f"{jm.id} {item.name}"
-            scene.add_geometry(mesh, node_name=name, geom_name=name, parent_node_name=jm.id)
+            place(item, f"{jm.id} {item.name}", jm.id)
     scene.metadata["geomjoint"] = {"title": scene_data.title, "tessellation_mm": deflection,
                                    "joints": [jm.id for jm in scene_data.joints]}
     return scene

@@ -238,21 +238,29 @@ def srgb_to_linear(rgb) -> tuple[float, float, float]:
 
 # ----------------------------------------------------------------------------- hole faces
 
-def hole_face_indices(solid: TopoDS_Shape, ref, direction, t0: float, t1: float,
-                      max_radius: float) -> list[int]:
-    """Indices (explorer order) of the cylinder/cone faces of ``solid`` that form a hole.
+@dataclass
+class HoleFaceTable:
+    """The cylinder and cone faces of a solid as arrays (one row a face), read once per part.
 
-    A face belongs to the hole when its axis is the hole's axis (within FACE_AXIS_TOL mm,
-    parallel within FACE_PARALLEL_TOL), its radius is at most ``max_radius`` (+ tolerance)
-    and the centre of its bounding box lies within [t0, t1] along ``direction`` from ``ref``.
+    index: the face's position in explorer order; loc, axis: a point of the surface's axis and
+    its direction; radius: cylinder radius (0 for a cone, judged by axis and extent); centre:
+    the centre of the face's bounding box.  Selecting a joint's hole faces is then a few array
+    operations, whatever the number of holes in the part.
     """
+
+    index: np.ndarray
+    loc: np.ndarray
+    axis: np.ndarray
+    radius: np.ndarray
+    centre: np.ndarray
+
+
+def hole_face_table(solid: TopoDS_Shape) -> HoleFaceTable:
+    """The :class:`HoleFaceTable` of a solid."""
     from OCP.Bnd import Bnd_Box
     from OCP.BRepBndLib import BRepBndLib
 
-    ref = np.asarray(ref, float)
-    d = np.asarray(direction, float)
-    d = d / np.linalg.norm(d)
-    out = []
+    rows = []
     for i, face in enumerate(_faces(solid)):
         surf = BRepAdaptor_Surface(face)
         kind = surf.GetType()
@@ -265,38 +273,57 @@ def hole_face_indices(solid: TopoDS_Shape, ref, direction, t0: float, t1: float,
         else:
             continue
         ax = geom.Axis()
-        loc = np.array([ax.Location().X(), ax.Location().Y(), ax.Location().Z()])
-        fd = np.array([ax.Direction().X(), ax.Direction().Y(), ax.Direction().Z()])
-        if np.linalg.norm(np.cross(fd, d)) > FACE_PARALLEL_TOL:
-            continue
-        off = loc - ref
-        if np.linalg.norm(off - np.dot(off, d) * d) > FACE_AXIS_TOL:
-            continue
-        if radius > max_radius + FACE_AXIS_TOL:
-            continue
         box = Bnd_Box()
         BRepBndLib.Add_s(face, box)
         x0, y0, z0, x1, y1, z1 = box.Get()
-        t = float(np.dot(np.array([(x0 + x1) / 2, (y0 + y1) / 2, (z0 + z1) / 2]) - ref, d))
-        if t0 - FACE_EXTENT_TOL <= t <= t1 + FACE_EXTENT_TOL:
-            out.append(i)
-    return out
+        rows.append((i, ax.Location().X(), ax.Location().Y(), ax.Location().Z(),
+                     ax.Direction().X(), ax.Direction().Y(), ax.Direction().Z(), radius,
+                     (x0 + x1) / 2, (y0 + y1) / 2, (z0 + z1) / 2))
+    a = np.asarray(rows, dtype=float).reshape(-1, 11)
+    return HoleFaceTable(a[:, 0].astype(int), a[:, 1:4], a[:, 4:7], a[:, 7], a[:, 8:11])
 
 
-def layer_hole_faces(layer, joint) -> list[int]:
+def hole_face_indices(solid: TopoDS_Shape, ref, direction, t0: float, t1: float,
+                      max_radius: float, table: HoleFaceTable | None = None) -> list[int]:
+    """Indices (explorer order) of the cylinder/cone faces of ``solid`` that form a hole.
+
+    A face belongs to the hole when its axis is the hole's axis (within FACE_AXIS_TOL mm,
+    parallel within FACE_PARALLEL_TOL), its radius is at most ``max_radius`` (+ tolerance)
+    and the centre of its bounding box lies within [t0, t1] along ``direction`` from ``ref``.
+    ``table``: the solid's :func:`hole_face_table`, when already read.
+    """
+    table = table if table is not None else hole_face_table(solid)
+    ref = np.asarray(ref, float)
+    d = np.asarray(direction, float)
+    d = d / np.linalg.norm(d)
+    parallel = np.linalg.norm(np.cross(table.axis, d), axis=1) <= FACE_PARALLEL_TOL
+    off = table.loc - ref
+    on_axis = np.linalg.norm(off - np.outer(off @ d, d), axis=1) <= FACE_AXIS_TOL
+    t = (table.centre - ref) @ d
+    keep = (parallel & on_axis & (table.radius <= max_radius + FACE_AXIS_TOL)
+            & (t >= t0 - FACE_EXTENT_TOL) & (t <= t1 + FACE_EXTENT_TOL))
+    return [int(i) for i in table.index[keep]]
+
+
+def layer_hole_faces(layer, joint, tables: dict | None = None) -> list[int]:
+    """The hole faces of a joint's layer; ``tables`` keeps each part's :class:`HoleFaceTable`."""
     if layer.solid is None:
         return []
+    tables = tables if tables is not None else {}
+    table = tables.get(id(layer.solid))
+    if table is None:
+        table = tables[id(layer.solid)] = hole_face_table(layer.solid)
     hole = layer.hole
     if hole is not None:
         rmax = max([max(s.r0, s.r1) for s in hole.sections] + [0.5 * hole.diameter])
         for extra in (hole.counterbore, hole.countersink):
             if extra:
                 rmax = max(rmax, 0.5 * extra[0])
-        return hole_face_indices(layer.solid, hole.ref, hole.direction, hole.t0, hole.t1, rmax)
+        return hole_face_indices(layer.solid, hole.ref, hole.direction, hole.t0, hole.t1, rmax, table)
     # no hole record: the joint axis over the layer's range
     p = np.asarray(joint.point, float)
     d = np.asarray(joint.direction, float)
-    return hole_face_indices(layer.solid, p, d, layer.start, layer.end, 0.5 * layer.hole_diameter)
+    return hole_face_indices(layer.solid, p, d, layer.start, layer.end, 0.5 * layer.hole_diameter, table)
 
 
 # ----------------------------------------------------------------------------- generated solids

@@ -11,10 +11,7 @@ from dataclasses import dataclass
 import numpy as np
 from shapely.geometry import MultiPoint
 
-from geomjoint.geometry.glb import tessellate
-
-#: chord deflection of the outline mesh, mm: outlines need no fine mesh
-OUTLINE_DEFLECTION = 1.0
+from geomjoint.geometry.glb import tessellate, tessellation_tolerance
 
 
 @dataclass
@@ -50,7 +47,12 @@ def model_overview(scan, hardware_parts: set[str] = frozenset()) -> Overview:
     """Outlines of the non-hardware parts and the joint positions, seen along the bolt axes."""
     view = _view_direction(scan)
     u, v = _view_axes(view)
-    meshes = [(p.name, tessellate(p.solid, OUTLINE_DEFLECTION)[0])
+    # the GLB's tolerance: OCCT keeps the triangulation on the shape, so the meshes made here
+    # serve the marked-up GLB too (each part is meshed once per check)
+    from geomjoint.geometry.markup import bounding_diagonal
+
+    deflection = tessellation_tolerance(bounding_diagonal([p.solid for p in scan.model.parts]))
+    meshes = [(p.name, tessellate(p.solid, deflection)[0])
               for p in scan.model.parts if p.name not in hardware_parts]
     outlines = []
     for name, verts in meshes:

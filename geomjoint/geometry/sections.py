@@ -374,13 +374,16 @@ class SectionCache:
     """Whole-part sections and face catalogues, reused across the joints of one model.
 
     Keys use ``id()`` of the OCP shape object; the cache keeps a reference to each shape
-    so an id is never reused while the cache lives.
+    so an id is never reused while the cache lives.  Placed instances of one part definition
+    (washers, nuts, brackets used many times) share one section of the definition, moved
+    into place, instead of one kernel section each.
     """
 
     deflection: float = DEFAULT_DEFLECTION
     _faces: dict = field(default_factory=dict)
     _sections: dict = field(default_factory=dict)
     _keep: dict = field(default_factory=dict)
+    _definitions: dict = field(default_factory=dict)
 
     def faces(self, solid) -> FaceCatalog:
         shape = as_occ_shape(solid)
@@ -396,6 +399,32 @@ class SectionCache:
         key = (id(shape), frame.key(), round(offset, 7))
         if key not in self._sections:
             self._keep[id(shape)] = shape
-            self._sections[key] = IndexedSection(
-                section_polygons(shape, frame, offset, deflection=self.deflection))
+            self._sections[key] = IndexedSection(self._placed_section(shape, frame, offset))
         return self._sections[key]
+
+    def _placed_section(self, shape: TopoDS_Shape, frame: PlaneFrame, offset: float) -> MultiPolygon:
+        """The section of a placed shape from the section of its definition (rigid placements).
+
+        With X = R·X_def + t, the plane X·n = offset is X_def·(Rᵀn) = offset − t·n in the
+        definition's coordinates, and plane coordinates differ by (t·u, t·v) only.
+        """
+        from OCP.TopLoc import TopLoc_Location
+        from shapely import affinity
+
+        trsf = shape.Location().Transformation()
+        R = np.array([[trsf.Value(i, j) for j in (1, 2, 3)] for i in (1, 2, 3)])
+        t = np.array([trsf.Value(i, 4) for i in (1, 2, 3)])
+        if shape.Location().IsIdentity() or abs(np.linalg.det(R) - 1.0) > 1e-9:
+            return section_polygons(shape, frame, offset, deflection=self.deflection)  # none, or not rigid
+        n, u, v = (np.asarray(x) for x in (frame.n, frame.u, frame.v))
+        local = PlaneFrame(*(tuple(map(float, R.T @ x)) for x in (n, u, v)))
+        local_offset = offset - float(t @ n)
+        bare = shape.Located(TopLoc_Location())
+        key = (hash(bare), *(round(c, 9) for x in (local.n, local.u) for c in x), round(local_offset, 7))
+        for other, geom in self._definitions.get(key, ()):
+            if other.IsPartner(bare):
+                break
+        else:
+            geom = section_polygons(bare, local, local_offset, deflection=self.deflection)
+            self._definitions.setdefault(key, []).append((bare, geom))
+        return affinity.translate(geom, float(t @ u), float(t @ v)) if not geom.is_empty else geom

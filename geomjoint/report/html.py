@@ -2,7 +2,10 @@
 
 Everything the page needs is inside it: the CSS, the drawings as inline SVG (see
 :mod:`geomjoint.report.plots`) and a few lines of JavaScript that sort the joints
-table.  The numbers are the ones of results.json (:mod:`geomjoint.report.json_doc`),
+table and open the per-joint sections.  The page opens with the summary and the joints
+table; each joint's section (drawings, numbers, checks) is a closed ``<details>`` that a
+click, a link to it or printing opens, so a report of hundreds of joints stays quick to
+open and grows by a few kB per joint.  The numbers are the ones of results.json (:mod:`geomjoint.report.json_doc`),
 converted to the units the job asked for with :func:`geomjoint.units.convert`; every
 number cell of the joints table also carries the internal value (N, mm, MPa) in a
 ``data-value`` attribute, which is what the table sorts on.
@@ -174,12 +177,31 @@ figcaption {{ font-size: .8rem; color: var(--muted); }}
 .bad {{ font-weight: 700; }}
 ul.findings li {{ margin: .15rem 0; }}
 footer {{ margin-top: 3rem; }}
-@media print {{ section.joint {{ break-before: page; }} th button::after {{ content: none; }} }}
+section.joint > details > summary {{ cursor: pointer; list-style-position: outside; margin-left: 1.1rem; }}
+section.joint > details > summary h2 {{ display: inline; border: 0; }}
+section.joint {{ border-bottom: 2px solid var(--rule); padding: .5rem 0; }}
+.toolbar button {{ font: inherit; margin-right: .5rem; }}
+@media print {{ section.joint {{ break-before: page; }} th button::after {{ content: none; }} .toolbar {{ display: none; }} }}
 """
 
 # Sorting the joints table: a click on a column header sorts by that column, numbers by
 # their data-value (internal units) and text otherwise; a second click reverses.
+# Per-joint sections are closed <details> (a report of hundreds of joints opens fast): a link
+# to a joint opens its section, the toolbar opens or closes them all, printing opens them all.
 _JS = """
+function openJoint(hash) {
+  var target = hash && document.getElementById(decodeURIComponent(hash.slice(1)));
+  if (target && target.classList.contains("joint")) { target.querySelector("details").open = true; }
+}
+function openAll(state) {
+  document.querySelectorAll("section.joint > details").forEach(function (d) { d.open = state; });
+}
+window.addEventListener("hashchange", function () { openJoint(location.hash); });
+window.addEventListener("beforeprint", function () { openAll(true); });
+openJoint(location.hash);
+document.querySelectorAll("[data-open-all]").forEach(function (b) {
+  b.addEventListener("click", function () { openAll(b.getAttribute("data-open-all") === "yes"); });
+});
 document.querySelectorAll("table.sortable").forEach(function (table) {
   table.querySelectorAll("th button").forEach(function (button, col) {
     button.addEventListener("click", function () {
@@ -213,7 +235,8 @@ def _summary(results: list[JointResult]) -> str:
         f'<li><a href="#{_anchor(i, r.id)}">{_e(r.id)}</a> {_badge(r.verdict)} governing: {_e(_governing(r))}</li>'
         for i, r in enumerate(results))
     return (f'<section id="summary"><h2>Summary</h2><div class="counts">{"".join(parts)}</div>'
-            f'<h3>Governing check of each joint</h3><ul class="governing">{items}</ul></section>')
+            f'<details><summary>Governing check of each joint</summary><ul class="governing">{items}</ul>'
+            f'</details></section>')
 
 
 def _joints_table(results: list[JointResult], u: ReportUnits) -> str:
@@ -494,12 +517,12 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
     ]
     fig_html = "".join(f'<figure>{_labelled(svg, cap)}<figcaption>{_e(cap)}</figcaption></figure>'
                        for svg, cap in figs)
-    return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}">'
-            f'<h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2>'
+    return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}"><details>'
+            f'<summary><h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2></summary>'
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
             f'<div class="figs">{fig_html}</div>'
             f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}"
-            f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</section>")
+            f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</details></section>")
 
 
 def html_report(results: list[JointResult], *, title: str, units: str = "SI",
@@ -535,11 +558,15 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
                     f'<figcaption>Joints numbered and coloured by verdict.</figcaption></figure></section>')
     unit_note = (f'<p class="src">Units: forces {u.force}, lengths {u.length}, stresses {u.stress}, '
                  f'stiffness {u.stiffness}.</p>')
-    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results)) + _not_analysed(not_analysed)
+    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results))
+    toolbar = ('<h2 id="details">Each joint</h2><p class="toolbar">Open a joint for its drawings, numbers and '
+               'checks: <button type="button" data-open-all="yes">open all</button>'
+               '<button type="button" data-open-all="no">close all</button></p>') if results else ""
     return ("<!DOCTYPE html>\n"
             f'<html lang="en"><head><meta charset="utf-8">'
             f'<meta name="viewport" content="width=device-width, initial-scale=1">'
             f"<title>{_e(title)}</title><style>{_CSS}</style></head>\n<body>"
             f"<header><h1>{_e(title)}</h1>{caution}{unit_note}</header>\n<main>"
-            f"{_summary(results)}{overview}{_joints_table(results, u)}{sections}</main>\n"
+            f"{_summary(results)}{_joints_table(results, u)}{overview}{_not_analysed(not_analysed)}{toolbar}{sections}"
+            "</main>\n"
             f"<footer>{caution}</footer>\n<script>{_JS}</script>\n</body></html>\n")

@@ -1,40 +1,40 @@
-"""Drawings for the HTML report, as inline SVG strings made with matplotlib.
+"""Drawings for the HTML report, as inline SVG written straight from the numbers.
 
 One function per drawing: :func:`section_svg` (the stack to scale, with bolt, washers,
 nut or tapped thread and the two pressure cones), :func:`joint_diagram_svg` (the
 force-elongation lines of bolt and members) and :func:`fatigue_diagram_svg` (the
-criterion curve with the load line and the operating point).
+criterion curve with the load line and the operating point), and :func:`overview_svg`
+(the model seen along the bolt axes).
 
-matplotlib's object API is used (``Figure`` without pyplot), so no global backend
-state is touched and nothing is ever shown on screen.  Every SVG is stripped of its
-XML prologue, DOCTYPE and metadata so that it can be pasted into an HTML page, and
-its element ids get a per-figure prefix so several figures on one page never clash.
+The drawings have a fixed layout (one size, fixed margins, the legend in a fixed corner),
+so no layout engine is needed: :class:`Drawing` maps data coordinates to the picture and
+writes SVG elements as text, a few kB per drawing and well under a millisecond each, which
+keeps a report of hundreds of joints fast to write and to open.  Each SVG is a fragment fit
+for inline HTML (no XML prologue, no DOCTYPE); its element ids get a per-drawing prefix so
+several drawings on one page never clash.
 """
 from __future__ import annotations
 
 import functools
-import io
+import html
 import itertools
 import math
-import re
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
-import matplotlib
+from geomjoint.mechanics.joint import JointResult
+from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: F401 (re-exported for html.py)
+from geomjoint.units import MM_PER_INCH, convert
 
-matplotlib.use("Agg")  # never a window: reports are written on servers and in CI
-
-from matplotlib.figure import Figure  # noqa: E402
-from matplotlib.patches import Polygon, Rectangle  # noqa: E402
-
-from geomjoint.mechanics.joint import JointResult  # noqa: E402
-from geomjoint.report.palette import VERDICT_COLOURS, VERDICT_TEXT  # noqa: E402,F401 (re-exported for html.py)
-from geomjoint.units import MM_PER_INCH, convert  # noqa: E402
-
-#: figure size of every drawing, inches (small enough for a page with many joints)
-FIGSIZE = (5.0, 3.5)
-
-# Verdict colours: one palette for every output (geomjoint.report.palette), chosen to differ
-# in lightness as well as hue; the verdict is always written out as text too.
+#: size of every joint drawing, px (the page scales it to its column)
+WIDTH, HEIGHT = 500, 350
+#: plot-area margins of the joint drawings, px: left, right, top, bottom (room for ticks and labels)
+MARGINS = (62, 14, 30, 44)
+#: font sizes, px: annotations, tick labels, axis labels, title
+FONT_NOTE, FONT_TICK, FONT_LABEL, FONT_TITLE = 10, 10, 11, 12
+#: one typographic point in px at the 100 px/in of the drawings (1 pt = 1/72 in)
+PT = 100.0 / 72.0
+#: about how many ticks an axis gets
+TICKS = 6
 
 # Line colours of the diagrams (same colour-blind-safe family as the verdict palette).
 BOLT_COLOUR = VERDICT_COLOURS["pass"]
@@ -59,6 +59,7 @@ _MATERIAL_FILLS = (
 _OTHER_FILL = "#e9e9e9"
 _WASHER_FILL = "#8e96a3"
 _HARDWARE_FILL = "#5c6470"
+_SHANK_FILL = "#7d8694"
 
 # Drawing proportions of hardware the JointSpec does not dimension (head height and
 # width, nut height and width).  They only shape the picture, never a result:
@@ -133,32 +134,237 @@ def report_units(units: str) -> ReportUnits:
     raise InputError(f"unknown report units {units!r} (SI or inch)", where="units")
 
 
-_figure_counter = itertools.count(1)
+# ----------------------------------------------------------------------------- the SVG writer
+
+_drawing_counter = itertools.count(1)
 
 
-def _figure() -> Figure:
-    # fixed margins instead of a layout engine: one draw per figure, half the time
-    fig = Figure(figsize=FIGSIZE)
-    fig.subplots_adjust(left=0.14, right=0.97, bottom=0.14, top=0.9)
-    return fig
+def nice_ticks(lo: float, hi: float, count: int = TICKS) -> list[float]:
+    """Round tick values covering [lo, hi]: steps of 1, 2, 2.5 or 5 times a power of ten.
+
+    >>> nice_ticks(0.0, 9.3)
+    [0.0, 2.0, 4.0, 6.0, 8.0]
+    >>> nice_ticks(-12.0, 30.0)
+    [-10.0, 0.0, 10.0, 20.0, 30.0]
+    """
+    span = hi - lo
+    if not (span > 0 and math.isfinite(span)):
+        return [lo]
+    raw = span / max(count - 1, 1)
+    power = 10.0 ** math.floor(math.log10(raw))
+    step = next(m * power for m in (1.0, 2.0, 2.5, 5.0, 10.0) if m * power >= raw * (1 - 1e-9))
+    first = math.ceil(lo / step - 1e-9)
+    last = math.floor(hi / step + 1e-9)
+    return [round(k * step, 12) + 0.0 for k in range(first, last + 1)]
 
 
-def _svg(fig: Figure) -> str:
-    """The figure as an SVG fragment fit for inline HTML."""
-    buf = io.StringIO()
-    with matplotlib.rc_context({"svg.fonttype": "none", "svg.hashsalt": "geomjoint"}):
-        fig.savefig(buf, format="svg")
-    text = buf.getvalue()
-    # drop the XML declaration, the DOCTYPE (it names an external DTD) and the metadata block
-    text = re.sub(r"<\?xml[^>]*\?>\s*", "", text)
-    text = re.sub(r"<!DOCTYPE[^>]*>\s*", "", text)
-    text = re.sub(r"<metadata>.*?</metadata>\s*", "", text, flags=re.S)
-    # ids must be unique on the page: prefix them per figure
-    prefix = f"g{next(_figure_counter)}-"
-    text = re.sub(r'\bid="([^"]+)"', lambda m: f'id="{prefix}{m.group(1)}"', text)
-    text = re.sub(r"url\(#([^)]+)\)", lambda m: f"url(#{prefix}{m.group(1)})", text)
-    text = re.sub(r'href="#([^"]+)"', lambda m: f'href="#{prefix}{m.group(1)}"', text)
-    return text.strip()
+def _tick_label(value: float) -> str:
+    text = f"{value:.6g}"
+    return text.replace("-", "\u2212")    # a true minus sign, as printed axes have
+
+
+def _num(x: float) -> str:
+    """A pixel coordinate, rounded to 0.1 px (plenty for a drawing, short in the file)."""
+    text = f"{x:.1f}"
+    return text[:-2] if text.endswith(".0") else text
+
+
+@dataclass
+class _Entry:
+    label: str
+    colour: str
+    width: float = 1.5
+    dash: str | None = None
+    marker: str | None = None      # "o" | "s" | None
+    fill: str | None = None        # an area (span) instead of a line
+    alpha: float = 1.0
+
+
+@dataclass
+class Drawing:
+    """One fixed-layout drawing: data limits mapped to a plot area, SVG elements as text.
+
+    y grows upward in data coordinates (as on paper); ``equal`` keeps one data unit the same
+    length on both axes (the plot area shrinks and centres to fit), for drawings to scale.
+    """
+
+    xlim: tuple[float, float]
+    ylim: tuple[float, float]
+    width: int = WIDTH
+    height: int = HEIGHT
+    margins: tuple[float, float, float, float] = MARGINS
+    equal: bool = False
+    prefix: str = ""
+    body: list[str] = field(default_factory=list)
+    defs: list[str] = field(default_factory=list)
+    legend: list[_Entry] = field(default_factory=list)
+    texts: list[str] = field(default_factory=list)    # drawn over the plot area, never clipped
+
+    def __post_init__(self) -> None:
+        self.prefix = self.prefix or f"g{next(_drawing_counter)}-"
+        left, right, top, bottom = self.margins
+        self.px0, self.py0 = left, top
+        self.pw, self.ph = self.width - left - right, self.height - top - bottom
+        x0, x1 = self.xlim
+        y0, y1 = self.ylim
+        if not x1 > x0:
+            x1 = x0 + 1.0
+        if not y1 > y0:
+            y1 = y0 + 1.0
+        self.xlim, self.ylim = (x0, x1), (y0, y1)
+        self.sx = self.pw / (x1 - x0)
+        self.sy = self.ph / (y1 - y0)
+        if self.equal:
+            # one scale for both axes: the plot area shrinks along the longer one and is centred
+            s = min(self.sx, self.sy)
+            self.px0 += 0.5 * (self.pw - s * (x1 - x0))
+            self.py0 += 0.5 * (self.ph - s * (y1 - y0))
+            self.pw, self.ph = s * (x1 - x0), s * (y1 - y0)
+            self.sx = self.sy = s
+
+    # -- coordinates ---------------------------------------------------------------------
+    def X(self, x: float) -> float:
+        return self.px0 + (x - self.xlim[0]) * self.sx
+
+    def Y(self, y: float) -> float:
+        return self.py0 + (self.ylim[1] - y) * self.sy
+
+    def _points(self, pts) -> str:
+        return " ".join(f"{_num(self.X(x))},{_num(self.Y(y))}" for x, y in pts)
+
+    @staticmethod
+    def _stroke(colour: str | None, width: float, dash: str | None) -> str:
+        if colour is None:
+            return ' stroke="none"'
+        out = f' stroke="{colour}" stroke-width="{width:g}"'
+        return out + (f' stroke-dasharray="{dash}"' if dash else "")
+
+    # -- shapes (data coordinates, clipped to the plot area) --------------------------------
+    def line(self, xs, ys, colour: str, width: float = 1.5, dash: str | None = None,
+             label: str | None = None) -> None:
+        self.body.append(f'<polyline points="{self._points(zip(xs, ys))}" fill="none"'
+                         f'{self._stroke(colour, width, dash)} stroke-linejoin="round"/>')
+        if label:
+            self.legend.append(_Entry(label, colour, width, dash))
+
+    def polygon(self, pts, fill: str, stroke: str | None = "#000", width: float = 0.6,
+                dash: str | None = None, opacity: float = 1.0, stroke_opacity: float = 1.0) -> None:
+        extra = f' fill-opacity="{opacity:g}"' if opacity < 1 else ""
+        extra += f' stroke-opacity="{stroke_opacity:g}"' if stroke_opacity < 1 else ""
+        self.body.append(f'<polygon points="{self._points(pts)}" fill="{fill}"{extra}'
+                         f'{self._stroke(stroke, width, dash)}/>')
+
+    def rect(self, x0: float, y0: float, x1: float, y1: float, fill: str, stroke: str | None = "#000",
+             width: float = 0.6, hatch: str | None = None, opacity: float = 1.0) -> None:
+        """A rectangle between two data corners; ``hatch`` "/" (diagonal) or "x" (crossed) on top."""
+        px, py = self.X(min(x0, x1)), self.Y(max(y0, y1))
+        w, h = abs(x1 - x0) * self.sx, abs(y1 - y0) * self.sy
+        extra = f' fill-opacity="{opacity:g}"' if opacity < 1 else ""
+        self.body.append(f'<rect x="{_num(px)}" y="{_num(py)}" width="{_num(w)}" height="{_num(h)}" '
+                         f'fill="{fill}"{extra}{self._stroke(stroke, width, None)}/>')
+        if hatch:
+            self.body.append(f'<rect x="{_num(px)}" y="{_num(py)}" width="{_num(w)}" height="{_num(h)}" '
+                             f'fill="url(#{self._hatch(hatch)})" stroke="none"/>')
+
+    def _hatch(self, kind: str) -> str:
+        pid = f"{self.prefix}hatch-{'x' if kind == 'x' else 'd'}"
+        if not any(f'id="{pid}"' in d for d in self.defs):
+            path = "M0,6L6,0M-1,1L1,-1M5,7L7,5" + ("M0,0L6,6M-1,5L1,7M5,-1L7,1" if kind == "x" else "")
+            self.defs.append(f'<pattern id="{pid}" patternUnits="userSpaceOnUse" width="6" height="6">'
+                             f'<path d="{path}" stroke="#000" stroke-width="0.5"/></pattern>')
+        return pid
+
+    def span(self, y0: float, y1: float, colour: str, opacity: float, label: str | None = None) -> None:
+        """A band across the whole plot area between two y values."""
+        self.rect(self.xlim[0], y0, self.xlim[1], y1, fill=colour, stroke=None, opacity=opacity)
+        if label:
+            self.legend.append(_Entry(label, colour, fill=colour, alpha=opacity))
+
+    def marker(self, x: float, y: float, shape: str, size: float, colour: str, label: str | None = None) -> None:
+        """A marker of ``size`` points across ("o" circle, "s" square) at a data point."""
+        self.body.append(self._marker_at(self.X(x), self.Y(y), shape, size, colour))
+        if label:
+            self.legend.append(_Entry(label, colour, marker=shape, width=0.0))
+
+    @staticmethod
+    def _marker_at(px: float, py: float, shape: str, size: float, colour: str) -> str:
+        r = 0.5 * size * PT
+        if shape == "s":
+            return (f'<rect x="{_num(px - r)}" y="{_num(py - r)}" width="{_num(2 * r)}" height="{_num(2 * r)}" '
+                    f'fill="{colour}"/>')
+        return f'<circle cx="{_num(px)}" cy="{_num(py)}" r="{_num(r)}" fill="{colour}"/>'
+
+    # -- text (never clipped) ----------------------------------------------------------------
+    def note(self, x: float, y: float, text: str, dx: float = 0.0, dy: float = 0.0, anchor: str = "start",
+             middle: bool = False, colour: str | None = None, size: float = FONT_NOTE) -> None:
+        """Text at a data point, offset by (dx, dy) points (dy upward), like a printed callout."""
+        self.text_px(self.X(x) + dx * PT, self.Y(y) - dy * PT, text, anchor=anchor, middle=middle,
+                     colour=colour, size=size, clipped=False)
+
+    def text_px(self, px: float, py: float, text: str, anchor: str = "start", middle: bool = False,
+                colour: str | None = None, size: float = FONT_NOTE, rotate: bool = False,
+                clipped: bool = False, bold: bool = False) -> None:
+        attrs = f' font-size="{size:g}"'
+        if anchor != "start":
+            attrs += f' text-anchor="{anchor}"'
+        if middle:
+            attrs += ' dominant-baseline="central"'
+        if colour:
+            attrs += f' fill="{colour}"'
+        if bold:
+            attrs += ' font-weight="bold"'
+        if rotate:
+            attrs += f' transform="rotate(-90 {_num(px)} {_num(py)})"'
+        element = f'<text x="{_num(px)}" y="{_num(py)}"{attrs}>{html.escape(text, quote=False)}</text>'
+        (self.body if clipped else self.texts).append(element)
+
+    # -- frame, ticks, labels, legend -------------------------------------------------------
+    def axes(self, xlabel: str, ylabel: str, title: str) -> None:
+        x0, y0, x1, y1 = self.px0, self.py0, self.px0 + self.pw, self.py0 + self.ph
+        ticks = []
+        for t in nice_ticks(*self.xlim):
+            px = self.X(t)
+            ticks.append(f"M{_num(px)},{_num(y1)}v4")
+            self.text_px(px, y1 + 6 + FONT_TICK, _tick_label(t), anchor="middle", size=FONT_TICK)
+        for t in nice_ticks(*self.ylim):
+            py = self.Y(t)
+            ticks.append(f"M{_num(x0)},{_num(py)}h-4")
+            self.text_px(x0 - 6, py, _tick_label(t), anchor="end", middle=True, size=FONT_TICK)
+        self.texts.append(f'<path d="{"".join(ticks)}" stroke="#000" stroke-width="0.8"/>')
+        self.texts.append(f'<rect x="{_num(x0)}" y="{_num(y0)}" width="{_num(self.pw)}" height="{_num(self.ph)}" '
+                          f'fill="none" stroke="#000" stroke-width="0.8"/>')
+        self.text_px(0.5 * (x0 + x1), self.height - 8, xlabel, anchor="middle", size=FONT_LABEL)
+        self.text_px(14, 0.5 * (y0 + y1), ylabel, anchor="middle", size=FONT_LABEL, rotate=True)
+        self.text_px(0.5 * self.width, 18, title, anchor="middle", size=FONT_TITLE)
+
+    def draw_legend(self, corner: str) -> None:
+        """The legend entries in a fixed corner of the plot area ("upper left" | "upper right")."""
+        if not self.legend:
+            return
+        right = corner.endswith("right")
+        step = 13.0
+        for k, e in enumerate(self.legend):
+            py = self.py0 + 10 + k * step
+            hx = self.px0 + self.pw - 26 if right else self.px0 + 8     # the 18 px handle
+            if e.fill:
+                self.texts.append(f'<rect x="{_num(hx)}" y="{_num(py - 4)}" width="18" height="8" fill="{e.fill}" '
+                                  f'fill-opacity="{e.alpha:g}"/>')
+            elif e.marker:
+                self.texts.append(self._marker_at(hx + 9, py, e.marker, 5, e.colour))
+            else:
+                self.texts.append(f'<path d="M{_num(hx)},{_num(py)}h18" fill="none"'
+                                  f'{self._stroke(e.colour, e.width, e.dash)}/>')
+            tx = hx - 5 if right else hx + 23
+            self.text_px(tx, py, e.label, anchor="end" if right else "start", middle=True, size=9)
+
+    def svg(self) -> str:
+        clip = f"{self.prefix}area"
+        defs = (f'<defs><clipPath id="{clip}"><rect x="{_num(self.px0)}" y="{_num(self.py0)}" '
+                f'width="{_num(self.pw)}" height="{_num(self.ph)}"/></clipPath>{"".join(self.defs)}</defs>')
+        return (f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {self.width} {self.height}" '
+                f'width="{self.width}" height="{self.height}" font-family="DejaVu Sans, Arial, sans-serif">'
+                f'{defs}<rect width="{self.width}" height="{self.height}" fill="#fff"/>'
+                f'<g clip-path="url(#{clip})">{"".join(self.body)}</g>{"".join(self.texts)}</svg>')
 
 
 def _material_fill(material: str) -> str:
@@ -168,6 +374,9 @@ def _material_fill(material: str) -> str:
             return colour
     return _OTHER_FILL
 
+
+# ----------------------------------------------------------------------------- what the drawings read
+# (the few result fields the drawings take beyond the typed ones, each read in one place)
 
 def _thread_length(result: JointResult) -> float | None:
     f = result.spec.fastener
@@ -185,6 +394,17 @@ def _thread_length(result: JointResult) -> float | None:
         return None
 
 
+def cone_area_kept(result: JointResult) -> float | None:
+    """The fraction of the ideal mid-grip cone area the parts offer (clipped cones), else None."""
+    cone = result.cone
+    return float(cone.area_fraction_mid_grip) if cone is not None else None
+
+
+def criterion_of(result: JointResult) -> str:
+    """The fatigue criterion the engine used (as results.json reports it)."""
+    return result.criterion
+
+
 def fastener_label(result: JointResult) -> str:
     """"M12x45 10.9" or "1/2-13 UNC x 2.5 in SAE 5" (inch fasteners keep inch lengths)."""
     f = result.spec.fastener
@@ -194,6 +414,8 @@ def fastener_label(result: JointResult) -> str:
         return f"{f.designation} x {f.length / MM_PER_INCH:.4g} in {f.grade}"
     return f"{f.designation}x{f.length:g} {f.grade}"
 
+
+# ----------------------------------------------------------------------------- the section
 
 def section_svg(result: JointResult, units: str = "SI") -> str:
     """Section through the joint axis, to scale: layers, washers, bolt, nut or tapped thread, cones.
@@ -216,14 +438,27 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
     cone_reach = d_w / 2.0 + eff / 2.0 * math.tan(alpha)
     half_width = max(spec.outside_diameter / 2.0 if spec.outside_diameter else 0.0,
                      cone_reach + 0.4 * d, 1.6 * d)
-
-    fig = _figure()
-    ax = fig.add_subplot(1, 1, 1)
     s = u.len  # model length -> shown length
+
+    # the extent first (fixed layout): head on top, the longer of bolt and stack below
+    head_h = (SOCKET_HEAD_HEIGHT if f.head == "socket" else HEX_HEAD_HEIGHT) * d
+    head_w = max((SOCKET_HEAD_WIDTH if f.head == "socket" else HEX_HEAD_WIDTH) * d, d_w)
+    stack_end = sum(layer.thickness for layer in spec.layers)
+    if f.length is not None:
+        length = f.length
+    elif spec.tapped:
+        length = clamped + (spec.engagement or d)   # a stud or unknown length: show the engagement
+    else:
+        length = stack_end + (spec.nut_height or NUT_HEIGHT * d) + f.pitch * 2.0
+    m = spec.nut_height or NUT_HEIGHT * d
+    top = head_h * 1.3
+    bottom = max(length, stack_end + (0 if spec.tapped else m)) * 1.05
+    # room on the right for the labels
+    dr = Drawing((-s(half_width) * 1.05, s(half_width) * 2.4), (-s(bottom), s(top)), equal=True)
 
     def rect(x0, z0, x1, z1, **kw):
         # z grows downward from the head bearing face; the picture has y = -z
-        ax.add_patch(Rectangle((s(x0), -s(z1)), s(x1 - x0), s(z1 - z0), **kw))
+        dr.rect(s(x0), -s(z1), s(x1), -s(z0), **kw)
 
     # layers
     z = 0.0
@@ -232,54 +467,39 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
         tapped_layer = spec.tapped and i == len(spec.layers) - 1
         if layer.role == "washer":
             outer = max(d_w, d_h) / 2.0 * 1.05
-            rect(-outer, z, -d_h / 2.0, z1, facecolor=_WASHER_FILL, edgecolor="black", lw=0.6)
-            rect(d_h / 2.0, z, outer, z1, facecolor=_WASHER_FILL, edgecolor="black", lw=0.6)
+            rect(-outer, z, -d_h / 2.0, z1, fill=_WASHER_FILL)
+            rect(d_h / 2.0, z, outer, z1, fill=_WASHER_FILL)
             label = f"washer {s(layer.thickness):.3g} {u.length}"
         else:
             inner = d / 2.0 if tapped_layer else d_h / 2.0
             fill = _material_fill(layer.material)
-            rect(-half_width, z, -inner, z1, facecolor=fill, edgecolor="black", lw=0.6)
-            rect(inner, z, half_width, z1, facecolor=fill, edgecolor="black", lw=0.6)
+            rect(-half_width, z, -inner, z1, fill=fill)
+            rect(inner, z, half_width, z1, fill=fill)
             label = f"{layer.material}, {s(layer.thickness):.3g} {u.length}"
             if layer.part:
                 label = f"{layer.part}: {label}"
             if tapped_layer:
                 label += " (tapped)"
-        ax.annotate(label, (s(half_width), -s((z + z1) / 2.0)), xytext=(4, 0), textcoords="offset points",
-                    va="center", ha="left", fontsize=7)
+        dr.note(s(half_width), -s((z + z1) / 2.0), label, dx=4, middle=True)
         z = z1
-    stack_end = z
 
     # bolt: head above the bearing face, shank and thread below
-    head_h = (SOCKET_HEAD_HEIGHT if f.head == "socket" else HEX_HEAD_HEIGHT) * d
-    head_w = max((SOCKET_HEAD_WIDTH if f.head == "socket" else HEX_HEAD_WIDTH) * d, d_w)
-    rect(-head_w / 2.0, -head_h, head_w / 2.0, 0.0, facecolor=_HARDWARE_FILL, edgecolor="black", lw=0.6)
-    if f.length is not None:
-        length = f.length
-    elif spec.tapped:
-        length = clamped + (spec.engagement or d)   # a stud or unknown length: show the engagement
-    else:
-        length = stack_end + (spec.nut_height or NUT_HEIGHT * d) + f.pitch * 2.0
-    rect(-d / 2.0, 0.0, d / 2.0, length, facecolor="#7d8694", edgecolor="black", lw=0.6)
+    rect(-head_w / 2.0, -head_h, head_w / 2.0, 0.0, fill=_HARDWARE_FILL)
+    rect(-d / 2.0, 0.0, d / 2.0, length, fill=_SHANK_FILL)
     l_t = _thread_length(result)
     if l_t is not None and l_t > 0:
-        rect(-d / 2.0, max(length - l_t, 0.0), d / 2.0, length, facecolor="none", edgecolor="black",
-             lw=0.4, hatch="////")
+        rect(-d / 2.0, max(length - l_t, 0.0), d / 2.0, length, fill="none", width=0.4, hatch="/")
 
     # nut (through joint) or the engaged thread in the tapped part
     if spec.tapped:
         engaged_end = min(length, stack_end)
-        rect(-d / 2.0 - f.pitch * 0.6, clamped, -d / 2.0, engaged_end, facecolor="none", edgecolor="black",
-             lw=0.4, hatch="xxx")
-        rect(d / 2.0, clamped, d / 2.0 + f.pitch * 0.6, engaged_end, facecolor="none", edgecolor="black",
-             lw=0.4, hatch="xxx")
+        rect(-d / 2.0 - f.pitch * 0.6, clamped, -d / 2.0, engaged_end, fill="none", width=0.4, hatch="x")
+        rect(d / 2.0, clamped, d / 2.0 + f.pitch * 0.6, engaged_end, fill="none", width=0.4, hatch="x")
     else:
-        m = spec.nut_height or NUT_HEIGHT * d
         nut_w = max(NUT_WIDTH * d, d_wf)
-        rect(-nut_w / 2.0, stack_end, -d / 2.0, stack_end + m, facecolor=_HARDWARE_FILL, edgecolor="black", lw=0.6)
-        rect(d / 2.0, stack_end, nut_w / 2.0, stack_end + m, facecolor=_HARDWARE_FILL, edgecolor="black", lw=0.6)
-        ax.annotate("nut", (s(nut_w / 2.0), -s(stack_end + m / 2.0)), xytext=(4, 0), textcoords="offset points",
-                    va="center", fontsize=7)
+        rect(-nut_w / 2.0, stack_end, -d / 2.0, stack_end + m, fill=_HARDWARE_FILL)
+        rect(d / 2.0, stack_end, nut_w / 2.0, stack_end + m, fill=_HARDWARE_FILL)
+        dr.note(s(nut_w / 2.0), -s(stack_end + m / 2.0), "nut", dx=4, middle=True)
 
     # the two pressure cones (outline and a translucent fill between hole and cone)
     mid = eff / 2.0
@@ -289,27 +509,21 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
         near = [(sign * d_h / 2.0, 0.0), (sign * d_w / 2.0, 0.0), (sign * r_mid_near, mid), (sign * d_h / 2.0, mid)]
         far = [(sign * d_h / 2.0, mid), (sign * r_mid_far, mid), (sign * d_wf / 2.0, eff), (sign * d_h / 2.0, eff)]
         for poly in (near, far):
-            ax.add_patch(Polygon([(s(x), -s(zz)) for x, zz in poly], closed=True, facecolor=CONE_COLOUR,
-                                 alpha=0.18, edgecolor=CONE_COLOUR, lw=1.0, ls="--"))
-    ax.plot([0, 0], [s(head_h * 1.3), -s(max(length, stack_end) * 1.05)], color="black", lw=0.5, ls="-.")
-    cone = result.cone
-    if cone is not None:
+            dr.polygon([(s(x), -s(zz)) for x, zz in poly], fill=CONE_COLOUR, opacity=0.18, stroke=CONE_COLOUR,
+                       width=1.0, dash="4 2")
+    dr.line([0, 0], [s(head_h * 1.3), -s(max(length, stack_end) * 1.05)], colour="#000", width=0.5,
+            dash="6 2 1 2")
+    kept = cone_area_kept(result)
+    if kept is not None:
         # the geometry clipped the cones: say how much of the mid-grip area the parts really offer
-        ax.annotate(f"cone area kept at mid-grip: {100.0 * cone.area_fraction_mid_grip:.0f} %",
-                    (s(half_width), -s(mid)), xytext=(4, -12), textcoords="offset points", fontsize=7,
-                    color=CONE_COLOUR)
+        dr.note(s(half_width), -s(mid), f"cone area kept at mid-grip: {100.0 * kept:.0f} %", dx=4, dy=-12,
+                colour=CONE_COLOUR)
+    dr.axes(f"radius [{u.length}]", f"from head bearing face [{u.length}]",
+            f"{result.id}: {fastener_label(result)}, cones {spec.cone_angle:g}\N{DEGREE SIGN}")
+    return dr.svg()
 
-    top = head_h * 1.3
-    bottom = max(length, stack_end + (0 if spec.tapped else (spec.nut_height or NUT_HEIGHT * d))) * 1.05
-    ax.set_xlim(-s(half_width) * 1.05, s(half_width) * 2.4)   # room on the right for the labels
-    ax.set_ylim(-s(bottom), s(top))
-    ax.set_aspect("equal")
-    ax.set_xlabel(f"radius [{u.length}]", fontsize=8)
-    ax.set_ylabel(f"from head bearing face [{u.length}]", fontsize=8)
-    ax.tick_params(labelsize=7)
-    ax.set_title(f"{result.id}: {fastener_label(result)}, cones {spec.cone_angle:g}\N{DEGREE SIGN}", fontsize=9)
-    return _svg(fig)
 
+# ----------------------------------------------------------------------------- the joint diagram
 
 def joint_diagram_points(result: JointResult) -> dict[str, float]:
     """Corner points of the joint diagram, internal units (N, mm).
@@ -347,48 +561,38 @@ def joint_diagram_svg(result: JointResult, units: str = "SI") -> str:
     F_i = result.preload
     L = u.len
     F = u.fp
-    fig = _figure()
-    ax = fig.add_subplot(1, 1, 1)
     top = max(p["bolt_force"], F_i)
     window = result.tightening or {}
-    if "preload_min" in window and "preload_max" in window and window["preload_max"] > window["preload_min"]:
+    has_window = "preload_min" in window and "preload_max" in window and window["preload_max"] > window["preload_min"]
+    if has_window:
         top = max(top, window["preload_max"])
-        ax.axhspan(F(window["preload_min"]), F(window["preload_max"]), color=WINDOW_COLOUR, alpha=0.35,
-                   label="preload window (scatter)")
     end_bolt = max(p["delta_load"], p["delta_b"]) * 1.15
-    ax.plot([0, L(end_bolt)], [0, F(result.bolt_stiffness * end_bolt)], color=BOLT_COLOUR, lw=1.8,
+    dr = Drawing((0.0, L(max(end_bolt, p["delta_b"] + p["delta_m"]) * 1.3)), (0.0, F(top) * 1.25))
+    if has_window:
+        dr.span(F(window["preload_min"]), F(window["preload_max"]), WINDOW_COLOUR, 0.35,
+                label="preload window (scatter)")
+    dr.line([0, L(end_bolt)], [0, F(result.bolt_stiffness * end_bolt)], colour=BOLT_COLOUR, width=1.8,
             label=f"bolt, k_b = {u.k(result.bolt_stiffness):.4g} {u.stiffness}")
-    ax.plot([L(p["delta_b"]), L(p["delta_b"] + p["delta_m"])], [F(F_i), 0], color=MEMBER_COLOUR, lw=1.8,
-            ls="--", label=f"members, k_m = {u.k(result.member_stiffness):.4g} {u.stiffness}")
-    ax.plot([L(p["delta_b"])], [F(F_i)], "o", color=LOAD_COLOUR, ms=4)
-    ax.annotate(f"F_i = {F(F_i):.4g} {u.force_plot}", (L(p["delta_b"]), F(F_i)), xytext=(-6, 6),
-                textcoords="offset points", ha="right", fontsize=7)
+    dr.line([L(p["delta_b"]), L(p["delta_b"] + p["delta_m"])], [F(F_i), 0], colour=MEMBER_COLOUR, width=1.8,
+            dash="6 3", label=f"members, k_m = {u.k(result.member_stiffness):.4g} {u.stiffness}")
+    dr.marker(L(p["delta_b"]), F(F_i), "o", 4, LOAD_COLOUR)
+    dr.note(L(p["delta_b"]), F(F_i), f"F_i = {F(F_i):.4g} {u.force_plot}", dx=-6, dy=6, anchor="end")
     P = result.spec.load_max
     if P > 0:
         x = L(p["delta_load"])
-        ax.plot([x, x], [F(p["member_force"]), F(p["bolt_force"])], color=LOAD_COLOUR, lw=2.2,
+        dr.line([x, x], [F(p["member_force"]), F(p["bolt_force"])], colour=LOAD_COLOUR, width=2.2,
                 label=f"P_max = {F(P):.4g} {u.force_plot}")
-        ax.annotate(f"bolt {F(p['bolt_force']):.4g}", (x, F(p["bolt_force"])), xytext=(6, 2),
-                    textcoords="offset points", fontsize=7)
-        ax.annotate(f"members {F(p['member_force']):.4g}", (x, F(p["member_force"])),
-                    xytext=(6, -8), textcoords="offset points", fontsize=7)
+        dr.note(x, F(p["bolt_force"]), f"bolt {F(p['bolt_force']):.4g}", dx=6, dy=2)
+        dr.note(x, F(p["member_force"]), f"members {F(p['member_force']):.4g}", dx=6, dy=-8)
         if p["separating"]:
-            ax.annotate("joint separates", (x, 0), xytext=(6, 4), textcoords="offset points", fontsize=7,
-                        color=MEMBER_COLOUR)
-    ax.set_xlim(0, L(max(end_bolt, p["delta_b"] + p["delta_m"]) * 1.3))   # room for the labels
-    ax.set_ylim(0, F(top) * 1.25)
-    ax.set_xlabel(f"elongation (bolt) / compression (members) [{u.length}]", fontsize=8)
-    ax.set_ylabel(f"force [{u.force_plot}]", fontsize=8)
-    ax.tick_params(labelsize=7)
-    ax.legend(fontsize=6.5, loc="upper left", frameon=False)
-    ax.set_title(f"{result.id}: joint diagram, C = {result.joint_constant:.3f}", fontsize=9)
-    return _svg(fig)
+            dr.note(x, 0, "joint separates", dx=6, dy=4, colour=MEMBER_COLOUR)
+    dr.axes(f"elongation (bolt) / compression (members) [{u.length}]", f"force [{u.force_plot}]",
+            f"{result.id}: joint diagram, C = {result.joint_constant:.3f}")
+    dr.draw_legend("upper left")
+    return dr.svg()
 
 
-def criterion_of(result: JointResult) -> str:
-    """The fatigue criterion the engine used (as results.json reports it)."""
-    return result.criterion
-
+# ----------------------------------------------------------------------------- the fatigue diagram
 
 def criterion_curve(criterion: str, Se: float, S_ut: float, S_p: float, S_y: float,
                     n: int = 101) -> tuple[list[float], list[float]]:
@@ -415,6 +619,10 @@ def criterion_curve(criterion: str, Se: float, S_ut: float, S_p: float, S_y: flo
     return xs, ys
 
 
+#: points of a curved criterion in the drawing (straight ones need two)
+CURVE_POINTS = 61
+
+
 def _criterion_end(criterion: str, f) -> float:
     return {"goodman": f.tensile, "gerber": f.tensile, "asme-elliptic": f.proof, "soderberg": f.yield_strength,
             "vdi": f.proof}[criterion]
@@ -433,39 +641,46 @@ def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
     if crit not in _CURVE_NAMES:
         crit = "goodman"   # an unknown name must not break the report; the table names the real one
     S = u.s
-    fig = _figure()
-    ax = fig.add_subplot(1, 1, 1)
-    xs, ys = criterion_curve(crit, result.Se, f.tensile, f.proof, f.yield_strength)
-    ax.plot([S(x) for x in xs], [S(y) for y in ys], color=MEMBER_COLOUR, lw=1.8,
+    sa, sm, si = result.sigma_a, result.sigma_m, result.sigma_i
+    right = max(f.tensile, f.proof, sm) * 1.05
+    dr = Drawing((0.0, S(right)), (0.0, S(max(result.Se, sa) * 1.6)))
+    straight = crit in ("goodman", "soderberg", "vdi")
+    xs, ys = criterion_curve(crit, result.Se, f.tensile, f.proof, f.yield_strength,
+                             n=2 if straight else CURVE_POINTS)
+    dr.line([S(x) for x in xs], [S(y) for y in ys], colour=MEMBER_COLOUR, width=1.8,
             label=f"{_CURVE_NAMES[crit]} (S_e = {S(result.Se):.4g}, {_CURVE_ENDS[crit]} = "
                   f"{S(_criterion_end(crit, f)):.4g})")
     # proof line S_a + S_m = S_p: the first-cycle limit (Shigley 10th ed., Sec. 8-11)
-    ax.plot([0, S(f.proof)], [S(f.proof), 0], color="#777777", lw=0.9, ls=":", label="proof line S_a + S_m = S_p")
-    sa, sm, si = result.sigma_a, result.sigma_m, result.sigma_i
+    dr.line([0, S(f.proof)], [S(f.proof), 0], colour="#777777", width=0.9, dash="1 2",
+            label="proof line S_a + S_m = S_p")
     if sa > 0 and result.n_f is not None and math.isfinite(result.n_f):
         # VDI: strength straight above the operating point; textbook: along the load line from sigma_i
         r = 0.0 if crit == "vdi" else (sm - si) / sa
         Sa = result.n_f * sa
         Sm = sm if crit == "vdi" else si + r * Sa
         if crit == "vdi":
-            ax.plot([S(sm), S(sm)], [S(sa), S(Sa)], color=BOLT_COLOUR, lw=1.2, ls="--", label="margin to σ_AS")
+            dr.line([S(sm), S(sm)], [S(sa), S(Sa)], colour=BOLT_COLOUR, width=1.2, dash="5 3",
+                    label="margin to σ_AS")
         else:
-            ax.plot([S(si), S(Sm)], [0, S(Sa)], color=BOLT_COLOUR, lw=1.2, ls="--", label="load line from σ_i")
-        ax.plot([S(Sm)], [S(Sa)], "s", color=BOLT_COLOUR, ms=4)
-        ax.annotate(f"strength S_a = {S(Sa):.3g}", (S(Sm), S(Sa)), xytext=(6, 4), textcoords="offset points",
-                    fontsize=7)
-    ax.plot([S(sm)], [S(sa)], "o", color=LOAD_COLOUR, ms=5, label="operating point (σ_m, σ_a)")
-    ax.annotate(f"n_f = {result.n_f:.3g}" if result.n_f is not None else "n_f unbounded", (S(sm), S(sa)),
-                xytext=(-6, -10), textcoords="offset points", ha="right", fontsize=7)
-    right = max(f.tensile, f.proof, sm) * 1.05
-    ax.set_xlim(0, S(right))
-    ax.set_ylim(0, S(max(result.Se, sa) * 1.6))
-    ax.set_xlabel(f"mean stress σ_m [{u.stress}]", fontsize=8)
-    ax.set_ylabel(f"alternating stress σ_a [{u.stress}]", fontsize=8)
-    ax.tick_params(labelsize=7)
-    ax.legend(fontsize=6.5, loc="upper right", frameon=False)
-    ax.set_title(f"{result.id}: fatigue ({crit})", fontsize=9)
-    return _svg(fig)
+            dr.line([S(si), S(Sm)], [0, S(Sa)], colour=BOLT_COLOUR, width=1.2, dash="5 3",
+                    label="load line from σ_i")
+        dr.marker(S(Sm), S(Sa), "s", 4, BOLT_COLOUR)
+        dr.note(S(Sm), S(Sa), f"strength S_a = {S(Sa):.3g}", dx=6, dy=4)
+    dr.marker(S(sm), S(sa), "o", 5, LOAD_COLOUR, label="operating point (σ_m, σ_a)")
+    dr.note(S(sm), S(sa), f"n_f = {result.n_f:.3g}" if result.n_f is not None else "n_f unbounded",
+            dx=-6, dy=-10, anchor="end")
+    dr.axes(f"mean stress σ_m [{u.stress}]", f"alternating stress σ_a [{u.stress}]",
+            f"{result.id}: fatigue ({crit})")
+    dr.draw_legend("upper right")
+    return dr.svg()
+
+
+# ----------------------------------------------------------------------------- the overview
+
+#: size of the overview picture, px, and its margins (left, right, top, bottom)
+OVERVIEW_SIZE = (700, 500)
+OVERVIEW_MARGINS = (56, 14, 30, 40)
+_JOINT_MARKERS = {"pass": "o", "marginal": "s", "fail": "x"}
 
 
 def overview_svg(overview, verdicts: dict[str, str]) -> str:
@@ -473,21 +688,32 @@ def overview_svg(overview, verdicts: dict[str, str]) -> str:
 
     ``overview`` is a :class:`geomjoint.geometry.overview.Overview` (plain arrays); ``verdicts``
     maps joint id to "pass" | "marginal" | "fail".  The verdict is also written beside the id
-    (never colour alone).
+    (never colour alone), and the marker differs by verdict (circle, square, cross).
     """
-    fig = Figure(figsize=(7.0, 5.0))
-    fig.subplots_adjust(left=0.08, right=0.98, bottom=0.08, top=0.92)
-    ax = fig.add_subplot(1, 1, 1)
-    for name, poly in overview.outlines:
-        ax.fill(poly[:, 0], poly[:, 1], facecolor="#eef0f3", edgecolor="#5b6470", linewidth=0.6, alpha=0.6)
-    marker = {"pass": "o", "marginal": "s", "fail": "X"}
-    for jid, u, v in overview.joints:
+    xs = [float(x) for _, poly in overview.outlines for x in poly[:, 0]] + [u for _, u, _ in overview.joints]
+    ys = [float(y) for _, poly in overview.outlines for y in poly[:, 1]] + [v for _, _, v in overview.joints]
+    if not xs:
+        xs, ys = [0.0, 1.0], [0.0, 1.0]
+    pad = 0.05 * max(max(xs) - min(xs), max(ys) - min(ys), 1.0)
+    dr = Drawing((min(xs) - pad, max(xs) + pad), (min(ys) - pad, max(ys) + pad), width=OVERVIEW_SIZE[0],
+                 height=OVERVIEW_SIZE[1], margins=OVERVIEW_MARGINS, equal=True)
+    for _name, poly in overview.outlines:
+        dr.polygon([(float(x), float(y)) for x, y in poly], fill="#eef0f3", stroke="#5b6470", opacity=0.6)
+    for jid, x, y in overview.joints:
         verdict = verdicts.get(jid, "fail")
-        ax.plot([u], [v], marker=marker.get(verdict, "o"), markersize=9, linestyle="none",
-                color=VERDICT_COLOURS.get(verdict, "#000000"), markeredgecolor="#000000", markeredgewidth=0.6)
-        ax.annotate(f"{jid} {verdict.upper()}", (u, v), textcoords="offset points",
-                    xytext=(7, 5), fontsize=7)
-    ax.set_aspect("equal", adjustable="datalim")
-    ax.set_xlabel("mm")
-    ax.set_title("model seen along the bolt axes", fontsize=9)
-    return _svg(fig)
+        colour = VERDICT_COLOURS.get(verdict, "#000000")
+        px, py, r = dr.X(x), dr.Y(y), 4.5
+        shape = _JOINT_MARKERS.get(verdict, "o")
+        if shape == "x":
+            dr.body.append(f'<path d="M{_num(px - r)},{_num(py - r)}l{_num(2 * r)},{_num(2 * r)}'
+                           f'M{_num(px - r)},{_num(py + r)}l{_num(2 * r)},{_num(-2 * r)}" stroke="{colour}" '
+                           f'stroke-width="3"/>')
+        elif shape == "s":
+            dr.body.append(f'<rect x="{_num(px - r)}" y="{_num(py - r)}" width="{_num(2 * r)}" '
+                           f'height="{_num(2 * r)}" fill="{colour}" stroke="#000" stroke-width="0.6"/>')
+        else:
+            dr.body.append(f'<circle cx="{_num(px)}" cy="{_num(py)}" r="{_num(r)}" fill="{colour}" '
+                           f'stroke="#000" stroke-width="0.6"/>')
+        dr.note(x, y, f"{jid} {verdict.upper()}", dx=7, dy=5, size=9)
+    dr.axes("mm", "mm", "model seen along the bolt axes")
+    return dr.svg()

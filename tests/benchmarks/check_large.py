@@ -1,21 +1,29 @@
-"""Whole-model check time against the bare STEP import (prints numbers; not a test).
+"""Whole-model `check`, every output written, against the bare import + tessellation (prints numbers; not a test).
 
-    python tests/benchmarks/check_large.py [N ...]        # default: 100 200 400 joints
+    python tests/benchmarks/check_large.py [N ...] [--repeat 3] [--workers 1]   # default: 100 200 400 joints
 
-Builds a frame of two 12 mm steel plates joined by N M10 hex bolts with washers and nuts
+Builds a machine bed of two 12 mm steel plates joined by N M10 hex bolts with washers and nuts
 (all hardware modelled, one bolt/nut/washer shape placed N times), writes it to STEP in a
-temporary folder and prints:
-  import s   bare STEP import through OCP (XCAF) + tessellation of every part
-  scan s     `geomjoint scan` (holes, stacks, hardware, findings)
-  check s    `geomjoint check` with member_stiffness = "cone" (clipped cones), 1 worker
-  ratios     scan/import and check/import, and the growth of check time from the previous N
-  peak MB    peak resident memory of this process so far
+temporary folder, and for each N runs, alternating, ``--repeat`` times:
+
+  import   the reference: cadquery's importStep + tessellate of the whole model (the
+           triangles of every placed part, as a viewer needs them), GLB tolerance
+  xcaf     geomjoint's own reader (XCAF: names, colours, placements) + BRepMesh of every part
+  check    ``checkrun.run_check`` with member_stiffness = "cone": analysis and every output
+           rendered to bytes (results.json, report.txt, report.html, marked-up STEP and GLB),
+           then written to a new folder
+
+and prints the medians: the scan alone, the analysis (which scans the file itself), each
+output's time and size, the whole check, the check/import ratio, the cost per joint and its
+growth from the previous N (1.00 = linear), and the peak resident memory of the process.
+The ratio is measured in one run, alternating, so a busy machine slows both sides alike.
 """
 from __future__ import annotations
 
+import argparse
 import math
 import resource
-import sys
+import statistics
 import tempfile
 import time
 from pathlib import Path
@@ -74,7 +82,23 @@ axial = {{ min = "0 kN", max = "4 kN" }}
 """
 
 
-def bare_import(path: Path) -> float:
+def _tolerance(n: int) -> float:
+    """The GLB's linear deflection for this bed (so both sides mesh alike)."""
+    from geomjoint.geometry.glb import tessellation_tolerance
+
+    side = math.ceil(math.sqrt(n)) * PITCH
+    return tessellation_tolerance(math.sqrt(2 * side ** 2 + (2 * PLATE + 40.0) ** 2))
+
+
+def bare_import(path: Path, tolerance: float) -> float:
+    """cadquery's importStep and the triangles of the whole model."""
+    start = time.perf_counter()
+    shape = cq.importers.importStep(str(path)).val()
+    shape.tessellate(tolerance, 0.3)
+    return time.perf_counter() - start
+
+
+def xcaf_import(path: Path, tolerance: float) -> float:
     from OCP.BRepMesh import BRepMesh_IncrementalMesh
 
     from geomjoint.geometry.model import load_model
@@ -82,38 +106,84 @@ def bare_import(path: Path) -> float:
     start = time.perf_counter()
     model = load_model(path)
     for part in model.parts:
-        BRepMesh_IncrementalMesh(part.solid, 0.1, False, 0.5, True)
+        BRepMesh_IncrementalMesh(part.solid, tolerance, False, 0.3, True)
     return time.perf_counter() - start
 
 
-def main(counts: list[int]) -> None:
-    from geomjoint.analysis import analyze_job
-    from geomjoint.geometry.scan import scan_model
-    from geomjoint.job import parse_job
+def one_check(job: Path, out: Path, workers: int) -> tuple[float, dict[str, float], dict[str, int]]:
+    from geomjoint.checkrun import run_check
+    from geomjoint.outputs import new_output_folder, write_atomic
 
-    print(f"{'joints':>6} {'import s':>9} {'scan s':>8} {'check s':>8} {'scan/imp':>9} {'check/imp':>10} "
-          f"{'growth':>7} {'peak MB':>8}")
-    previous = None
-    for n in counts:
+    start = time.perf_counter()
+    run = run_check(job, workers=workers)
+    folder = new_output_folder(out, "bench")
+    for name, data in run.files.items():
+        write_atomic(folder / name, data)
+    total = time.perf_counter() - start
+    sizes = {name: len(data) for name, data in run.files.items()}
+    return total, dict(getattr(run, "timings", {}) or {}), sizes
+
+
+def _kind(name: str) -> str:
+    return "step" if name.endswith(".step") else "glb" if name.endswith(".glb") else name
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser()
+    ap.add_argument("counts", nargs="*", type=int, default=[100, 200, 400])
+    ap.add_argument("--repeat", type=int, default=3)
+    ap.add_argument("--workers", type=int, default=1)
+    args = ap.parse_args()
+    from geomjoint.geometry.scan import scan_model
+
+    rows = []
+    for n in args.counts:
         with tempfile.TemporaryDirectory() as tmp:
             path = Path(tmp) / f"frame{n}.step"
             frame(n).export(str(path))
-            t_import = bare_import(path)
-            start = time.perf_counter()
-            scan = scan_model(path)
-            t_scan = time.perf_counter() - start
-            job = parse_job(JOB.format(model=path.as_posix()), Path(tmp) / "frame.toml")
-            start = time.perf_counter()
-            results = analyze_job(job, workers=1).results   # the whole check: it scans the file itself
-            t_check = time.perf_counter() - start
-            assert len(results) == n == len(scan.joints), (len(results), n, len(scan.joints))
-        growth = f"{t_check / previous[1] / (n / previous[0]):.2f}" if previous else "-"
+            job = Path(tmp) / "frame.toml"
+            job.write_text(JOB.format(model=path.as_posix()), encoding="utf-8")
+            tol = _tolerance(n)
+            t_imp, t_xcaf, t_scan, t_check, stages, sizes = [], [], [], [], {}, {}
+            for _ in range(args.repeat):
+                t_imp.append(bare_import(path, tol))
+                t_xcaf.append(xcaf_import(path, tol))
+                start = time.perf_counter()
+                scan = scan_model(path)
+                t_scan.append(time.perf_counter() - start)
+                assert len(scan.joints) == n, (len(scan.joints), n)
+                total, timings, sizes = one_check(job, Path(tmp), args.workers)
+                t_check.append(total)
+                for key, value in timings.items():
+                    stages.setdefault(key, []).append(value)
+            med = statistics.median
+            rows.append((n, med(t_imp), med(t_xcaf), med(t_scan), med(t_check),
+                         {k: med(v) for k, v in stages.items()}, sizes, path.stat().st_size))
         peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
-        print(f"{n:>6} {t_import:>9.2f} {t_scan:>8.2f} {t_check:>8.2f} {t_scan / t_import:>9.2f} "
-              f"{t_check / t_import:>10.2f} {growth:>7} {peak:>8.0f}")
-        previous = (n, t_check)
-    print("growth: check time ratio divided by the joint-count ratio (1.00 = linear)")
+        n, imp, xcaf, scan_s, check, st, sz, input_size = rows[-1]
+        print(f"\n== {n} joints (median of {args.repeat}, workers {args.workers}; input STEP {input_size / 1e6:.2f} MB)")
+        print(f"  import (cadquery + tessellate) {imp:8.2f} s")
+        print(f"  xcaf import + mesh             {xcaf:8.2f} s")
+        print(f"  scan                           {scan_s:8.2f} s")
+        for key, value in st.items():
+            size = sum(v for name, v in sz.items() if _kind(name) == key)
+            shown = f"{size / 1e6:8.2f} MB" if size else ""
+            print(f"  {key:<30} {value:8.2f} s {shown}")
+        for name, v in sz.items():
+            if _kind(name) not in st:
+                print(f"  {name:<30} {'':>8}   {v / 1e6:8.2f} MB")
+        print(f"  whole check (written)          {check:8.2f} s")
+        print(f"  check/import                   {check / imp:8.2f}")
+        print(f"  check per joint                {1000 * check / n:8.1f} ms")
+        print(f"  peak memory                    {peak:8.0f} MB")
+    print("\n joints  import s  check s  check/imp  ms/joint  growth")
+    previous = None
+    for n, imp, _x, _s, check, *_ in rows:
+        growth = f"{(check / n) / (previous[1] / previous[0]):.2f}" if previous else "-"
+        print(f"{n:>7} {imp:>9.2f} {check:>8.2f} {check / imp:>10.2f} {1000 * check / n:>9.1f} {growth:>7}")
+        previous = (n, check)
+    print("growth: cost per joint against the previous N (1.00 = flat)")
 
 
 if __name__ == "__main__":
-    main([int(a) for a in sys.argv[1:]] or [100, 200, 400])
+    main()
