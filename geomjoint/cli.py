@@ -58,6 +58,8 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--out", type=Path, help="output folder (default: a new folder beside the job)")
     p.add_argument("--json", action="store_true", help="print the result JSON document on stdout")
     p.add_argument("--workers", type=int, default=0, help="processes for model joints (default: all cores)")
+    p.add_argument("--outputs", metavar="KINDS",
+                   help="outputs to write, comma-separated from json,text,html,step,glb (default: all)")
     p.add_argument("--scheduler", metavar="ADDRESS",
                    help="run the job files on a Dask cluster (tcp://host:port; needs geomjoint[cluster])")
 
@@ -90,10 +92,11 @@ def _report(run, folder: Path, as_json: bool) -> None:
         sys.stdout.write(f"outputs: {folder}\n")
 
 
-def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None) -> int:
-    from geomjoint.checkrun import run_check
+def _run_check(job_path: Path, out: Path | None, as_json: bool, workers: int, beside: Path | None = None,
+               outputs: str | None = None) -> int:
+    from geomjoint.checkrun import parse_outputs, run_check
 
-    run = run_check(job_path, workers=workers, quiet=as_json, version=version())
+    run = run_check(job_path, workers=workers, quiet=as_json, version=version(), outputs=parse_outputs(outputs))
     _report(run, _write_run(run, out, beside), as_json)
     return EXIT_FAIL if run.failed else EXIT_OK
 
@@ -137,11 +140,14 @@ def _dispatch(args: argparse.Namespace) -> int:
         return _scan(args.model, args.json)
     if args.command == "check":
         if args.scheduler:
+            if args.outputs:
+                raise InputError("--outputs is for a local check; a cluster run writes every output",
+                                 where="--outputs")
             return _check_on_cluster(args.jobs, args.out, args.json, args.scheduler)
         worst = EXIT_OK
         for job in args.jobs:
             out = args.out / job.stem if (args.out and len(args.jobs) > 1) else args.out
-            worst = max(worst, _run_check(job, out, args.json, args.workers))
+            worst = max(worst, _run_check(job, out, args.json, args.workers, outputs=args.outputs))
         return worst
     if args.command == "demo":
         # The demo shows failing and marginal joints on purpose; it exits 0 when it ran.

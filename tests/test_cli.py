@@ -133,3 +133,22 @@ def test_supervisor_passes_the_exit_code_through(tmp_path, capfd):
     job.write_text(PASSING)
     assert cli.entry(["check", str(job), "--out", str(tmp_path / "o")]) == 0
     assert cli.entry(["check", str(tmp_path / "missing.toml")]) == 2
+
+
+def test_outputs_option_writes_only_the_kinds_asked_for(tmp_path, capsys):
+    job = SAMPLES / "conveyor_drive.toml"
+    assert main(["check", str(job), "--out", str(tmp_path / "all"), "--workers", "1"]) == 1
+    assert main(["check", str(job), "--out", str(tmp_path / "json"), "--workers", "1", "--outputs", "json"]) == 1
+    assert main(["check", str(job), "--out", str(tmp_path / "two"), "--workers", "1",
+                 "--outputs", "html, glb"]) == 1
+    everything = sorted(p.name for p in (tmp_path / "all").iterdir())
+    assert everything == sorted(["results.json", "report.txt", "report.html", "conveyor_bracket-checked.step",
+                                 "conveyor_bracket-checked.glb"])
+    assert sorted(p.name for p in (tmp_path / "json").iterdir()) == ["results.json"]
+    assert sorted(p.name for p in (tmp_path / "two").iterdir()) == ["conveyor_bracket-checked.glb", "report.html"]
+    # the verdicts are the same whichever outputs are written
+    assert (tmp_path / "json" / "results.json").read_text() == (tmp_path / "all" / "results.json").read_text()
+    capsys.readouterr()
+    assert main(["check", str(job), "--out", str(tmp_path / "bad"), "--outputs", "json,pdf"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--outputs" in err[0] and "pdf" in err[0]
