@@ -506,17 +506,22 @@ def _labelled(svg: str, label: str) -> str:
     return svg.replace("<svg ", f'<svg role="img" aria-label="{_e(label)}" ', 1)
 
 
+#: what each drawing shows: its short accessible name and its caption
+_FIGURES = (
+    ("section drawing", "Section through the axis, to scale: layers, bolt, washers, nut or tapped thread, "
+                        "and the two pressure cones (dashed)."),
+    ("joint diagram", "Joint diagram: bolt (solid) and members (dashed); the bar is P_max split into the bolt "
+                      "rise C·P and the member relief."),
+    ("fatigue diagram", "Fatigue diagram of the joint's criterion with the load line from the preload stress "
+                        "and the operating point."),
+)
+
+
 def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
-    figs = [
-        (plots.section_svg(r, u.system), "Section through the axis, to scale: layers, bolt, washers, "
-                                          "nut or tapped thread, and the two pressure cones (dashed)."),
-        (plots.joint_diagram_svg(r, u.system), "Joint diagram: bolt (solid) and members (dashed); the bar is "
-                                                "P_max split into the bolt rise C·P and the member relief."),
-        (plots.fatigue_diagram_svg(r, u.system), "Fatigue diagram of the joint's criterion with the load line "
-                                                  "from the preload stress and the operating point."),
-    ]
-    fig_html = "".join(f'<figure>{_labelled(svg, cap)}<figcaption>{_e(cap)}</figcaption></figure>'
-                       for svg, cap in figs)
+    svgs = (plots.section_svg(r, u.system), plots.joint_diagram_svg(r, u.system),
+            plots.fatigue_diagram_svg(r, u.system))
+    fig_html = "".join(f'<figure>{_labelled(svg, f"{name} of {r.id}")}<figcaption>{_e(cap)}</figcaption></figure>'
+                       for svg, (name, cap) in zip(svgs, _FIGURES))
     return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}"><details>'
             f'<summary><h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2></summary>'
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'

@@ -33,6 +33,8 @@ MARGINS = (62, 14, 30, 44)
 FONT_NOTE, FONT_TICK, FONT_LABEL, FONT_TITLE = 10, 10, 11, 12
 #: one typographic point in px at the 100 px/in of the drawings (1 pt = 1/72 in)
 PT = 100.0 / 72.0
+#: the drawings' typeface (sans-serif, as on a printed drawing)
+FONT_FAMILY = "DejaVu Sans, Arial, sans-serif"
 #: about how many ticks an axis gets
 TICKS = 6
 
@@ -199,6 +201,7 @@ class Drawing:
     defs: list[str] = field(default_factory=list)
     legend: list[_Entry] = field(default_factory=list)
     texts: list[str] = field(default_factory=list)    # drawn over the plot area, never clipped
+    labels: dict = field(default_factory=dict)        # text elements grouped by their style (one <g> each)
 
     def __post_init__(self) -> None:
         self.prefix = self.prefix or f"g{next(_drawing_counter)}-"
@@ -243,7 +246,7 @@ class Drawing:
     def line(self, xs, ys, colour: str, width: float = 1.5, dash: str | None = None,
              label: str | None = None) -> None:
         self.body.append(f'<polyline points="{self._points(zip(xs, ys))}" fill="none"'
-                         f'{self._stroke(colour, width, dash)} stroke-linejoin="round"/>')
+                         f'{self._stroke(colour, width, dash)}/>')
         if label:
             self.legend.append(_Entry(label, colour, width, dash))
 
@@ -304,19 +307,22 @@ class Drawing:
     def text_px(self, px: float, py: float, text: str, anchor: str = "start", middle: bool = False,
                 colour: str | None = None, size: float = FONT_NOTE, rotate: bool = False,
                 clipped: bool = False, bold: bool = False) -> None:
-        attrs = f' font-size="{size:g}"'
+        # the style goes on a group shared by every text of that style (a smaller file)
+        style = f' font-size="{size:g}"'
         if anchor != "start":
-            attrs += f' text-anchor="{anchor}"'
+            style += f' text-anchor="{anchor}"'
         if middle:
-            attrs += ' dominant-baseline="central"'
+            style += ' dominant-baseline="central"'
         if colour:
-            attrs += f' fill="{colour}"'
+            style += f' fill="{colour}"'
         if bold:
-            attrs += ' font-weight="bold"'
-        if rotate:
-            attrs += f' transform="rotate(-90 {_num(px)} {_num(py)})"'
-        element = f'<text x="{_num(px)}" y="{_num(py)}"{attrs}>{html.escape(text, quote=False)}</text>'
-        (self.body if clipped else self.texts).append(element)
+            style += ' font-weight="bold"'
+        own = f' transform="rotate(-90 {_num(px)} {_num(py)})"' if rotate else ""
+        element = f'<text x="{_num(px)}" y="{_num(py)}"{own}>{html.escape(text, quote=False)}</text>'
+        if clipped:
+            self.body.append(f"<g{style}>{element}</g>")
+        else:
+            self.labels.setdefault(style, []).append(element)
 
     # -- frame, ticks, labels, legend -------------------------------------------------------
     def axes(self, xlabel: str, ylabel: str, title: str) -> None:
@@ -361,10 +367,12 @@ class Drawing:
         clip = f"{self.prefix}area"
         defs = (f'<defs><clipPath id="{clip}"><rect x="{_num(self.px0)}" y="{_num(self.py0)}" '
                 f'width="{_num(self.pw)}" height="{_num(self.ph)}"/></clipPath>{"".join(self.defs)}</defs>')
+        labels = "".join(f'<g{style}>{"".join(items)}</g>' for style, items in self.labels.items())
         return (f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {self.width} {self.height}" '
-                f'width="{self.width}" height="{self.height}" font-family="DejaVu Sans, Arial, sans-serif">'
+                f'width="{self.width}" height="{self.height}" font-family="{FONT_FAMILY}">'
                 f'{defs}<rect width="{self.width}" height="{self.height}" fill="#fff"/>'
-                f'<g clip-path="url(#{clip})">{"".join(self.body)}</g>{"".join(self.texts)}</svg>')
+                f'<g clip-path="url(#{clip})" stroke-linejoin="round">{"".join(self.body)}</g>'
+                f'{"".join(self.texts)}{labels}</svg>')
 
 
 def _material_fill(material: str) -> str:
