@@ -97,14 +97,62 @@ def _model_outputs(job: Job, analysis: Analysis, kinds: frozenset[str], clock: _
     return files
 
 
+def _html_bytes(results: list[JointResult], arguments: dict) -> bytes:
+    from geomjoint.report.html import html_report
+
+    return html_report(results, **arguments).encode("utf-8")
+
+
+def _parallel(workers: int) -> bool:
+    """More than one process allowed (0: every core), and fork available (the model is inherited)."""
+    import multiprocessing
+    import os
+
+    return (workers or os.cpu_count() or 1) > 1 and "fork" in multiprocessing.get_all_start_methods()
+
+
+class _ForkedRender:
+    """One output rendered by a forked copy of this process (it inherits the results, nothing is
+    pickled) into a temporary file; :meth:`result` waits for it.  If the child fails, the
+    output is rendered here instead, so a parallel run never loses an output."""
+
+    def __init__(self, render, *args):
+        import os
+
+        self.render, self.args = render, args
+        fd, name = tempfile.mkstemp(prefix="geomjoint-render-")
+        os.close(fd)
+        self.path = Path(name)
+        self.pid = os.fork()
+        if self.pid == 0:  # the child: render, write, leave without running the parent's exit handlers
+            code = 1
+            try:
+                self.path.write_bytes(render(*args))
+                code = 0
+            finally:
+                os._exit(code)
+
+    def result(self) -> bytes:
+        import os
+
+        try:
+            _, status = os.waitpid(self.pid, 0)
+            if os.WIFEXITED(status) and os.WEXITSTATUS(status) == 0:
+                return self.path.read_bytes()
+            return self.render(*self.args)
+        finally:
+            self.path.unlink(missing_ok=True)
+
+
 def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: str = "",
               outputs: frozenset[str] | None = None) -> CheckRun:
     """Analyse one job file and render results.json, report.txt, report.html (+ marked-up model).
 
     ``outputs``: the kinds of :data:`OUTPUT_KINDS` to render (default all); the result
-    document and the table are always made (they are what the command prints).
+    document and the table are always made (they are what the command prints).  With more
+    than one worker the report page is rendered in a forked process while this one builds
+    the marked-up model (the two are independent).
     """
-    from geomjoint.report.html import html_report
     from geomjoint.report.json_doc import dumps, result_document
     from geomjoint.report.text import result_table
 
@@ -124,6 +172,8 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
     if "text" in kinds:
         files[REPORT_TEXT] = table.encode("utf-8")
     clock.lap("report.txt")
+    model_outputs = analysis.scan is not None and bool(analysis.model_joints) and bool(kinds & {"step", "glb"})
+    pending: _ForkedRender | None = None
     if "html" in kinds:
         overview = None
         if analysis.scan is not None and analysis.model_joints:
@@ -133,11 +183,22 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
             scan = analysis.scan
             hardware = {h.part for h in (*scan.bolts, *scan.nuts, *scan.washers)}
             verdicts = {**{u.id: "fail" for u in analysis.not_analysed}, **{r.id: r.verdict for r in results}}
+            # meshes the parts at the GLB's tolerance, here in this process, so the GLB reuses them
             overview = overview_svg(model_overview(scan, hardware), verdicts)
-        files[REPORT_HTML] = html_report(results, title=job.title or job.path.stem, units=job.units,
-                                         overview_svg=overview, not_analysed=analysis.not_analysed).encode("utf-8")
+        arguments = dict(title=job.title or job.path.stem, units=job.units, overview_svg=overview,
+                         not_analysed=analysis.not_analysed)
+        if model_outputs and _parallel(workers):
+            # the page (pure Python) in a forked process while this one builds the marked-up model
+            pending = _ForkedRender(_html_bytes, results, arguments)
+        else:
+            files[REPORT_HTML] = _html_bytes(results, arguments)
         clock.lap("report.html")
-    if analysis.scan is not None and analysis.model_joints and kinds & {"step", "glb"}:
-        files.update(_model_outputs(job, analysis, kinds, clock))
+    try:
+        if model_outputs:
+            files.update(_model_outputs(job, analysis, kinds, clock))
+    finally:
+        if pending is not None:
+            files[REPORT_HTML] = pending.result()
+            clock.lap("report.html (forked, waited for)")
     inputs = [job.path] + ([job.model] if job.model else [])
     return CheckRun(job.path, inputs, results, document, table, files, analysis.not_analysed, timings)

@@ -518,8 +518,8 @@ _FIGURES = (
 
 
 def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
-    svgs = (plots.section_svg(r, u.system), plots.joint_diagram_svg(r, u.system),
-            plots.fatigue_diagram_svg(r, u.system))
+    svgs = (plots.section_svg(r, u.system, prefix=f"j{i}s-"), plots.joint_diagram_svg(r, u.system, prefix=f"j{i}d-"),
+            plots.fatigue_diagram_svg(r, u.system, prefix=f"j{i}f-"))
     fig_html = "".join(f'<figure>{_labelled(svg, f"{name} of {r.id}")}<figcaption>{_e(cap)}</figcaption></figure>'
                        for svg, (name, cap) in zip(svgs, _FIGURES))
     return (f'<section class="joint" id="{_anchor(i, r.id)}" data-joint="{_e(r.id)}"><details>'

@@ -11,7 +11,8 @@ so no layout engine is needed: :class:`Drawing` maps data coordinates to the pic
 writes SVG elements as text, a few kB per drawing and well under a millisecond each, which
 keeps a report of hundreds of joints fast to write and to open.  Each SVG is a fragment fit
 for inline HTML (no XML prologue, no DOCTYPE); its element ids get a per-drawing prefix so
-several drawings on one page never clash.
+several drawings on one page never clash (the report passes its own, so the same results
+always give the same page; a drawing made alone numbers itself).
 """
 from __future__ import annotations
 
@@ -425,7 +426,7 @@ def fastener_label(result: JointResult) -> str:
 
 # ----------------------------------------------------------------------------- the section
 
-def section_svg(result: JointResult, units: str = "SI") -> str:
+def section_svg(result: JointResult, units: str = "SI", prefix: str = "") -> str:
     """Section through the joint axis, to scale: layers, washers, bolt, nut or tapped thread, cones.
 
     The bolt axis is vertical with the head on top; lengths are in the report's unit.
@@ -462,7 +463,7 @@ def section_svg(result: JointResult, units: str = "SI") -> str:
     top = head_h * 1.3
     bottom = max(length, stack_end + (0 if spec.tapped else m)) * 1.05
     # room on the right for the labels
-    dr = Drawing((-s(half_width) * 1.05, s(half_width) * 2.4), (-s(bottom), s(top)), equal=True)
+    dr = Drawing((-s(half_width) * 1.05, s(half_width) * 2.4), (-s(bottom), s(top)), equal=True, prefix=prefix)
 
     def rect(x0, z0, x1, z1, **kw):
         # z grows downward from the head bearing face; the picture has y = -z
@@ -562,7 +563,7 @@ def joint_diagram_points(result: JointResult) -> dict[str, float]:
     }
 
 
-def joint_diagram_svg(result: JointResult, units: str = "SI") -> str:
+def joint_diagram_svg(result: JointResult, units: str = "SI", prefix: str = "") -> str:
     """Force-elongation diagram of bolt and members with the preload window and P_max."""
     u = report_units(units)
     p = joint_diagram_points(result)
@@ -575,7 +576,7 @@ def joint_diagram_svg(result: JointResult, units: str = "SI") -> str:
     if has_window:
         top = max(top, window["preload_max"])
     end_bolt = max(p["delta_load"], p["delta_b"]) * 1.15
-    dr = Drawing((0.0, L(max(end_bolt, p["delta_b"] + p["delta_m"]) * 1.3)), (0.0, F(top) * 1.25))
+    dr = Drawing((0.0, L(max(end_bolt, p["delta_b"] + p["delta_m"]) * 1.3)), (0.0, F(top) * 1.25), prefix=prefix)
     if has_window:
         dr.span(F(window["preload_min"]), F(window["preload_max"]), WINDOW_COLOUR, 0.35,
                 label="preload window (scatter)")
@@ -641,7 +642,7 @@ _CURVE_NAMES = {"goodman": "Goodman line", "gerber": "Gerber parabola", "asme-el
 _CURVE_ENDS = {"goodman": "S_ut", "gerber": "S_ut", "asme-elliptic": "S_p", "soderberg": "S_y", "vdi": "S_p"}
 
 
-def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
+def fatigue_diagram_svg(result: JointResult, units: str = "SI", prefix: str = "") -> str:
     """Fatigue diagram: the criterion curve, the proof line, the load line from sigma_i, the operating point."""
     u = report_units(units)
     f = result.spec.fastener
@@ -651,7 +652,7 @@ def fatigue_diagram_svg(result: JointResult, units: str = "SI") -> str:
     S = u.s
     sa, sm, si = result.sigma_a, result.sigma_m, result.sigma_i
     right = max(f.tensile, f.proof, sm) * 1.05
-    dr = Drawing((0.0, S(right)), (0.0, S(max(result.Se, sa) * 1.6)))
+    dr = Drawing((0.0, S(right)), (0.0, S(max(result.Se, sa) * 1.6)), prefix=prefix)
     straight = crit in ("goodman", "soderberg", "vdi")
     xs, ys = criterion_curve(crit, result.Se, f.tensile, f.proof, f.yield_strength,
                              n=2 if straight else CURVE_POINTS)
@@ -691,7 +692,7 @@ OVERVIEW_MARGINS = (56, 14, 30, 40)
 _JOINT_MARKERS = {"pass": "o", "marginal": "s", "fail": "x"}
 
 
-def overview_svg(overview, verdicts: dict[str, str]) -> str:
+def overview_svg(overview, verdicts: dict[str, str], prefix: str = "ov-") -> str:
     """The model seen along the bolt axes: part outlines, each joint numbered and coloured by verdict.
 
     ``overview`` is a :class:`geomjoint.geometry.overview.Overview` (plain arrays); ``verdicts``
@@ -704,7 +705,7 @@ def overview_svg(overview, verdicts: dict[str, str]) -> str:
         xs, ys = [0.0, 1.0], [0.0, 1.0]
     pad = 0.05 * max(max(xs) - min(xs), max(ys) - min(ys), 1.0)
     dr = Drawing((min(xs) - pad, max(xs) + pad), (min(ys) - pad, max(ys) + pad), width=OVERVIEW_SIZE[0],
-                 height=OVERVIEW_SIZE[1], margins=OVERVIEW_MARGINS, equal=True)
+                 height=OVERVIEW_SIZE[1], margins=OVERVIEW_MARGINS, equal=True, prefix=prefix)
     for _name, poly in overview.outlines:
         dr.polygon([(float(x), float(y)) for x, y in poly], fill="#eef0f3", stroke="#5b6470", opacity=0.6)
     for jid, x, y in overview.joints:

@@ -1,0 +1,96 @@
+"""Every output of a whole check of a small machine bed (modelled bolts, nuts and washers placed
+as instances of one definition each): the outputs lose nothing against rendering each piece on
+its own, and a parallel run (--workers 2) writes the same files as a serial one."""
+from __future__ import annotations
+
+import json
+import struct
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+sys.path.insert(0, str(Path(__file__).resolve().parent / "benchmarks"))
+
+from check_large import JOB, frame  # noqa: E402  (the benchmark's bed: one builder for both)
+
+from geomjoint.checkrun import run_check  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def bed(tmp_path_factory):
+    tmp = tmp_path_factory.mktemp("bed")
+    model = tmp / "bed.step"
+    frame(6).export(str(model))
+    job = tmp / "bed.toml"
+    job.write_text(JOB.format(model=model.as_posix()), encoding="utf-8")
+    return job
+
+
+def glb_tree(data: bytes) -> dict:
+    # glTF 2.0 §4.4: 12-byte header, then the JSON chunk (length, type 0x4E4F534A, data)
+    json_len, json_type = struct.unpack_from("<II", data, 12)
+    assert json_type == 0x4E4F534A
+    return json.loads(data[20:20 + json_len])
+
+
+def test_parallel_run_writes_the_same_outputs(bed):
+    serial = run_check(bed, workers=1)
+    parallel = run_check(bed, workers=2)
+    assert sorted(serial.files) == sorted(parallel.files)
+    assert sorted(serial.files) == sorted(["results.json", "report.txt", "report.html", "bed-checked.step",
+                                           "bed-checked.glb"])
+    for name in ("results.json", "report.txt", "report.html"):
+        assert serial.files[name] == parallel.files[name], name
+    a, b = glb_tree(serial.files["bed-checked.glb"]), glb_tree(parallel.files["bed-checked.glb"])
+    assert a["nodes"] == b["nodes"] and len(a["meshes"]) == len(b["meshes"])
+    # the same results render the same page (drawing ids come from the joint's place, not a counter)
+    assert run_check(bed, workers=1, outputs=frozenset({"html"})).files["report.html"] == serial.files["report.html"]
+
+
+def test_glb_instances_show_each_piece_as_tessellated_alone(bed):
+    import trimesh
+
+    from geomjoint.analysis import analyze_job
+    from geomjoint.geometry.glb import build_scene, tessellate, tessellation_tolerance
+    from geomjoint.geometry.markup import srgb_to_linear
+    from geomjoint.scene import markup_scene
+    from geomjoint.job import load_job
+
+    analysis = analyze_job(load_job(bed), workers=1)
+    data = markup_scene(analysis)
+    scene = build_scene(data)
+    tol = tessellation_tolerance(data.diagonal)
+    graph = scene.graph
+    items = [(item.name, item, None) for item in data.parts]
+    items += [(f"{jm.id} {item.name}", item, jm) for jm in data.joints for item in jm.items]
+    for node, item, jm in items:
+        matrix, geom = graph.get(node)
+        mesh = scene.geometry[geom]
+        world = trimesh.transformations.transform_points(mesh.vertices, matrix)
+        # the piece tessellated alone, in model coordinates (what each node held before sharing)
+        v, f = tessellate(item.shape, tol)
+        assert len(mesh.faces) == len(f), node
+        assert np.allclose(world.min(axis=0), v.min(axis=0), atol=1e-6), node
+        assert np.allclose(world.max(axis=0), v.max(axis=0), atol=1e-6), node
+        alone = trimesh.Trimesh(v, f, process=False)
+        placed = trimesh.Trimesh(world, mesh.faces, process=False)
+        assert placed.volume == pytest.approx(alone.volume, rel=1e-9, abs=1e-9), node
+        rgba = np.asarray(mesh.visual.material.baseColorFactor, float) / 255.0
+        assert np.allclose(rgba, [*srgb_to_linear(item.rgb), item.alpha], atol=1.5 / 255), node
+        assert mesh.metadata["kind"] == item.kind
+    # every joint keeps its results as extras, and the hardware is shared: one mesh per
+    # definition and verdict instead of one per node
+    exported = glb_tree(trimesh.exchange.gltf.export_glb(scene))
+    extras = {n["name"]: n.get("extras") for n in exported["nodes"]}
+    for jm in data.joints:
+        assert extras[jm.id] == json.loads(json.dumps(jm.extras))
+    verdicts = {jm.verdict for jm in data.joints}
+    kinds = {}
+    for jm in data.joints:
+        for item in jm.items:
+            kinds.setdefault(item.kind, set()).add(graph.get(f"{jm.id} {item.name}")[1])
+    for kind in ("bolt", "nut", "washer"):
+        assert 1 <= len(kinds[kind]) <= len(verdicts), kind
+    assert len(exported["meshes"]) < len([n for n in exported["nodes"] if "mesh" in n])
