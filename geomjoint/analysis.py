@@ -405,6 +405,7 @@ class Analysis:
     model_joints: list[ModelJoint] = field(default_factory=list)
     excluded: list[str] = field(default_factory=list)   # joint ids the job's ``exclude`` names
     not_analysed: list[UnanalysedJoint] = field(default_factory=list)
+    cone_cache: Any = None           # geometry.cones.ConeCache of the cone work (the markup reuses it)
 
     @property
     def failed(self) -> bool:
@@ -454,7 +455,7 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     state = _ModelState(model_joints, ConeCache())
     for outcome in _analyse_model(state, workers, quiet, started):
         (not_analysed if isinstance(outcome, UnanalysedJoint) else results).append(outcome)
-    return Analysis(results, scan, model_joints, excluded, not_analysed)
+    return Analysis(results, scan, model_joints, excluded, not_analysed, state.cone_cache)
 
 
 def warn_not_analysed(analysis: Analysis) -> list[JointResult]:

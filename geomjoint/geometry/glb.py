@@ -64,17 +64,14 @@ def tessellate(shape: TopoDS_Shape, deflection: float,
         poly = BRep_Tool.Triangulation_s(face, loc)
         if poly is None:
             continue
-        trsf = loc.Transformation()
         n = poly.NbNodes()
-        pts = np.empty((n, 3))
-        for i in range(1, n + 1):
-            p = poly.Node(i).Transformed(trsf)
-            pts[i - 1] = (p.X(), p.Y(), p.Z())
+        nodes = [poly.Node(i) for i in range(1, n + 1)]
+        if not loc.IsIdentity():
+            trsf = loc.Transformation()
+            nodes = [p.Transformed(trsf) for p in nodes]
+        pts = np.array([(p.X(), p.Y(), p.Z()) for p in nodes], dtype=float).reshape(-1, 3)
         m = poly.NbTriangles()
-        idx = np.empty((m, 3), dtype=np.int64)
-        for i in range(1, m + 1):
-            idx[i - 1] = poly.Triangle(i).Get()
-        idx -= 1
+        idx = np.array([poly.Triangle(i).Get() for i in range(1, m + 1)], dtype=np.int64).reshape(-1, 3) - 1
         if face.Orientation() == TopAbs_REVERSED:
             idx = idx[:, ::-1]
         verts.append(pts)

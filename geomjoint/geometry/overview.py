@@ -9,7 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from shapely.geometry import MultiPoint
+import shapely
 
 from geomjoint.geometry.glb import tessellate, tessellation_tolerance
 
@@ -59,7 +59,7 @@ def model_overview(scan, hardware_parts: set[str] = frozenset()) -> Overview:
         if len(verts) < 3:
             continue
         uv = np.column_stack([verts @ u, verts @ v])
-        hull = MultiPoint([tuple(p) for p in uv]).convex_hull
+        hull = shapely.multipoints(uv).convex_hull
         if hull.geom_type == "Polygon":
             outlines.append((name, np.asarray(hull.exterior.coords)))
     joints = []
