@@ -936,7 +936,7 @@ def _wholly_in_part(cone: _Cone, sampler: _LayerSampler, side: str, za: float, z
         if not prismatic:
             return False
         # the same window and section as the stiffness integration, so the cache serves both
-        size = 1.05 * cone.reach(a, b) + 1.0
+        size = _window_size(cone.reach(a, b))
         mid = 0.5 * (a + b)
         local = sampler.local_at(mid, mid, size)
         if local.hole_area > math.pi * rh * rh * (1.0 + _WHOLE_RTOL) + _LENGTH_TOL:
@@ -999,8 +999,8 @@ def _clipped_piece(cone: _Cone, sampler: _LayerSampler, place, za: float, zb: fl
         if key in cache.solids:
             return cache.solids[key]
     height = zb - za
-    reach = max(ra, rb) + 1.0
-    pad = 1.0 + 0.01 * height
+    reach = _window_size(max(ra, rb))
+    pad = _BLOCK_PAD + _BLOCK_PAD_FRACTION * height
     box = BRepPrimAPI_MakeBox(gp_Pnt(-reach, -reach, -pad), 2 * reach, 2 * reach, height + 2 * pad).Shape()
     shape = _hollow_frustum(ra, rb, height, rh)     # lies inside the box
     trimmed = BRepAlgoAPI_Common(local_part, box)
