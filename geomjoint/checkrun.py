@@ -73,28 +73,48 @@ class _Clock:
         self.last = now
 
 
-def _model_outputs(job: Job, analysis: Analysis, kinds: frozenset[str], clock: _Clock) -> dict[str, bytes]:
-    """The marked-up STEP and GLB of a model job (written by the kernel to a temp folder)."""
+def _model_outputs(job: Job, analysis: Analysis, kinds: frozenset[str], clock: _Clock,
+                   parallel: bool = False) -> dict[str, bytes]:
+    """The marked-up STEP and GLB of a model job (written by the kernel to a temp folder).
+
+    ``parallel``: the STEP file is written by a forked copy of this process while this one
+    writes the GLB (both read the same scene, neither changes it).
+    """
     from geomjoint.geometry.glb import write_glb
-    from geomjoint.geometry.markup import write_marked_step
     from geomjoint.scene import markup_scene
 
     stem = safe_name(job.model.stem) + "-checked"
     files = {}
     scene = markup_scene(analysis)   # cone solids built once for both files
     clock.lap("scene")
-    with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
-        if "step" in kinds:
-            step = Path(tmp) / f"{stem}.step"
-            write_marked_step(scene, step)
-            files[step.name] = step.read_bytes()
-            clock.lap("step")
+    step_name = f"{stem}.step"
+    pending = None
+    if "step" in kinds and parallel and "glb" in kinds:
+        pending = _ForkedRender(_step_bytes, scene, step_name)
+    elif "step" in kinds:
+        files[step_name] = _step_bytes(scene, step_name)
+        clock.lap("step")
+    try:
         if "glb" in kinds:
-            glb = Path(tmp) / f"{stem}.glb"
-            write_glb(scene, glb)
-            files[glb.name] = glb.read_bytes()
+            with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
+                glb = Path(tmp) / f"{stem}.glb"
+                write_glb(scene, glb)
+                files[glb.name] = glb.read_bytes()
             clock.lap("glb")
-    return files
+    finally:
+        if pending is not None:
+            files[step_name] = pending.result()
+            clock.lap("step (forked, waited for)")
+    return dict(sorted(files.items(), key=lambda kv: not kv[0].endswith(".step")))
+
+
+def _step_bytes(scene, name: str) -> bytes:
+    from geomjoint.geometry.markup import write_marked_step
+
+    with tempfile.TemporaryDirectory(prefix="geomjoint-") as tmp:
+        step = Path(tmp) / name
+        write_marked_step(scene, step)
+        return step.read_bytes()
 
 
 def _html_bytes(results: list[JointResult], arguments: dict) -> bytes:
@@ -195,7 +215,7 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
         clock.lap("report.html")
     try:
         if model_outputs:
-            files.update(_model_outputs(job, analysis, kinds, clock))
+            files.update(_model_outputs(job, analysis, kinds, clock, parallel=_parallel(workers)))
     finally:
         if pending is not None:
             files[REPORT_HTML] = pending.result()
