@@ -48,6 +48,7 @@ from OCP.GeomAbs import GeomAbs_Cone, GeomAbs_Cylinder
 from OCP.GProp import GProp_GProps
 from OCP.gp import gp_Ax2, gp_Dir, gp_Pnt, gp_Vec
 from OCP.IFSelect import IFSelect_RetDone
+from OCP.Interface import Interface_Static
 from OCP.Quantity import Quantity_Color, Quantity_ColorRGBA, Quantity_TOC_RGB, Quantity_TOC_sRGB
 from OCP.STEPCAFControl import STEPCAFControl_Writer
 from OCP.STEPControl import STEPControl_AsIs
@@ -77,6 +78,8 @@ FACE_AXIS_TOL = 1e-2
 FACE_PARALLEL_TOL = 1e-4
 #: faces count as inside a hole's axial extent within this margin, mm
 FACE_EXTENT_TOL = 1e-2
+#: OCCT's STEP writer parameter for 2-D curves on surfaces (0: none written)
+SURFACE_CURVE_PARAMETER = "write.surfacecurve.mode"
 #: the bore cut through a generated nut overshoots both faces by this, mm (a cut flush with a
 #: face can leave a skin of zero thickness)
 NUT_BORE_PAD = 1.0
@@ -411,13 +414,43 @@ def _set_name(label: TDF_Label, name: str) -> None:
     TDataStd_Name.Set_s(label, TCollection_ExtendedString(name))
 
 
+class _Definitions:
+    """Shape definitions (TShapes) met so far, each numbered once: placed instances of one part
+    definition, and identical cone pieces, share a number."""
+
+    def __init__(self) -> None:
+        self.buckets: dict[int, list[tuple[TopoDS_Shape, int]]] = {}
+        self.count = 0
+
+    def number(self, shape: TopoDS_Shape) -> int:
+        bare = shape.Located(TopLoc_Location())
+        bucket = self.buckets.setdefault(hash(bare), [])
+        for other, k in bucket:
+            if other.IsPartner(bare):
+                return k
+        self.count += 1
+        bucket.append((bare, self.count))
+        return self.count
+
+
 class _XcafBuilder:
+    """The XCAF document of the marked-up model.
+
+    An item without coloured hole faces is an instance: items of one shape definition in one
+    colour on one layer share one prototype (the model's bolts, nuts and washers, identical
+    cone pieces), each placed by its own component with its own name, so the file holds each
+    definition once.  A part with coloured hole faces keeps a prototype of its own (a face
+    colour belongs to the prototype, and would colour every instance).
+    """
+
     def __init__(self) -> None:
         self.doc = TDocStd_Document(TCollection_ExtendedString("XmlOcaf"))
         XCAFDoc_DocumentTool.SetLengthUnit_s(self.doc, 1.0, UnitsMethods_LengthUnit_Millimeter)
         self.shapes = XCAFDoc_DocumentTool.ShapeTool_s(self.doc.Main())
         self.colours = XCAFDoc_DocumentTool.ColorTool_s(self.doc.Main())
         self.layers = XCAFDoc_DocumentTool.LayerTool_s(self.doc.Main())
+        self.definitions = _Definitions()
+        self.prototypes: dict[tuple, TDF_Label] = {}
 
     def assembly(self, name: str) -> TDF_Label:
         label = self.shapes.NewShape()
@@ -431,24 +464,40 @@ class _XcafBuilder:
         return comp
 
     def item(self, parent: TDF_Label, item: MarkupItem, layer: str | None = None) -> TDF_Label:
-        """A prototype of its own for the item (copied if the shape is already in the document)."""
+        """The item placed under ``parent``: an instance of a shared prototype, or (with coloured
+        hole faces) a prototype of its own, copied if its shape is already in the document."""
         loc = item.shape.Location()
-        base = item.shape.Located(TopLoc_Location())
-        found = TDF_Label()
-        if self.shapes.FindShape(base, found, False):
+        if not item.hole_faces:
+            key = (self.definitions.number(item.shape), tuple(round(float(c), 6) for c in item.rgb),
+                   round(float(item.alpha), 6), layer)
+            proto = self.prototypes.get(key)
+            if proto is None:
+                proto = self.prototypes[key] = self._prototype(self._new_base(item.shape), item, layer)
+            return self.place(parent, proto, item.name, loc)
+        base = self._new_base(item.shape)
+        proto = self._prototype(base, item, layer)
+        faces = _faces(base)
+        for idx, rgb in sorted(item.hole_faces.items()):
+            sub = self.shapes.AddSubShape(proto, faces[idx])
+            if not sub.IsNull():
+                self.colours.SetColor(sub, _colour(rgb), XCAFDoc_ColorSurf)
+        return self.place(parent, proto, item.name, loc)
+
+    def _new_base(self, shape: TopoDS_Shape) -> TopoDS_Shape:
+        """The shape's definition, copied when the document already holds it (a second colour or
+        layer of one definition needs a prototype of its own; XCAF would return the first)."""
+        base = shape.Located(TopLoc_Location())
+        if self.shapes.FindShape(base, TDF_Label(), False):
             base = BRepBuilderAPI_Copy(base).Shape()
+        return base
+
+    def _prototype(self, base: TopoDS_Shape, item: MarkupItem, layer: str | None) -> TDF_Label:
         proto = self.shapes.AddShape(base, False, False)
         _set_name(proto, item.name)
         self.colours.SetColor(proto, _colour(item.rgb, item.alpha), XCAFDoc_ColorSurf)
-        if item.hole_faces:
-            faces = _faces(base)
-            for idx, rgb in sorted(item.hole_faces.items()):
-                sub = self.shapes.AddSubShape(proto, faces[idx])
-                if not sub.IsNull():
-                    self.colours.SetColor(sub, _colour(rgb), XCAFDoc_ColorSurf)
         if layer:
             self.layers.SetLayer(proto, TCollection_ExtendedString(layer), False)
-        return self.place(parent, proto, item.name, loc)
+        return proto
 
     def write(self, path: Path, shown: Path | None = None) -> None:
         """Write the document to ``path`` (``shown``: the path named in an error)."""
@@ -458,9 +507,16 @@ class _XcafBuilder:
         writer.SetNameMode(True)
         writer.SetColorMode(True)
         writer.SetLayerMode(True)
-        with quiet_stdout():
-            done = writer.Transfer(self.doc, STEPControl_AsIs)
-            status = writer.Write(str(path)) if done else None
+        # no 2-D curves on the surfaces (p-curves): readers rebuild them, and they were most of
+        # the file; OCCT's writer takes the setting from a process-wide parameter, restored after
+        previous = Interface_Static.IVal_s(SURFACE_CURVE_PARAMETER)
+        Interface_Static.SetIVal_s(SURFACE_CURVE_PARAMETER, 0)
+        try:
+            with quiet_stdout():
+                done = writer.Transfer(self.doc, STEPControl_AsIs)
+                status = writer.Write(str(path)) if done else None
+        finally:
+            Interface_Static.SetIVal_s(SURFACE_CURVE_PARAMETER, previous)
         if not done:
             raise InputError("the marked-up model could not be transferred to STEP", where=str(shown))
         if status != IFSelect_RetDone:
@@ -495,12 +551,16 @@ def write_marked_step(scene: MarkupScene, path: Path) -> MarkupSummary:
                             layers={}, cones={}, generated=[])
     if scene.joints:
         joints_asm = b.assembly("joints")
+        volumes: dict[int, float] = {}      # one volume per cone definition
         for jm in scene.joints:
             asm = b.assembly(jm.name)
             for item in jm.items:
                 b.item(asm, item, jm.layer)
                 if item.kind == "cone":
-                    summary.cones[f"{jm.name}/{item.name}"] = volume(item.shape)
+                    k = b.definitions.number(item.shape)
+                    if k not in volumes:
+                        volumes[k] = volume(item.shape)
+                    summary.cones[f"{jm.name}/{item.name}"] = volumes[k]
                 if item.source == "generated" and item.kind in ("bolt", "nut", "washer"):
                     summary.generated.append(f"{jm.id}/{item.name}")
             b.layers.SetLayer(asm, TCollection_ExtendedString(jm.layer), False)
