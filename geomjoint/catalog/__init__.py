@@ -12,10 +12,14 @@ from __future__ import annotations
 
 from geomjoint.catalog.grades import grade, grade_names
 from geomjoint.catalog.hardware import (
+    HEAD_KINDS,
     clearance_hole,
+    hardware_gaps,
     head,
+    head_kind,
     nominal_from_hole,
     nut,
+    set_screw,
     shortest_length,
     standard_lengths,
     thread_length,
@@ -24,7 +28,7 @@ from geomjoint.catalog.hardware import (
 from geomjoint.catalog.materials import WILEMAN_GENERAL, material, material_names
 from geomjoint.catalog.tables import MM_PER_INCH, MPA_PER_KPSI
 from geomjoint.catalog.threads import size_label, tap_drill, thread, thread_sizes
-from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, Thread, WasherDims
+from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, SetScrewDims, Thread, WasherDims
 
 __all__ = [
     "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",

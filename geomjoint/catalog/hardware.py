@@ -1,9 +1,14 @@
 """Hardware dimensions: bolt heads, nuts, washers, clearance holes, lengths, thread lengths.
 
-Metric: ISO 4014/4017 hex heads, ISO 4762 socket heads, ISO 4032 nuts, ISO 7089 washers,
-ISO 273 clearance holes.  Inch: ASME B18.2.1 hex and heavy hex bolts, ASME B18.3 socket
-head cap screws, ASME B18.2.2 nuts, ASME B18.21.1 type A washers (SAE = narrow, USS =
-wide), ASME B18.2.8 clearance holes.  The tables are keyed by the size of the thread
+Metric: ISO 4014/4017 hex heads, ISO 4762 socket heads, ISO 7380-1 button heads, ISO 7045 /
+ISO 1580 pan heads, ISO 1207 cheese heads, ISO 10642 / ISO 2009 countersunk heads, ISO 4162
+flange bolts, ISO 4026 / ISO 4029 set screws, ISO 4032 nuts, ISO 7089 washers, ISO 273
+clearance holes.  Inch: ASME B18.2.1 hex and heavy hex bolts, ASME B18.3 socket, button and
+flat countersunk head cap screws, ASME B18.2.2 / B18.6.3 nuts, ASME B18.21.1 type A washers
+(SAE = narrow, USS = wide), ASME B18.2.8 clearance holes.  A size the standards do not
+cover in some table (no ISO 7380 button head below M3, no numbered-size washer below #6)
+raises InputError naming the size and the sizes there are; callers turn that into a
+finding on the one joint.  The tables are keyed by the size of the thread
 ("M12", "1/2", "#10"), so a fine-pitch thread gets the hardware of its nominal size.
 """
 from __future__ import annotations
@@ -14,7 +19,7 @@ from typing import Mapping
 
 from geomjoint.catalog.tables import MM_PER_INCH, load_table, number, to_mm
 from geomjoint.catalog.threads import size_label, tap_drill, thread_sizes
-from geomjoint.catalog.types import HeadDims, NutDims, Thread, WasherDims
+from geomjoint.catalog.types import HeadDims, NutDims, SetScrewDims, Thread, WasherDims
 from geomjoint.errors import InputError
 
 # --- inch length series (common practice, as stocked) ---
@@ -39,7 +44,7 @@ def _by_size(table: str) -> Mapping[tuple[str, str], Mapping[str, str]]:
     """Rows of a hardware table keyed by (size, style or kind) ('' if the table has neither)."""
     out: dict[tuple[str, str], Mapping[str, str]] = {}
     for r in load_table(table):
-        out[(r["size"], r.get("style", r.get("kind", "")))] = r
+        out[(r["size"], r.get("style", r.get("kind", r.get("point", ""))))] = r
     return out
 
 
@@ -52,31 +57,96 @@ def _row(table: str, t: Thread, style: str, what: str) -> Mapping[str, str]:
     return row
 
 
+#: head kinds the catalog has dimensions for (the names a job file may use)
+HEAD_KINDS = ("hex", "heavy hex", "socket", "button", "pan", "cheese", "countersunk", "flange")
+
+#: other names of each head kind → the kind
+_HEAD_ALIASES = {
+    "hex": "hex", "hex head": "hex", "hexagon": "hex", "regular": "hex",
+    "heavy hex": "heavy hex", "heavy": "heavy hex",
+    "socket": "socket", "socket head": "socket", "cap screw": "socket", "shcs": "socket",
+    "button": "button", "button head": "button", "bhcs": "button",
+    "pan": "pan", "pan head": "pan", "pan cross": "pan", "pan slotted": "pan slotted",
+    "cheese": "cheese", "cheese head": "cheese", "fillister": "cheese",
+    "countersunk": "countersunk", "flat": "countersunk", "flat head": "countersunk", "csk": "countersunk",
+    "fhcs": "countersunk",
+    "flange": "flange", "hex flange": "flange", "flange head": "flange",
+}
+
+
+def head_kind(kind: str) -> str:
+    """The catalog's name of a head kind ("BHCS" → "button", "flat head" → "countersunk").
+
+    >>> head_kind("Button head"), head_kind("fhcs")
+    ('button', 'countersunk')
+    """
+    k = " ".join(kind.strip().lower().replace("-", " ").replace("_", " ").split())
+    found = _HEAD_ALIASES.get(k)
+    if found is None:
+        raise InputError(f"unknown head kind {kind!r} (use one of {', '.join(HEAD_KINDS)})")
+    return found
+
+
 def head(t: Thread, kind: str = "hex") -> HeadDims:
     """Head dimensions of a bolt or screw with thread `t`.
 
     kind: "hex" (ISO 4014/4017; ASME B18.2.1 hex bolt), "heavy hex" (ASME B18.2.1, inch only),
-    "socket" (ISO 4762; ASME B18.3).  width is s (hex) or d_k (socket), height k, bearing
-    diameter d_w (min).  For inch hex heads d_w is taken equal to F (common practice).
+    "socket" (ISO 4762; ASME B18.3), "button" (ISO 7380-1; ASME B18.3), "pan" (ISO 7045
+    cross recessed; "pan slotted": ISO 1580), "cheese" (ISO 1207), "countersunk" (ISO 10642,
+    below M3 ISO 2009; ASME B18.3 flat head) or "flange" (ISO 4162).  width is s (hex,
+    flange) or d_k (the round heads), height k, bearing diameter d_w (min; flange d_c; the
+    round heads d_k, common practice).  For inch hex heads d_w is taken equal to F (common
+    practice).  A countersunk head carries its cone's included angle.
 
     >>> from geomjoint.catalog.threads import thread
     >>> head(thread("M12")).width
     18.0
+    >>> head(thread("M2.5"), "button")
+    Traceback (most recent call last):
+    ...
+    geomjoint.errors.InputError: no button head dimensions for M2.5 in the catalog (sizes: M3, M4, M5, M6, M8, M10, M12, M16)
     """
-    k = kind.strip().lower().replace("-", " ").replace("_", " ")
-    if k in ("hex", "hex head", "hexagon", "regular"):
-        r = _row("hex_heads", t, "regular", "hex head")
-        return HeadDims("hex", to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
+    k = head_kind(kind)
+    if k in ("hex", "heavy hex"):
+        style = "regular" if k == "hex" else "heavy"
+        r = _row("hex_heads", t, style, f"{k} head")
+        return HeadDims(k, to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
                         to_mm(number(r, "dw"), r["unit"]), r["source"])
-    if k in ("heavy hex", "heavy"):
-        r = _row("hex_heads", t, "heavy", "heavy hex head")
-        return HeadDims("heavy hex", to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
-                        to_mm(number(r, "dw"), r["unit"]), r["source"])
-    if k in ("socket", "socket head", "cap screw", "shcs"):
+    if k == "socket":
         r = _row("socket_heads", t, "", "socket head")
         return HeadDims("socket", to_mm(number(r, "dk"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
                         to_mm(number(r, "dw"), r["unit"]), r["source"])
-    raise InputError(f"unknown head kind {kind!r} (use 'hex', 'heavy hex' or 'socket')")
+    if k == "button":
+        r = _row("button_heads", t, "", "button head")
+        dk = to_mm(number(r, "dk"), r["unit"])
+        return HeadDims("button", dk, to_mm(number(r, "k"), r["unit"]), dk, r["source"])
+    if k in ("pan", "pan slotted", "cheese"):
+        style = {"pan": "cross", "pan slotted": "slotted", "cheese": "cheese"}[k]
+        r = _row("pan_heads", t, style, f"{k} head")
+        dk = to_mm(number(r, "dk"), r["unit"])
+        return HeadDims("cheese" if k == "cheese" else "pan", dk, to_mm(number(r, "k"), r["unit"]), dk, r["source"])
+    if k == "countersunk":
+        r = _row("countersunk_heads", t, "", "countersunk head")
+        dk = to_mm(number(r, "dk"), r["unit"])
+        return HeadDims("countersunk", dk, to_mm(number(r, "k"), r["unit"]), dk, r["source"], angle=number(r, "angle"))
+    r = _row("flange_heads", t, "", "flange head")
+    return HeadDims("flange", to_mm(number(r, "s"), r["unit"]), to_mm(number(r, "k"), r["unit"]),
+                    to_mm(number(r, "dc"), r["unit"]), r["source"])
+
+
+def set_screw(t: Thread, point: str = "cup") -> SetScrewDims:
+    """Hexagon socket set screw of thread `t`: ISO 4026 (flat point) or ISO 4029 (cup point).
+
+    >>> set_screw(thread("M6")).key
+    3.0
+    """
+    p = point.strip().lower()
+    if p not in ("flat", "cup"):
+        raise InputError(f"unknown set screw point {point!r} (use 'flat' or 'cup')")
+    r = _row("set_screws", t, p, f"{p}-point set screw")
+    u = r["unit"]
+    return SetScrewDims(p, to_mm(number(r, "s"), u), to_mm(number(r, "l_min"), u), to_mm(number(r, "l_max"), u),
+                        r["source"])
 
 
 def nut(t: Thread) -> NutDims:
@@ -237,13 +307,18 @@ def thread_length(t: Thread, length: float, kind: str = "hex") -> float:
     return min(thread_length_rule(t.d, length, t.system, kind), length)
 
 
+#: head kind → (its row kind in lengths.csv, the preferred length series it follows)
+#: (ISO 7380, ISO 7045, ISO 10642 and ISO 2009 use the ISO 888 series of ISO 4762;
+#: ISO 4162 that of ISO 4014/4017 — from memory)
+_LENGTH_KINDS = {
+    "hex": ("hex", "hex"), "heavy hex": ("hex", "hex"), "socket": ("socket", "socket"),
+    "button": ("button", "socket"), "pan": ("pan", "socket"), "pan slotted": ("pan", "socket"),
+    "cheese": ("pan", "socket"), "countersunk": ("countersunk", "socket"), "flange": ("flange", "hex"),
+}
+
+
 def _kind_key(kind: str) -> str:
-    k = kind.strip().lower().replace("-", " ")
-    if k in ("hex", "heavy hex", "hex head", "heavy", "regular"):
-        return "hex"
-    if k in ("socket", "socket head", "cap screw", "shcs"):
-        return "socket"
-    raise InputError(f"unknown bolt kind {kind!r} (use 'hex' or 'socket')")
+    return _LENGTH_KINDS[head_kind(kind)][0]
 
 
 def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:
@@ -257,13 +332,13 @@ def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:
     >>> standard_lengths(thread("M12"))[:4]
     [25.0, 30.0, 35.0, 40.0]
     """
-    key = _kind_key(kind)
+    key, series_kind = _LENGTH_KINDS[head_kind(kind)]
     r = _by_size("lengths").get((size_label(t), key))
     if r is None:
         raise InputError(f"no standard {key} lengths for {t.designation} in the catalog")
     lo, hi = to_mm(number(r, "l_min"), r["unit"]), to_mm(number(r, "l_max"), r["unit"])
     if t.system == "metric":
-        series = sorted(float(s["length"]) for s in load_table("length_series") if s["kind"] == key)
+        series = sorted(float(s["length"]) for s in load_table("length_series") if s["kind"] == series_kind)
         return [x for x in series if lo - _TOL <= x <= hi + _TOL]
     out: list[float] = []
     x = lo
@@ -288,3 +363,26 @@ def shortest_length(t: Thread, needed: float, kind: str = "hex") -> float:
         f"no standard {_kind_key(kind)} length of {t.designation} reaches {needed:g} mm "
         f"(longest {lengths[-1]:g} mm)" if lengths else f"no standard lengths for {t.designation}"
     )
+
+
+def hardware_gaps(t: Thread, kind: str = "hex", with_nut: bool = True) -> list[str]:
+    """What the catalog lacks to finish a joint of thread `t` with a `kind` head: [] when nothing.
+
+    A joint is finished with the head (bearing diameter, height), the standard lengths of
+    that head kind and, for a through joint (``with_nut``), the nut.  Size inference uses
+    this to never land on a size it cannot finish; a modelled size with gaps gets a finding.
+
+    >>> hardware_gaps(thread("M12"))
+    []
+    >>> hardware_gaps(thread("#0-80 UNF"), "hex")
+    ['hex head', 'hex lengths']
+    """
+    gaps = []
+    k = head_kind(kind)
+    for what, probe in ((f"{k} head", lambda: head(t, k)), (f"{k} lengths", lambda: standard_lengths(t, k)),
+                        ("nut", lambda: nut(t) if with_nut else None)):
+        try:
+            probe()
+        except InputError:
+            gaps.append(what)
+    return gaps

@@ -185,7 +185,7 @@ def thread_sizes(system: str | None = None) -> list[Thread]:
     """Every known thread size (metric coarse + fine, then UNC + UNF), optionally of one system.
 
     >>> thread_sizes("metric")[0].designation
-    'M3'
+    'M1.6'
     """
     sys_ = _normalize_system(system)
     return [t for t in _all_threads() if sys_ is None or t.system == sys_]
@@ -255,12 +255,14 @@ def thread(designation: str) -> Thread:
         tpi = float(m.group("tpi")) if m.group("tpi") else None
         series = m.group("series")
         same = [t for t in threads if t.system == "inch" and abs(t.d - D) < 1e-3]
+        # no series named: UNC, or the only series the size has (#0 is UNF only, ASME B1.1)
+        only = len({t.series for t in same}) == 1
         for t in same:
             if tpi is not None and abs(t.threads_per_inch - tpi) > 1e-6:
                 continue
             if series is not None and t.series != series:
                 continue
-            if tpi is None and series is None and t.series != "UNC":
+            if tpi is None and series is None and t.series != "UNC" and not only:
                 continue
             return t
         pitch = MM_PER_INCH / tpi if tpi else None

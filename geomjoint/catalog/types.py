@@ -63,10 +63,22 @@ class Material:
 class HeadDims:
     """Head of a bolt or screw."""
 
-    kind: str             # "hex" | "socket"
-    width: float          # hex: across flats s; socket: head diameter d_k, mm
+    kind: str             # "hex" | "heavy hex" | "socket" | "button" | "pan" | "cheese" | "countersunk" | "flange"
+    width: float          # hex, flange: across flats s; the round heads: head diameter d_k, mm
     height: float         # k, mm
-    bearing_diameter: float  # d_w (min), mm
+    bearing_diameter: float  # d_w (min), mm; flange: d_c; countersunk: d_k of the cone
+    source: str
+    angle: float | None = None   # countersunk: included angle of the head cone, degrees
+
+
+@dataclass(frozen=True)
+class SetScrewDims:
+    """A headless hexagon-socket set screw."""
+
+    point: str            # "flat" | "cup"
+    key: float            # hexagon socket size s, mm
+    length_min: float     # commercial length range, mm
+    length_max: float
     source: str
 
 

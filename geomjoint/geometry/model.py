@@ -1,8 +1,13 @@
 """Reading a CAD model into plain parts: name, located solid, colour, material hint.
 
 A STEP file (AP203 / AP214 / AP242) is read through OCP's XCAF reader, so part
-names, instance placements and colours survive; the same part placed twice is two
-instances ("foot", "foot#2").  The document's length unit is set to millimetres
+names, instance placements and colours survive.  Each part is named by its product name
+(the part definition, e.g. "M3x10 BHCS" or "Hotend mount"), with an instance number where
+one product is placed several times ("foot", "foot#2"); where the file gives the product
+no usable name, the instance name is used, then the nearest named assembly.  Reader checks
+that leave the geometry as it is (a ``$`` where a name string belongs) become one info
+finding naming the file's own ``#id``; a file the kernel cannot transfer, or that loses
+solids, is refused (exit 2) naming the file.  The document's length unit is set to millimetres
 before the transfer, so a file written in inches or metres comes back in mm.
 An in-memory cadquery Assembly, Workplane or Shape goes through the same path
 (an Assembly is converted to an XCAF document first).
@@ -37,7 +42,20 @@ from OCP.XCAFDoc import (
 
 from geomjoint import limits, supervision
 from geomjoint.geometry import topology
+from geomjoint.geometry.stacks import Finding
 from geomjoint.errors import InputError
+
+#: names that say nothing about a part: OCCT's placeholder for an unnamed label
+#: ("=>[0:1:1:8]"), the writer's occurrence ids ("NAUO12", "NAUO-3"), a bare number, and the
+#: shape-type words some writers (and the kernel) put where a part name belongs
+_PLACEHOLDER_NAME = re.compile(r"^(=>\[[0-9:]+\]|NAUO[-_]?\d*|\d+|SOLID|SHELL|COMPOUND|COMPSOLID|"
+                               r"Open CASCADE STEP translator.*|Shape|UNKNOWN|none)$", re.I)
+
+#: reader checks that leave the geometry unchanged: a name, description or id given as ``$``
+#: (unset) where the schema wants a string (written so by several STEP writers)
+#: entity ids named in the one finding on such remarks (the rest are counted)
+MAX_IDS_NAMED = 8
+_BENIGN_CHECK = re.compile(r"^Parameter n\d+\.\d+ \((?:\w+\.)?(?:name|description|id)\) not a quoted String$")
 
 #: words in a part or colour name that hint at a material (common practice in part naming);
 #: order matters: the first match wins, so "cast iron" is tested before "iron"
@@ -70,6 +88,12 @@ class Part:
     colour_name: str | None = None      # OCCT's nearest named colour, e.g. "GRAY"
     material_hint: str | None = None    # from the name or the colour name
     product: str | None = None          # name of the part definition (shared by instances)
+    instance: str | None = None         # the file's own name of this placement ("NAUO12", "bolt:3")
+
+    @property
+    def aliases(self) -> tuple[str, ...]:
+        """Other names the part is known by in the file (instance and product), for globs."""
+        return tuple(n for n in dict.fromkeys((self.instance, self.product)) if n and n != self.name)
 
 
 @dataclass
@@ -79,10 +103,14 @@ class Model:
     source: str                          # file path or "<memory>"
     parts: list[Part]
     file_unit: str | None = None         # length unit the file was written in: "mm", "inch", "m", ...
+    findings: list[Finding] = field(default_factory=list)   # the reader's remarks on the file as a whole
 
     def part(self, name: str) -> Part:
         for p in self.parts:
             if p.name == name:
+                return p
+        for p in self.parts:
+            if name in p.aliases:
                 return p
         raise InputError(f"no part named {name!r} in the model", where=self.source)
 
@@ -111,6 +139,20 @@ def _label_name(label: TDF_Label) -> str | None:
     return None
 
 
+def readable(name: str | None) -> str | None:
+    """``name`` if it names a part, None for a placeholder ("=>[0:1:1:8]", "NAUO3", "SOLID").
+
+    >>> readable("M3x10 BHCS"), readable("NAUO12"), readable("=>[0:1:1:8]"), readable(" ")
+    ('M3x10 BHCS', None, None, None)
+    """
+    if name is None:
+        return None
+    name = name.strip()
+    if not name or _PLACEHOLDER_NAME.match(name):
+        return None
+    return name
+
+
 def _label_colour(*labels: TDF_Label) -> Quantity_Color | None:
     for lab in labels:
         for kind in (XCAFDoc_ColorSurf, XCAFDoc_ColorGen):
@@ -132,13 +174,24 @@ def _solids(shape: TopoDS_Shape) -> list[TopoDS_Shape]:
     return list(topology.solids(shape))
 
 
+@dataclass
+class _Raw:
+    """One located solid as the walk found it, before names are made unique."""
+
+    name: str
+    solid: TopoDS_Shape
+    colour: Quantity_Color | None
+    product: str | None
+    instance: str | None
+
+
 class _Collector:
     """Walks an XCAF document and collects located solids with names and colours."""
 
     def __init__(self, doc: TDocStd_Document):
         self.doc = doc
         self.colours = XCAFDoc_DocumentTool.ColorTool_s(doc.Main())
-        self.raw: list[tuple[str, TopoDS_Shape, Quantity_Color | None, str | None]] = []
+        self.raw: list[_Raw] = []
 
     def run(self) -> None:
         shapes = XCAFDoc_DocumentTool.ShapeTool_s(self.doc.Main())
@@ -146,10 +199,10 @@ class _Collector:
         shapes.GetFreeShapes(free)
         for i in range(1, free.Length() + 1):
             lab = free.Value(i)
-            self._walk(lab, TopLoc_Location(), _label_name(lab) or "part", None)
+            self._walk(lab, TopLoc_Location(), readable(_label_name(lab)) or "part", None, None, None)
 
     def _walk(self, label: TDF_Label, loc: TopLoc_Location, name: str,
-              colour: Quantity_Color | None) -> None:
+              colour: Quantity_Color | None, instance: str | None, product: str | None) -> None:
         if XCAFDoc_ShapeTool.IsAssembly_s(label):
             comps = TDF_LabelSequence()
             XCAFDoc_ShapeTool.GetComponents_s(label, comps)
@@ -158,33 +211,40 @@ class _Collector:
                 ref = TDF_Label()
                 if not XCAFDoc_ShapeTool.GetReferredShape_s(comp, ref):
                     ref = comp
-                cname = _label_name(comp)
-                if not cname or cname.isdigit():      # some writers name instances by number
-                    cname = _label_name(ref) or name
+                inst, prod = _label_name(comp), _label_name(ref)
+                # the product name reads best ("M5x25 DIN912"); the instance name where the
+                # product has none; the enclosing assembly's where neither says anything
+                # (a part written as an assembly of one "SOLID")
+                cname = readable(prod) or readable(inst) or name
                 ccol = _label_colour(comp, ref) or colour
-                self._walk(ref, loc.Multiplied(XCAFDoc_ShapeTool.GetLocation_s(comp)), cname, ccol)
+                cinst = readable(inst) and inst or instance
+                cprod = readable(prod) and prod or product
+                self._walk(ref, loc.Multiplied(XCAFDoc_ShapeTool.GetLocation_s(comp)), cname, ccol, cinst, cprod)
             return
         shape = XCAFDoc_ShapeTool.GetShape_s(label)
-        product = _label_name(label)
+        own = _label_name(label)
+        product = readable(own) and own or product
         col = _label_colour(label) or colour
         for solid in _solids(shape):
             scol = _shape_colour(self.colours, solid) or col
             located = solid.Moved(loc) if not loc.IsIdentity() else solid
-            self.raw.append((name, located, scol, product))
+            self.raw.append(_Raw(name, located, scol, product, instance))
 
 
-def _unique_parts(raw) -> list[Part]:
+def _unique_parts(raw: list[_Raw]) -> list[Part]:
     seen: dict[str, int] = {}
     parts = []
-    for name, solid, col, product in raw:
+    for r in raw:
+        name, col = r.name, r.colour
         seen[name] = seen.get(name, 0) + 1
         uname = name if seen[name] == 1 else f"{name}#{seen[name]}"
         rgb = cname = None
         if col is not None:
             rgb = (round(col.Red(), 4), round(col.Green(), 4), round(col.Blue(), 4))
             cname = Quantity_Color.StringName_s(col.Name())
-        parts.append(Part(name=uname, solid=solid, colour=rgb, colour_name=cname,
-                          material_hint=material_hint(name, product, cname), product=product))
+        parts.append(Part(name=uname, solid=r.solid, colour=rgb, colour_name=cname,
+                          material_hint=material_hint(name, r.product, r.instance, cname), product=r.product,
+                          instance=r.instance))
     # a later duplicate may collide with an earlier literal "x#2": make names unique anyway
     names: set[str] = set()
     for p in parts:
@@ -227,9 +287,12 @@ def step_length_unit(path: str) -> str | None:
     """The length unit named in a STEP file's unit context ("mm", "inch", "m", "cm", "foot")."""
     with open(path, "rb") as fh:
         text = fh.read(2_000_000).upper()
-    m = re.search(rb"CONVERSION_BASED_UNIT\s*\(\s*'([A-Z]+)'", text)
-    if m and b"LENGTH_UNIT" in text[max(0, m.start() - 200): m.end() + 200]:
-        return {b"INCH": "inch", b"FOOT": "foot", b"FEET": "foot"}.get(m.group(1), m.group(1).decode().lower())
+    # the conversion-based unit of the same complex entity as LENGTH_UNIT (a DEGREE next to
+    # a millimetre is the plane-angle unit, not a length)
+    for m in re.finditer(rb"CONVERSION_BASED_UNIT\s*\(\s*'([A-Z]+)'[^;]*;", text):
+        start = text.rfind(b";", 0, m.start()) + 1
+        if b"LENGTH_UNIT" in text[start:m.end()]:
+            return {b"INCH": "inch", b"FOOT": "foot", b"FEET": "foot"}.get(m.group(1), m.group(1).decode().lower())
     m = re.search(rb"LENGTH_UNIT\s*\(\s*\)\s*NAMED_UNIT\s*\(\s*\*\s*\)\s*SI_UNIT\s*\(\s*(\.[A-Z]+\.|\$)\s*,\s*\.METRE\.",
                   text)
     if m:
@@ -237,7 +300,7 @@ def step_length_unit(path: str) -> str | None:
     return None
 
 
-def _read_step(path: str) -> list[Part]:
+def _read_step(path: str) -> tuple[list[Part], list[Finding]]:
     limits.check_step_file(path)      # empty, binary, truncated, too big: before the kernel sees it
     reader = STEPCAFControl_Reader()
     reader.SetNameMode(True)
@@ -247,7 +310,7 @@ def _read_step(path: str) -> list[Part]:
     with quiet_stdout():              # the reader prints its messages on stdout
         if reader.ReadFile(path) != IFSelect_RetDone:
             raise InputError("unreadable STEP file (the reader rejected it)", where=path)
-        _check_entities(reader, path)
+        notes = _check_entities(reader, path)
         doc = _new_doc()
         if not reader.Transfer(doc):
             raise InputError("STEP file could not be transferred to shapes", where=path)
@@ -256,26 +319,52 @@ def _read_step(path: str) -> list[Part]:
     parts = _unique_parts(col.raw)
     supervision.announce_read()
     _check_transfer(path, parts)
-    return parts
+    return parts, notes
 
 
-def _check_entities(reader: STEPCAFControl_Reader, path: str) -> None:
-    """A syntax error or an entity of the wrong type is a damaged file: name the first one
-    (the reader would otherwise skip it and quietly lose geometry)."""
+def _check_entities(reader: STEPCAFControl_Reader, path: str) -> list[Finding]:
+    """Sort the reader's failed checks into remarks and damage.
+
+    A check whose every failure is a missing name string (``$`` where the schema wants a
+    name, description or id) leaves the geometry as it is: all of them together become one
+    info finding naming the file's own ``#id`` of each entity.  Any other failure (a syntax
+    error, an entity of the wrong type, an unresolved reference) is a damaged file: the
+    first one is named, by its ``#id``, and the file is refused (the reader would otherwise
+    skip the entity and quietly lose geometry).
+    """
     from OCP.Interface import Interface_CheckStatus
 
     checks = reader.Reader().WS().ModelCheckList()
     if not checks.Complies(Interface_CheckStatus.Interface_CheckFail):
-        return
+        return []
+    ids: list[int] | None = None
+
+    def file_id(ordinal: int) -> str:
+        nonlocal ids
+        if ids is None:
+            ids = limits.step_entity_ids(path)
+        return f"#{ids[ordinal - 1]}" if 0 < ordinal <= len(ids) else f"entity {ordinal} (in file order)"
+
+    benign: dict[str, list[str]] = {}
     checks.Start()
     while checks.More():
         check = checks.Value()
         if check.HasFailed():
             number = checks.Number()
-            where = f"entity #{number}: " if number else ""
-            raise InputError(f"damaged STEP file: {where}{str(check.CFail(1)).strip()}", where=path)
+            messages = [str(check.CFail(i)).strip() for i in range(1, check.NbFails() + 1)]
+            if number and all(_BENIGN_CHECK.match(m) for m in messages):
+                benign.setdefault(messages[0].split(") ")[-1], []).append(file_id(number))
+            else:
+                where = f"entity {file_id(number)}: " if number else ""
+                raise InputError(f"damaged STEP file: {where}{messages[0]}", where=path)
         checks.Next()
-    raise InputError("damaged STEP file (the reader found failing entities)", where=path)
+    if not benign:
+        raise InputError("damaged STEP file (the reader found failing entities)", where=path)
+    listed = sorted({i for v in benign.values() for i in v}, key=lambda t: int(t[1:]) if t[1:].isdigit() else 0)
+    shown = ", ".join(listed[:MAX_IDS_NAMED]) + (f" and {len(listed) - MAX_IDS_NAMED} more" if len(listed) > MAX_IDS_NAMED else "")
+    return [Finding("info", "reader-remark",
+                    f"{os.path.basename(path)}: {len(listed)} entit{'y' if len(listed) == 1 else 'ies'} with '$' where a "
+                    f"name string belongs ({shown}); the geometry is not affected and the model is read")]
 
 
 def _check_transfer(path: str, parts: list[Part]) -> None:
@@ -327,7 +416,7 @@ def _from_memory(obj: Any) -> list[Part]:
     raw = []
     for s in shapes:
         for solid in _solids(s):
-            raw.append(("solid", solid, None, None))
+            raw.append(_Raw("solid", solid, None, None, None))
     return _unique_parts(raw)
 
 
@@ -338,9 +427,10 @@ def load_model(source: Any) -> Model:
     file when it is missing, empty, not STEP, truncated, or has no solids.
     """
     unit = None
+    notes: list[Finding] = []
     if isinstance(source, (str, os.PathLike)):
         where = os.fspath(source)
-        parts = _read_step(where)
+        parts, notes = _read_step(where)
         unit = step_length_unit(where)
     else:
         where = "<memory>"
@@ -348,5 +438,5 @@ def load_model(source: Any) -> Model:
     if not parts:
         raise InputError("the model has no solids", where=where)
     _check_size(parts, where)
-    return Model(source=where, parts=parts, file_unit=unit)
+    return Model(source=where, parts=parts, file_unit=unit, findings=notes)
 

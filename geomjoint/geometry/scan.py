@@ -35,6 +35,8 @@ FINDING_CODES = {
     "no-hardware": "info: no bolt modelled, size inferred; warn: and no size matches",
     "name-mismatch": "warn: the size in a bolt's name disagrees with its geometry",
     "grip": "info: the grip and the shortest standard bolt length that fits",
+    "catalog-gap": "warn: the catalog has no data for part of this size's hardware; the checks that need it are skipped",
+    "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
 }
 
 #: protrusion past the nut beyond which the bolt is reported long, in bolt diameters
@@ -57,6 +59,7 @@ class ScanResult:
     washers: list[Washer] = field(default_factory=list)
     hole_count: int = 0
     unmatched_hardware: list[str] = field(default_factory=list)   # bolts/nuts/washers in no joint
+    findings: list[Finding] = field(default_factory=list)          # on the model as a whole (reader remarks)
 
     @property
     def failed(self) -> bool:
@@ -91,7 +94,8 @@ def scan_model(source: Any) -> ScanResult:
         {w.part for j in joints for w in j.washers}
     loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
     return ScanResult(source=model.source, model=model, joints=joints, bolts=bolts, nuts=nuts,
-                      washers=washers, hole_count=len(holes), unmatched_hardware=loose)
+                      washers=washers, hole_count=len(holes), unmatched_hardware=loose,
+                      findings=list(model.findings))
 
 
 def _system_hint(j: Joint, default: str | None = None) -> str | None:
@@ -130,11 +134,14 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
         probes.append((j.hole_diameter, clearance_fits, "clearance hole"))
     if tapped:
         probes.append((tapped[0].hole_diameter, ("nominal", "tap drill"), "tapped hole"))
-    # the preferred system first (a model written in inches), then any
+    head = "socket" if any(l.counterbore for l in j.layers[:1]) else "hex"
+    # the preferred system first (a model written in inches), then any; never a size the
+    # catalog cannot finish (no nut for a through joint, no head or lengths of the kind)
     for system in dict.fromkeys((preferred, None)):
         for diameter, kinds, what in probes:
             for t, how in catalog.nominal_from_hole(diameter, system):
-                if how in kinds and t.series in ("coarse", "UNC"):
+                if how in kinds and t.series in ("coarse", "UNC") and \
+                        not catalog.hardware_gaps(t, head, with_nut=j.kind == "through" and j.nut is None):
                     j.nominal_source = what
                     return t
     return None
@@ -208,15 +215,25 @@ def add_findings(j: Joint, system: str | None = None) -> None:
             need = w / math.cos(math.radians(30)) if j.bolt.head_kind == "hex" else w
             what = f"head of {j.bolt.part}"
         else:
-            hd = catalog.head(t, kind)
-            need = hd.width / math.cos(math.radians(30)) if kind == "hex" else hd.width
-            what = f"{kind} head of {t.designation} ({hd.source.split(';')[0]})"
+            try:
+                hd = catalog.head(t, kind)
+                need = hd.width / math.cos(math.radians(30)) if kind == "hex" else hd.width
+                what = f"{kind} head of {t.designation} ({hd.source.split(';')[0]})"
+            except InputError as exc:
+                add(Finding("warn", "catalog-gap", f"{exc}: the seat of {seat_layer.part} is not checked"))
+                need, what = 0.0, ""
         if need > seat_layer.counterbore + LINEAR_TOL:
             add(Finding("fail", "seat-too-small",
                         f"{what} needs {need:.2f} mm but the counterbore of {seat_layer.part} is "
                         f"{seat_layer.counterbore:.2f} mm"))
     # bolt length: protrusion, engagement, shank reaching the nut, bottoming
-    nut_h = j.nut.height if j.nut else catalog.nut(t).height
+    try:
+        nut_h = j.nut.height if j.nut else catalog.nut(t).height
+    except InputError as exc:
+        if j.kind == "through":
+            add(Finding("warn", "catalog-gap", f"{exc}: the bolt length past the nut is not checked"))
+            return
+        nut_h = 0.0    # a tapped or blind joint has no nut
     if j.kind == "tapped":
         tl = j.layers[-1]
         need_eng = minimum_engagement(t.d, tl.material_hint)
@@ -319,12 +336,14 @@ def scan_to_json(result: ScanResult) -> dict:
             },
             "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in j.findings],
         })
-    return {"joints": joints}
+    return {"joints": joints,
+            "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in result.findings]}
 
 
 def scan_table(result: ScanResult) -> str:
     """A readable table: one block per joint (id, kind, size, grip, layers, findings)."""
     lines = [f"{result.source}: {len(result.model.parts)} parts, {len(result.joints)} joints"]
+    lines += [f"{f.severity:<5} {f.code:<18} {f.message}" for f in result.findings]
     head = f"{'id':<4} {'kind':<8} {'size':<16} {'hole':>7} {'grip':>8}  layers"
     lines += [head, "-" * len(head)]
     for j in result.joints:
