@@ -441,12 +441,14 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
 
         scan = scan_model(job.model)
     check_rules_match(job, [j.id for j in scan.joints] + typed_ids,
-                      typed_parts + [(p.name, p.product) for p in scan.model.parts])
+                      typed_parts + [(p.name, *p.aliases) for p in scan.model.parts])
     excluded = [i for i in typed_ids + [j.id for j in scan.joints] if is_excluded(job, i)]
     analysed = [j for j in scan.joints if not is_excluded(job, j.id)]
     model_groups = [g for g in job.groups if "positions" not in g]
     shares = group_shares(job, analysed, model_groups) if model_groups else {}
-    model_joints, not_analysed = resolve_model_joints(job, analysed, shares)
+    # [materials] globs match a part's readable name or the file's instance / product name
+    aliases = {p.name: p.aliases for p in scan.model.parts}
+    model_joints, not_analysed = resolve_model_joints(job, analysed, shares, aliases)
     from geomjoint.geometry.cones import ConeCache
 
     # the cones (and which neighbours count) are decided here once: the stiffness and the

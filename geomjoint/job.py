@@ -369,11 +369,13 @@ def part_matches(part: str, pattern: str) -> bool:
     return fnmatch.fnmatchcase(part, pattern) or fnmatch.fnmatchcase(part.lower(), pattern.lower())
 
 
-def material_for_part(job: Job, part: str) -> Any:
-    """The material entry whose glob matches ``part`` (the last matching glob wins)."""
+def material_for_part(job: Job, part: str, aliases: tuple[str, ...] = ()) -> Any:
+    """The material entry whose glob matches ``part`` or one of its ``aliases`` (the file's
+    instance and product names); the last matching glob wins."""
     found = None
+    names = (part, *aliases)
     for pattern, value in job.materials.items():
-        if part_matches(part, pattern):
+        if any(part_matches(n, pattern) for n in names):
             found = value
     if found is None:
         found = job.default_material
@@ -409,11 +411,11 @@ def _matches_nothing(pattern: str, names: list[str], kind: str, where: str) -> I
     return InputError(f"{pattern!r} matches no {kind}{near}", where=where)
 
 
-def check_rules_match(job: Job, joint_ids: list[str], parts: list[tuple[str, str | None]]) -> None:
+def check_rules_match(job: Job, joint_ids: list[str], parts: list[tuple[str | None, ...]]) -> None:
     """Every pattern of the job must match something (a rule that matches nothing is a typo).
 
-    ``joint_ids``: every joint of the job and its model (excluded ones too); ``parts``: (name,
-    product name) of every part of the model.  Raises InputError naming the file, the table
+    ``joint_ids``: every joint of the job and its model (excluded ones too); ``parts``: the names
+    of every part of the model (its readable name, then the file's instance and product names).  Raises InputError naming the file, the table
     and the pattern, with the nearest ids or names.
     """
     ids = sorted(set(joint_ids))

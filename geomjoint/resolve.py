@@ -517,20 +517,21 @@ def choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> st
                      f"set fastener in [defaults] or [[fasteners]]", where=job.where("fastener"))
 
 
-def _layer_material(job: Job, part: str, role: str) -> Any:
+def _layer_material(job: Job, part: str, role: str, aliases: tuple[str, ...] = ()) -> Any:
     try:
-        return material_for_part(job, part)
+        return material_for_part(job, part, aliases)
     except InputError:
         if role == "washer":
             return WASHER_MATERIAL
         raise
 
 
-def _model_layers(job: Job, joint) -> list[LayerSpec]:
-    """The scanned layers with the materials the job gives their parts."""
+def _model_layers(job: Job, joint, aliases: dict[str, tuple[str, ...]] | None = None) -> list[LayerSpec]:
+    """The scanned layers with the materials the job gives their parts (a [materials] glob
+    matches a part's readable name or the file's instance / product name, ``aliases``)."""
     layers = []
     for layer in joint.layers:
-        fields = material_layer_fields(_layer_material(job, layer.part, layer.role),
+        fields = material_layer_fields(_layer_material(job, layer.part, layer.role, (aliases or {}).get(layer.part, ())),
                                        f"{job.path.name}: [materials] (part {layer.part!r})")
         layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
     return layers
@@ -559,7 +560,8 @@ def _model_load(job: Job, joint_id: str, group_loads: dict[str, tuple[float, flo
     return lo, hi, shear
 
 
-def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]]) -> ModelJoint:
+def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, float]],
+                aliases: dict[str, tuple[str, ...]] | None = None) -> ModelJoint:
     """A scanned joint + the job → JointSpec (layers with materials, hardware, loads).
 
     Raises InputError when the joint cannot be resolved (see :func:`resolve_model_joints`).
@@ -574,7 +576,7 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
     if joint.nut is None and joint.bolt is not None and not joint.tapped:
         findings.append(_finding("info", "nut-not-modelled", "no nut modelled: catalogue hex nut assumed"))
     notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
-    spec = build_spec(job, joint.id, settings, _model_layers(job, joint), tapped=joint.tapped,
+    spec = build_spec(job, joint.id, settings, _model_layers(job, joint, aliases), tapped=joint.tapped,
                       load=_model_load(job, joint.id, group_loads, where), where=where,
                       geometry=_model_geometry(joint), notes=notes)
     return ModelJoint(joint, spec, findings)
@@ -600,7 +602,8 @@ def joint_own_trouble(exc: InputError, where: str) -> bool:
     return key == "" or key in JOINT_SIZING_KEYS
 
 
-def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[float, float, float]]
+def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[float, float, float]],
+                         aliases: dict[str, tuple[str, ...]] | None = None
                          ) -> tuple[list[ModelJoint], list[UnanalysedJoint]]:
     """Every scanned joint resolved for the engine; one that cannot be is set aside with its reason.
 
@@ -611,7 +614,7 @@ def resolve_model_joints(job: Job, scanned: list, group_loads: dict[str, tuple[f
     unresolved: list[UnanalysedJoint] = []
     for joint in scanned:
         try:
-            resolved.append(model_joint(job, joint, group_loads))
+            resolved.append(model_joint(job, joint, group_loads, aliases))
         except InputError as exc:
             if "[materials]" in str(exc) or not joint_own_trouble(exc, f"{job.path.name}: joint {joint.id}"):
                 raise

@@ -1,11 +1,13 @@
 """`geomjoint init MODEL.step`: a starter job file written beside the model.
 
-Every part is listed under [materials] with a guess from its name or colour (or a TODO),
+Every part is listed under [materials] by its readable name (the product name of the file,
+one glob for all its instances) with a guess from its name or colour (or a TODO),
 every joint found is listed with the fastener inferred for it, and load examples are
 commented in, so a first `geomjoint check` is minutes away.
 """
 from __future__ import annotations
 
+import re
 from datetime import date
 from pathlib import Path
 
@@ -13,6 +15,8 @@ from geomjoint.errors import InputError
 from geomjoint.outputs import write_atomic
 
 GLOB_SPECIALS = str.maketrans({"*": "[*]", "?": "[?]", "[": "[[]"})
+#: the instance number the model reader adds to a product placed several times ("bracket#2")
+INSTANCE_NUMBER = re.compile(r"#\d+$")
 
 
 def _toml_string(text: str) -> str:
@@ -39,17 +43,27 @@ def starter_text(model_path: Path, scan) -> str:
         "",
         "[materials]                   # part name (or glob) -> material; bolts, nuts and washers need none",
     ]
-    seen = set()
+    placed: dict[str, list] = {}          # readable name without its instance number -> instances
     for part in scan.model.parts:
-        name = part.name.split("#")[0]
-        if name in seen or part.name in hardware or name in hardware:
+        placed.setdefault(INSTANCE_NUMBER.sub("", part.name), []).append(part)
+    for name, instances in placed.items():
+        if any(p.name in hardware for p in instances):
             continue
-        seen.add(name)
-        key = _toml_string(name.translate(GLOB_SPECIALS) + ("*" if "#" in part.name else ""))
-        if part.material_hint:
-            lines.append(f"{key} = {_toml_string(part.material_hint)}   # guessed from the name/colour")
+        escaped = name.translate(GLOB_SPECIALS)
+        # one glob for every instance ("bracket", "bracket#2"); "bracket*" only when it
+        # cannot catch another part ("bracket long")
+        if len(instances) == 1:
+            keys = [escaped]
+        elif any(other != name and other.startswith(name) for other in placed):
+            keys = [escaped, escaped + "#*"]
         else:
-            lines.append(f"# {key} = \"\"   # TODO: material of this part (steel, aluminium, gray cast iron, ...)")
+            keys = [escaped + "*"]
+        hint = instances[0].material_hint
+        for key in map(_toml_string, keys):
+            if hint:
+                lines.append(f"{key} = {_toml_string(hint)}   # guessed from the name/colour")
+            else:
+                lines.append(f"# {key} = \"\"   # TODO: material of this part (steel, aluminium, PA6, ...)")
     lines += ["", "# Joints found:"]
     for j in scan.joints:
         source = f" ({j.nominal_source})" if getattr(j, "nominal_source", None) else ""

@@ -466,8 +466,15 @@ def test_material_properties_are_physical():
         assert m.E > 0 and m.source
         if m.yield_strength is not None:
             assert m.yield_strength < m.tensile_strength, name
-        # common practice: metals expand 5e-6 .. 30e-6 per K near room temperature
-        assert 5e-6 < m.thermal_expansion < 30e-6, name
+        if m.family == "metal":
+            # common practice: metals expand 5e-6 .. 30e-6 per K near room temperature
+            assert 5e-6 < m.thermal_expansion < 30e-6, name
+        else:
+            # common practice: unfilled engineering plastics expand 50e-6 .. 150e-6 per K
+            # and have moduli of 1 .. 4 GPa at room temperature
+            assert m.family == "polymer", name
+            assert 50e-6 < m.thermal_expansion < 150e-6, name
+            assert 1000 <= m.E <= 4000, name
 
 
 def test_unknown_material_names_nearest():

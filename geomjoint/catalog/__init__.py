@@ -25,7 +25,7 @@ from geomjoint.catalog.hardware import (
     thread_length,
     washer,
 )
-from geomjoint.catalog.materials import WILEMAN_GENERAL, material, material_names
+from geomjoint.catalog.materials import WILEMAN_GENERAL, creeps_under_preload, material, material_names
 from geomjoint.catalog.tables import MM_PER_INCH, MPA_PER_KPSI
 from geomjoint.catalog.threads import size_label, tap_drill, thread, thread_sizes
 from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, SetScrewDims, Thread, WasherDims

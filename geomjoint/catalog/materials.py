@@ -34,7 +34,7 @@ def _materials() -> tuple[Material, ...]:
             limiting_pressure=number(r, "limiting_pressure"),
             thermal_expansion=number(r, "thermal_expansion"),
             wileman_A=number(r, "wileman_A"), wileman_B=number(r, "wileman_B"),
-            source=f"{r['example']}: {r['source']}",
+            source=f"{r['example']}: {r['source']}", family=r["family"],
         ))
     return tuple(out)
 
@@ -49,6 +49,27 @@ def _aliases() -> Mapping[str, str]:
             if a.strip():
                 out[_key(a)] = r["name"]
     return out
+
+
+#: a clamped part stiffer than this is no polymer: engineering plastics stay below about
+#: 10 GPa unfilled (PA66 + 30 % glass fibre about 10 GPa), the softest structural metal
+#: (magnesium) is about 45 GPa (common practice)
+POLYMER_E_MAX = 12_000.0   # MPa
+
+
+def creeps_under_preload(name: str, E: float | None = None) -> bool:
+    """True for a polymer member: a catalog plastic, or (an inline material) E below POLYMER_E_MAX.
+
+    A preloaded plastic part creeps and relaxes the preload; the closed forms do not
+    model it, so reports carry a caution for such joints.
+
+    >>> creeps_under_preload("acetal"), creeps_under_preload("steel"), creeps_under_preload("E=3 GPa", 3000.0)
+    (True, False, True)
+    """
+    canon = _aliases().get(_key(name)) if isinstance(name, str) else None
+    if canon is not None:
+        return next(m for m in _materials() if m.name == canon).family == "polymer"
+    return E is not None and E < POLYMER_E_MAX
 
 
 def material_names() -> list[str]:

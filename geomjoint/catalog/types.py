@@ -57,6 +57,7 @@ class Material:
     wileman_A: float | None = None  # Wileman, Choudhury & Green (1991) constants
     wileman_B: float | None = None
     source: str = ""
+    family: str = "metal"           # "metal" | "polymer" (a preloaded polymer part creeps)
 
 
 @dataclass(frozen=True)

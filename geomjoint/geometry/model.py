@@ -76,6 +76,11 @@ MATERIAL_WORDS: tuple[tuple[str, str], ...] = (
     ("copper", "copper alloy"),
     ("steel", "steel"),
 )
+#: plastics named in a part name as whole words (short words such as "PLA" are part of
+#: other words: "plate"); the catalog's names
+PLASTIC_WORDS = re.compile(r"(?<![a-z0-9])(pla|petg|abs|pa6|pa66|nylon|pom|acetal|polycarbonate|pmma|acrylic)(?![a-z])")
+_PLASTIC_NAMES = {"pla": "PLA", "petg": "PETG", "abs": "ABS", "pa6": "PA6", "pa66": "PA66", "nylon": "PA6",
+                  "pom": "POM", "acetal": "POM", "polycarbonate": "PC", "pmma": "PMMA", "acrylic": "PMMA"}
 
 
 @dataclass
@@ -116,7 +121,11 @@ class Model:
 
 
 def material_hint(*names: str | None) -> str | None:
-    """A material name hinted at by a part or colour name ("adapter_plate_alu" -> "aluminium")."""
+    """A material name hinted at by a part or colour name ("adapter_plate_alu" -> "aluminium").
+
+    >>> material_hint("adapter_plate_alu"), material_hint("Hotend mount PETG"), material_hint("base plate")
+    ('aluminium', 'PETG', None)
+    """
     for n in names:
         if not n:
             continue
@@ -125,6 +134,9 @@ def material_hint(*names: str | None) -> str | None:
         for word, mat in MATERIAL_WORDS:
             if word in low:
                 return mat
+        m = PLASTIC_WORDS.search(low.replace("_", " "))
+        if m:
+            return _PLASTIC_NAMES[m.group(1)]
     return None
 
 

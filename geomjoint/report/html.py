@@ -21,7 +21,7 @@ from geomjoint.mechanics.joint import JointResult
 from geomjoint.report import plots
 from geomjoint.report.plots import VERDICT_COLOURS, VERDICT_TEXT, ReportUnits, report_units
 from geomjoint.report.json_doc import vdi_numbers
-from geomjoint.report.text import CAUTION
+from geomjoint.report.text import CAUTION, plastic_caution
 
 #: where each member-stiffness method comes from, for the numbers table
 STIFFNESS_SOURCES = {
@@ -555,6 +555,10 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
     """
     u = report_units(units)
     caution = f'<p class="caution" role="note"><strong>Caution.</strong> {_e(CAUTION)}</p>'
+    plastic = plastic_caution(results)
+    if plastic:
+        caution += (f'<p class="caution plastic" role="note"><strong>Caution, plastic parts.</strong> '
+                    f'{_e(plastic)}</p>')
     overview = ""
     if overview_svg:
         svg = re.sub(r"<\?xml[^>]*\?>\s*", "", overview_svg)

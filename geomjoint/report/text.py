@@ -1,11 +1,31 @@
 """The terminal table: one line per joint and a summary line."""
 from __future__ import annotations
 
+from geomjoint.catalog import creeps_under_preload
 from geomjoint.mechanics.joint import JointResult
 from geomjoint.units import MM_PER_INCH
 
 CAUTION = ("Results are engineering estimates for review by a qualified engineer. Follow local codes, "
            "the fastener maker's data and licensed practice; test critical joints.")
+#: said once per report when a preloaded joint clamps a plastic part
+PLASTIC_CAUTION = ("clamp plastic parts ({materials}): a preloaded plastic part creeps, so the preload "
+                   "relaxes over time and with temperature, which these closed forms do not model; "
+                   "defer to the plastic maker's data (creep modulus, limiting surface pressure) and "
+                   "test the joint, or use metal inserts or compression limiters.")
+
+
+def plastic_caution(results: list[JointResult]) -> str | None:
+    """The caution for the joints that clamp a plastic part, or None when there is none."""
+    joints, materials = [], []
+    for r in results:
+        plastic = [l.material for l in r.spec.layers if creeps_under_preload(l.material, l.E)]
+        if plastic:
+            joints.append(r.id)
+            materials += plastic
+    if not joints:
+        return None
+    names = ", ".join(dict.fromkeys(materials))
+    return f"{', '.join(joints)} " + PLASTIC_CAUTION.format(materials=names)
 
 
 def _fmt(x: float | None, spec: str = ".2f") -> str:
@@ -81,5 +101,8 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
     if excluded:
         summary += f"; {len(excluded)} excluded by the job: {', '.join(excluded)}"
     lines.append(summary)
+    plastic = plastic_caution(results)
+    if plastic:
+        lines.append("CAUTION (plastic parts): " + plastic)
     lines.append("CAUTION: " + CAUTION)
     return "\n".join(lines) + "\n"
