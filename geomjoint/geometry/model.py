@@ -56,6 +56,17 @@ _PLACEHOLDER_NAME = re.compile(r"^(=>\[[0-9:]+\]|NAUO[-_]?\d*|\d+|SOLID|SHELL|CO
 #: entity ids named in the one finding on such remarks (the rest are counted)
 MAX_IDS_NAMED = 8
 _BENIGN_CHECK = re.compile(r"^Parameter n\d+\.\d+ \((?:\w+\.)?(?:name|description|id)\) not a quoted String$")
+#: a conversion-based unit (DEGREE, INCH) written with NAMED_UNIT(*): the schema derives no
+#: dimensions there, so the reader complains, but it takes the conversion factor all the same
+#: (a countersink cone in degrees reads to the same volume as in radians: tests)
+_BENIGN_UNIT_CHECK = re.compile(r"^Parameter n\d+\.\d+ \(dimensions\) not an Entity$")
+#: presentation entities (saved views, annotation, styles: OCCT's StepVisual classes) carry
+#: no solid; one with an item of a type the reader does not know loses a view or a colour
+_PRESENTATION_CLASS = "StepVisual_"
+#: what each kind of remark says in the one finding
+_REMARKS = {"name": "'$' where a name string belongs",
+            "unit": "a conversion-based unit written with NAMED_UNIT(*)",
+            "presentation": "a presentation item (saved view, annotation) of a type the reader does not know"}
 
 #: words in a part or colour name that hint at a material (common practice in part naming);
 #: order matters: the first match wins, so "cast iron" is tested before "iron"
@@ -243,7 +254,31 @@ class _Collector:
             self.raw.append(_Raw(name, located, scol, product, instance))
 
 
+def _instance_names_win(raw: list[_Raw]) -> None:
+    """Name by instance where one product is placed several times under names of the user's own.
+
+    A product placed several times is named by the product plus an instance number
+    ("bracket", "bracket#2"), unless every placement has a readable instance name of its
+    own, different from the others and not the product name with a suffix ("bolt v1:2",
+    "Part1.2"): names a user gave each placement (a script's "screw_left", "screw_right")
+    say more than a number.
+    """
+    placements: dict[str, list[_Raw]] = {}
+    for r in raw:
+        if r.product and r.name == r.product:
+            placements.setdefault(r.product, []).append(r)
+    for product, rs in placements.items():
+        names = [r.instance for r in rs]
+        if len(rs) < 2 or not all(names) or len(set(names)) < len(names):
+            continue
+        if any(n != product and n.lower().startswith(product.lower()) for n in names):
+            continue
+        for r in rs:
+            r.name = r.instance
+
+
 def _unique_parts(raw: list[_Raw]) -> list[Part]:
+    _instance_names_win(raw)
     seen: dict[str, int] = {}
     parts = []
     for r in raw:
@@ -337,9 +372,11 @@ def _read_step(path: str) -> tuple[list[Part], list[Finding]]:
 def _check_entities(reader: STEPCAFControl_Reader, path: str) -> list[Finding]:
     """Sort the reader's failed checks into remarks and damage.
 
-    A check whose every failure is a missing name string (``$`` where the schema wants a
-    name, description or id) leaves the geometry as it is: all of them together become one
-    info finding naming the file's own ``#id`` of each entity.  Any other failure (a syntax
+    A check whose every failure leaves the geometry as it is (``$`` where the schema wants
+    a name, description or id; a conversion-based unit written with ``NAMED_UNIT(*)``; a
+    presentation entity with an item the reader does not know) is a remark: all of them
+    together become one info finding naming the file's own ``#id`` of each entity.  The
+    transfer is still checked for lost solids afterwards.  Any other failure (a syntax
     error, an entity of the wrong type, an unresolved reference) is a damaged file: the
     first one is named, by its ``#id``, and the file is refused (the reader would otherwise
     skip the entity and quietly lose geometry).
@@ -364,19 +401,36 @@ def _check_entities(reader: STEPCAFControl_Reader, path: str) -> list[Finding]:
         if check.HasFailed():
             number = checks.Number()
             messages = [str(check.CFail(i)).strip() for i in range(1, check.NbFails() + 1)]
-            if number and all(_BENIGN_CHECK.match(m) for m in messages):
-                benign.setdefault(messages[0].split(") ")[-1], []).append(file_id(number))
+            kind = _remark_kind(check, messages) if number else None
+            if kind:
+                benign.setdefault(kind, []).append(file_id(number))
             else:
                 where = f"entity {file_id(number)}: " if number else ""
                 raise InputError(f"damaged STEP file: {where}{messages[0]}", where=path)
         checks.Next()
     if not benign:
         raise InputError("damaged STEP file (the reader found failing entities)", where=path)
-    listed = sorted({i for v in benign.values() for i in v}, key=lambda t: int(t[1:]) if t[1:].isdigit() else 0)
-    shown = ", ".join(listed[:MAX_IDS_NAMED]) + (f" and {len(listed) - MAX_IDS_NAMED} more" if len(listed) > MAX_IDS_NAMED else "")
-    return [Finding("info", "reader-remark",
-                    f"{os.path.basename(path)}: {len(listed)} entit{'y' if len(listed) == 1 else 'ies'} with '$' where a "
-                    f"name string belongs ({shown}); the geometry is not affected and the model is read")]
+    parts = []
+    for kind, ids_ in benign.items():
+        listed = sorted(set(ids_), key=lambda t: int(t[1:]) if t[1:].isdigit() else 0)
+        shown = ", ".join(listed[:MAX_IDS_NAMED]) + (f" and {len(listed) - MAX_IDS_NAMED} more"
+                                                      if len(listed) > MAX_IDS_NAMED else "")
+        parts.append(f"{len(listed)} entit{'y' if len(listed) == 1 else 'ies'} with {_REMARKS[kind]} ({shown})")
+    return [Finding("info", "reader-remark", f"{os.path.basename(path)}: {'; '.join(parts)}; "
+                                             f"the geometry is not affected and the model is read")]
+
+
+def _remark_kind(check, messages: list[str]) -> str | None:
+    """The kind of a failed check that leaves the geometry as it is ("name", "unit"), else None."""
+    if all(_BENIGN_CHECK.match(m) for m in messages):
+        return "name"
+    entity = check.Entity()
+    kind = entity.DynamicType().Name() if entity is not None else ""
+    if "ConversionBasedUnit" in kind and all(_BENIGN_UNIT_CHECK.match(m) for m in messages):
+        return "unit"
+    if kind.startswith(_PRESENTATION_CLASS):
+        return "presentation"
+    return None
 
 
 def _check_transfer(path: str, parts: list[Part]) -> None:

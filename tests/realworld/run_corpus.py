@@ -23,8 +23,9 @@ For each model the script runs, in a child process (a kernel crash costs one row
    states size and length are read with that size and length (±0.6 mm).
 2. ``init``: the starter job, written into a scratch copy of the model's folder.
 3. ``check``: the starter job with ``default_material = "steel"`` for the parts the
-   starter left as TODO and one axial load on every joint (0 .. 1 kN); the row counts
-   the joints whose checks completed (the JSON document's ``checks`` list not empty).
+   starter left as TODO and one axial load on every joint (0 .. 1 kN; none when the scan
+   found no joint); the row counts the joints whose checks completed (the JSON
+   document's ``checks`` list not empty) and gives the exit code.
 
 Usage::
 
@@ -161,19 +162,22 @@ def _one(path: Path) -> dict:
     with tempfile.TemporaryDirectory(prefix="gj-corpus-") as tmp:
         model = Path(tmp) / path.name
         shutil.copyfile(path, model)
-        code = _quiet(cli.main, ["init", str(model)])
+        code, said = _quiet(cli.main, ["init", str(model)])
         job = model.with_suffix(".toml")
         if code != 0 or not job.exists():
-            row["note"] = f"init exit {code}"
+            row["note"] = f"init exit {code}: {said}"
             row["seconds"] = round(time.perf_counter() - t0, 1)
             return row
         text = job.read_text()
         text = text.replace("[defaults]", 'default_material = "steel"\n\n[defaults]', 1)
-        text += '\n[[load]]\njoints = "*"\naxial = { min = "0 kN", max = "1 kN" }\n'
+        if scan.joints:   # a load rule that matches nothing is an error of the job
+            text += '\n[[load]]\njoints = "*"\naxial = { min = "0 kN", max = "1 kN" }\n'
         job.write_text(text)
         out = Path(tmp) / "out"
-        code = _quiet(cli.main, ["check", str(job), "--out", str(out), "--workers", "1"])
+        code, said = _quiet(cli.main, ["check", str(job), "--out", str(out), "--workers", "1"])
         row["check_exit"] = code
+        if code not in (0, 1):
+            row["note"] = f"check: {said.replace(str(tmp), '')}"[:200]
         results = out / "results.json"
         if results.exists():
             doc = json.loads(results.read_text())
@@ -184,17 +188,20 @@ def _one(path: Path) -> dict:
     return row
 
 
-def _quiet(fn, argv) -> int:
-    """Run a command with its terminal output swallowed (the table is the output)."""
+def _quiet(fn, argv) -> tuple[int, str]:
+    """Run a command with its terminal output kept aside (the table is the output): exit
+    code and the last line it printed on stderr."""
     import contextlib
     import io
 
-    buf = io.StringIO()
-    with contextlib.redirect_stdout(buf), contextlib.redirect_stderr(buf):
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
         try:
-            return fn(argv)
+            code = fn(argv)
         except SystemExit as exc:
-            return int(exc.code or 0)
+            code = int(exc.code or 0)
+    lines = [l for l in err.getvalue().splitlines() if l.strip()]
+    return code, (lines[-1] if lines else "")
 
 
 # ----------------------------------------------------------------------------- parent side
