@@ -3,7 +3,7 @@
 Public API (each returns plain dataclasses; CAD libraries load only when a model is used)::
 
     from geomjoint import load_model, find_joints, load_job, analyze
-    model = load_model("bracket.step")          # or an in-memory cadquery Assembly / Workplane / Shape
+    model = load_model("bracket.step")          # or a cadquery Assembly / Workplane / Shape, a build123d object
     scan = find_joints(model)                   # joints, stack-ups, hardware, findings
     job = load_job("bracket.toml")              # or parse_job(toml_text)
     results = analyze(job, model)               # one JointResult per joint
@@ -16,7 +16,8 @@ __all__ = ["load_model", "find_joints", "load_job", "parse_job", "analyze"]
 
 
 def load_model(source):
-    """Read a STEP file (path) or take an in-memory cadquery Assembly / Workplane / Shape."""
+    """Read a STEP file (path) or take an in-memory model: a cadquery Assembly / Workplane /
+    Shape, a build123d Part / Compound, or any object with an OCP shape in ``.wrapped``."""
     from geomjoint.geometry.model import load_model as _load
 
     return _load(source)

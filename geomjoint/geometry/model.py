@@ -10,7 +10,9 @@ finding naming the file's own ``#id``; a file the kernel cannot transfer, or tha
 solids, is refused (exit 2) naming the file.  The document's length unit is set to millimetres
 before the transfer, so a file written in inches or metres comes back in mm.
 An in-memory cadquery Assembly, Workplane or Shape goes through the same path
-(an Assembly is converted to an XCAF document first).
+(an Assembly is converted to an XCAF document first); a build123d object (or anything
+holding an OCP shape in ``.wrapped``) is read from that shape, its children by their
+``label``.
 """
 from __future__ import annotations
 
@@ -477,8 +479,18 @@ def _from_memory(obj: Any) -> list[Part]:
         shapes = [obj.wrapped]
     elif isinstance(obj, TopoDS_Shape):
         shapes = [obj]
+    elif _wraps_shape(obj) or (isinstance(obj, (list, tuple)) and obj and all(map(_wraps_shape, obj))):
+        # build123d (Part, Compound with children, Solid ...) and any object that exposes
+        # its OCP shape as `.wrapped`: labels name the parts, children are placed by their
+        # parents' locations
+        raw: list[_Raw] = []
+        for item in (obj if isinstance(obj, (list, tuple)) else [obj]):
+            _walk_wrapped(item, TopLoc_Location(), "solid", raw)
+        return _unique_parts(raw)
     else:
-        raise InputError(f"cannot read a model from a {type(obj).__name__}", where="<memory>")
+        raise InputError(f"cannot read a model from a {type(obj).__name__} (give a STEP file, a cadquery "
+                         f"Assembly / Workplane / Shape, or an object with an OCP shape in .wrapped, "
+                         f"such as a build123d Part or Compound)", where="<memory>")
     raw = []
     for s in shapes:
         for solid in _solids(s):
@@ -486,8 +498,31 @@ def _from_memory(obj: Any) -> list[Part]:
     return _unique_parts(raw)
 
 
+def _wraps_shape(obj: Any) -> bool:
+    """True for an object that holds an OCP shape in ``.wrapped`` (build123d, cadquery)."""
+    return isinstance(getattr(obj, "wrapped", None), TopoDS_Shape)
+
+
+def _walk_wrapped(obj: Any, loc: TopLoc_Location, name: str, raw: list[_Raw]) -> None:
+    """Collect the solids of a ``.wrapped`` object; a build123d Compound's children in turn."""
+    label = readable(getattr(obj, "label", None)) or name
+    shape: TopoDS_Shape = obj.wrapped
+    children = [c for c in (getattr(obj, "children", None) or ()) if _wraps_shape(c)]
+    if children:
+        # a child's shape is placed relative to its parent: compose the parent's location
+        here = loc.Multiplied(shape.Location())
+        for child in children:
+            _walk_wrapped(child, here, label, raw)
+        return
+    located = shape.Moved(loc) if not loc.IsIdentity() else shape
+    for solid in _solids(located):
+        raw.append(_Raw(label, solid, None, readable(getattr(obj, "label", None)), None))
+
+
 def load_model(source: Any) -> Model:
-    """Read a STEP file (path) or an in-memory cadquery Assembly / Workplane / Shape.
+    """Read a STEP file (path) or an in-memory model: a cadquery Assembly / Workplane /
+    Shape, a build123d Part / Compound (children placed by their parents, labels as part
+    names), or any object with an OCP shape in ``.wrapped``.
 
     Lengths come back in mm whatever the file's unit.  Raises InputError naming the
     file when it is missing, empty, not STEP, truncated, or has no solids.

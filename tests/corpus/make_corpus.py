@@ -20,6 +20,7 @@ script gives the same bytes on every run. All scenarios are invented (a small pl
 from __future__ import annotations
 
 import json
+import math
 import random
 import re
 from pathlib import Path
@@ -398,6 +399,192 @@ def job_cases() -> list[dict]:
     for c in cases:
         c["names"] = [n for n in c["names"] if n]
     return cases
+
+
+
+# ---------------------------------------------------------------- real-export quirks (reading and names)
+# Reproductions of what real CAD exports carry, for the reading tests (tests/test_realworld_reading.py).
+# Each builder writes one STEP file at `path` (a test's tmp folder) and returns what the test needs;
+# none of these files is part of the corpus manifest. The scenario is an invented plate pair held
+# by modelled bolts.
+
+#: M10 hex bolt of the quirk models: ISO 4017 s = 16, k = 6.4 (from memory); nut ISO 4032 m = 8.4
+M10_HEAD = (16.0, 6.4)
+M10_NUT_HEIGHT = 8.4
+
+
+def _hex_bolt(d: float, length: float, s: float, k: float):
+    """Hex head (across flats s, height k) on z >= 0, shank of diameter d to z = -length."""
+    import math
+
+    import cadquery as cq
+
+    head = cq.Workplane("XY").polygon(6, s / math.cos(math.radians(30))).extrude(k)
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def _socket_screw(d: float, length: float, dk: float, k: float):
+    import cadquery as cq
+
+    head = cq.Workplane("XY").circle(dk / 2).extrude(k)
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def bolted_pair_assembly(bolt_name: str = "bolt", repeat_product: bool = True):
+    """Two 10 mm steel plates with two M10 clearance holes, two M10x30 hex bolts and nuts.
+
+    With ``repeat_product`` the two bolts (and the two nuts) are one product placed twice,
+    as CAD systems write a part used twice.
+    """
+    import math
+
+    import cadquery as cq
+
+    holes = [(-12.0, 0.0), (12.0, 0.0)]
+    a = cq.Assembly(name="bracket_assembly")
+    a.add(plate(holes, PLATE[2], size=(50.0, 30.0, 10.0)), name="upper_plate")
+    a.add(plate(holes, 0.0, size=(50.0, 30.0, 10.0)), name="lower_plate")
+    bolt = _hex_bolt(D_M10, 30.0, *M10_HEAD)
+    nut = (cq.Workplane("XY").polygon(6, M10_HEAD[0] / math.cos(math.radians(30))).extrude(M10_NUT_HEIGHT)
+           .faces(">Z").workplane().hole(D_M10))
+    for i, (x, y) in enumerate(holes, 1):
+        b = bolt if repeat_product else _hex_bolt(D_M10, 30.0, *M10_HEAD)
+        n = nut if repeat_product else nut.translate((0, 0, 0))
+        a.add(b, name=f"{bolt_name}_{i}", loc=cq.Location(cq.Vector(x, y, 2 * PLATE[2])))
+        a.add(n, name=f"nut_{i}", loc=cq.Location(cq.Vector(x, y, 0.0), cq.Vector(1, 0, 0), 180))
+    return a
+
+
+def quirk_dollar_names(path: Path, renumber: bool = True) -> dict:
+    """A cadquery STEP post-edited as some writers write it: ``$`` for the name of every
+    PRODUCT_DEFINITION_SHAPE and ITEM_DEFINED_TRANSFORMATION.  With ``renumber`` every
+    entity id is moved to 10 n + 7, so the file's #ids differ from the reader's ordinals.
+
+    Returns the #ids of the edited entities.
+    """
+    write_step(bolted_pair_assembly(), path)
+    text = path.read_text()
+    if renumber:
+        text = re.sub(r"#(\d+)", lambda m: f"#{10 * int(m.group(1)) + 7}", text)
+    edited = []
+
+    def blank(m):
+        edited.append(int(m.group(1)))
+        return f"#{m.group(1)} = {m.group(2)}($,"
+
+    text = re.sub(r"#(\d+) = (PRODUCT_DEFINITION_SHAPE|ITEM_DEFINED_TRANSFORMATION)\('[^']*',", blank, text)
+    path.write_text(text)
+    return {"ids": sorted(edited)}
+
+
+def quirk_damaged_entity(path: Path) -> int:
+    """The renumbered file of :func:`quirk_dollar_names` with one DIRECTION given a third
+    parameter (real damage): returns that entity's #id."""
+    quirk_dollar_names(path)
+    text = path.read_text()
+    m = re.search(r"#(\d+) = DIRECTION\('([^']*)',(\([^)]*\))\);", text)
+    text = text[:m.start()] + f"#{m.group(1)} = DIRECTION('{m.group(2)}',{m.group(3)},5.);" + text[m.end():]
+    path.write_text(text)
+    return int(m.group(1))
+
+
+def quirk_degree_unit(path: Path) -> float:
+    """A plate with a 90 degree countersink, written with its plane-angle unit as a
+    conversion-based DEGREE with ``NAMED_UNIT(*)`` (as one CAD system writes it) and the
+    cone's semi-angle in degrees.  Returns the volume of the plate as cadquery made it, mm^3."""
+    import cadquery as cq
+
+    solid = cq.Workplane("XY").box(30, 30, 10).faces(">Z").workplane().cskHole(5.5, 11.0, 90).val()
+    write_shape(solid.wrapped, path)
+    text = path.read_text()
+    text, n = re.subn(r"(CONICAL_SURFACE\('[^']*',#\d+,[^,]+,)([0-9.Ee+-]+)\)",
+                      lambda m: f"{m.group(1)}{math.degrees(float(m.group(2))):.9f})", text)
+    assert n >= 1, "no cone written"
+    unit = re.search(r"#(\d+) = \( NAMED_UNIT\(\*\) PLANE_ANGLE_UNIT\(\) SI_UNIT\(\$,\.RADIAN\.\) \);", text)
+    i = unit.group(1)
+    text = text.replace(unit.group(0),
+                        f"#{i} = ( CONVERSION_BASED_UNIT('DEGREE',#{i}01) NAMED_UNIT(*) PLANE_ANGLE_UNIT() );\n"
+                        f"#{i}01 = PLANE_ANGLE_MEASURE_WITH_UNIT(PLANE_ANGLE_MEASURE(0.0174532925199433),#{i}02);\n"
+                        f"#{i}02 = ( NAMED_UNIT(*) PLANE_ANGLE_UNIT() SI_UNIT($,.RADIAN.) );")
+    path.write_text(text)
+    return solid.Volume()
+
+
+def quirk_cad_naming(path: Path, style: str) -> dict:
+    """The bolted pair written with the product / instance names of a CAD system.
+
+    style: "numbered" (instances named by occurrence id, NAUO1, NAUO2 ...; products by part
+    name, as one widely used commercial system writes them), "versioned" (products
+    "bolt v1", instances "bolt v1:1", "bolt v1:2", as a cloud CAD system writes them),
+    "own" (a script's own instance names, as cadquery writes them), "unnamed" (no product
+    or instance names at all).  Returns the expected part names in file order.
+    """
+    write_step(bolted_pair_assembly(bolt_name="bolt" if style != "own" else "bolt_left"), path)
+    text = path.read_text()
+    nauo = re.compile(r"NEXT_ASSEMBLY_USAGE_OCCURRENCE\('([^']*)','([^']*)','([^']*)',")
+    product = re.compile(r"PRODUCT\('([^']*)','([^']*)',")
+    count = [0]
+    if style == "numbered":
+        def inst(m):
+            count[0] += 1
+            return f"NEXT_ASSEMBLY_USAGE_OCCURRENCE('NAUO{count[0]}',' ',' ',"
+        text = nauo.sub(inst, text)
+        text = product.sub(lambda m: f"PRODUCT('{_sw_name(m.group(1))}','{_sw_name(m.group(1))}',", text)
+        names = ["plate_upper-S235", "plate_lower-S235", "hex_bolt_M10x30-ISO4017",
+                 "hex_nut_M10-ISO4032", "hex_bolt_M10x30-ISO4017#2", "hex_nut_M10-ISO4032#2"]
+    elif style == "versioned":
+        seen: dict[str, int] = {}
+
+        def inst(m):
+            base = _versioned(m.group(2))
+            seen[base] = seen.get(base, 0) + 1
+            return f"NEXT_ASSEMBLY_USAGE_OCCURRENCE('{base}:{seen[base]}','{base}:{seen[base]}','',"
+        text = nauo.sub(inst, text)
+        text = product.sub(lambda m: f"PRODUCT('{_versioned(m.group(1))}','{_versioned(m.group(1))}',", text)
+        names = ["upper_plate v1", "lower_plate v1", "bolt v1", "nut v1", "bolt v1#2", "nut v1#2"]
+    elif style == "own":
+        names = ["upper_plate", "lower_plate", "bolt_left_1", "nut_1", "bolt_left_2", "nut_2"]
+    elif style == "unnamed":
+        text = nauo.sub("NEXT_ASSEMBLY_USAGE_OCCURRENCE('','','',", text)
+        text = product.sub("PRODUCT('','',", text)
+        names = ["part", "part#2", "part#3", "part#4", "part#5", "part#6"]
+    else:
+        raise ValueError(style)
+    path.write_text(text)
+    return {"names": names}
+
+
+def _sw_name(name: str) -> str:
+    """Part names as a fastener library of a commercial system gives them (invented models)."""
+    return {"upper_plate": "plate_upper-S235", "lower_plate": "plate_lower-S235",
+            "bolt_1": "hex_bolt_M10x30-ISO4017", "nut_1": "hex_nut_M10-ISO4032"}.get(name, name)
+
+
+def _versioned(name: str) -> str:
+    return re.sub(r"_\d+$", "", name) + " v1"
+
+
+def quirk_small_metric(path: Path, clearance: float = 2.9, tapped: float | None = None,
+                       screw: tuple[float, float, float, float] | None = None) -> None:
+    """A 3 mm cover on a 6 mm base in a millimetre model with small holes (no hardware, or a
+    modelled socket screw ``(d, length, dk, k)``): the cover has a ``clearance`` hole, the base
+    the same hole or, with ``tapped``, a blind tapped (tap-drill) hole of that diameter."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="sensor_mount")
+    cover = cq.Workplane("XY").box(20, 20, 3, centered=(True, True, False)).faces(">Z").workplane().hole(clearance)
+    a.add(cover.translate((0, 0, 6)), name="cover")
+    base = cq.Workplane("XY").box(20, 20, 6, centered=(True, True, False))
+    if tapped is None:
+        base = base.faces(">Z").workplane().hole(clearance)
+    else:
+        base = base.faces(">Z").workplane().hole(tapped, 5.0)
+    a.add(base, name="base")
+    if screw is not None:
+        d, length, dk, k = screw
+        a.add(_socket_screw(d, length, dk, k), name=f"socket_screw_M{d:g}x{length:g}",
+              loc=cq.Location(cq.Vector(0, 0, 9)))
+    write_step(a, path)
 
 
 def main() -> None:
