@@ -137,6 +137,7 @@ def head(t: Thread, kind: str = "hex") -> HeadDims:
 def set_screw(t: Thread, point: str = "cup") -> SetScrewDims:
     """Hexagon socket set screw of thread `t`: ISO 4026 (flat point) or ISO 4029 (cup point).
 
+    >>> from geomjoint.catalog.threads import thread
     >>> set_screw(thread("M6")).key
     3.0
     """
@@ -372,6 +373,7 @@ def hardware_gaps(t: Thread, kind: str = "hex", with_nut: bool = True) -> list[s
     that head kind and, for a through joint (``with_nut``), the nut.  Size inference uses
     this to never land on a size it cannot finish; a modelled size with gaps gets a finding.
 
+    >>> from geomjoint.catalog.threads import thread
     >>> hardware_gaps(thread("M12"))
     []
     >>> hardware_gaps(thread("#0-80 UNF"), "hex")
