@@ -82,6 +82,16 @@ def test_plane_angle_unit_is_not_taken_for_the_length_unit(tmp_path):
     assert step_length_unit(path) == "mm"
 
 
+@pytest.mark.parametrize("style", ["conversion", "multiline"])
+def test_length_unit_as_other_writers_spell_it(tmp_path, style):
+    path = tmp_path / f"unit_{style}.step"
+    mc.quirk_unit_spelling(path, style)
+    assert step_length_unit(path) == "mm"
+    # the model reads the same: the plates are 10 mm thick (invented demo plates)
+    [joint, _] = scan_model(path).joints
+    assert joint.grip == pytest.approx(20.0) and joint.nominal == "M10"
+
+
 # ----------------------------------------------------------------------------- names
 
 @pytest.mark.parametrize("style", ["numbered", "versioned", "own", "unnamed"])

@@ -332,20 +332,53 @@ def _new_doc() -> TDocStd_Document:
     return doc
 
 
-def step_length_unit(path: str) -> str | None:
-    """The length unit named in a STEP file's unit context ("mm", "inch", "m", "cm", "foot")."""
-    with open(path, "rb") as fh:
-        text = fh.read(2_000_000).upper()
-    # the conversion-based unit of the same complex entity as LENGTH_UNIT (a DEGREE next to
-    # a millimetre is the plane-angle unit, not a length)
-    for m in re.finditer(rb"CONVERSION_BASED_UNIT\s*\(\s*'([A-Z]+)'[^;]*;", text):
-        start = text.rfind(b";", 0, m.start()) + 1
-        if b"LENGTH_UNIT" in text[start:m.end()]:
-            return {b"INCH": "inch", b"FOOT": "foot", b"FEET": "foot"}.get(m.group(1), m.group(1).decode().lower())
-    m = re.search(rb"LENGTH_UNIT\s*\(\s*\)\s*NAMED_UNIT\s*\(\s*\*\s*\)\s*SI_UNIT\s*\(\s*(\.[A-Z]+\.|\$)\s*,\s*\.METRE\.",
-                  text)
+#: bytes read from each end of a file for its unit context (writers put the units at the
+#: start or at the end of the DATA section)
+UNIT_SNIFF_BYTES = 2_000_000
+#: names of conversion-based and SI length units -> the short name used here
+_UNIT_NAMES = {b"INCH": "inch", b"FOOT": "foot", b"FEET": "foot", b"MILLIMETRE": "mm", b"MILLIMETER": "mm",
+               b"CENTIMETRE": "cm", b"CENTIMETER": "cm", b"METRE": "m", b"METER": "m"}
+_SI_PREFIX_UNITS = {b".MILLI.": "mm", b".CENTI.": "cm", b"$": "m", b".MICRO.": "um", b".KILO.": "km"}
+
+
+def _unit_of_statement(stmt: bytes) -> str | None:
+    """The length unit one unit entity names, or None when it is no length unit."""
+    if b"LENGTH_UNIT" not in stmt:
+        return None
+    m = re.search(rb"CONVERSION_BASED_UNIT\s*\(\s*'([A-Z ]+)'", stmt)
     if m:
-        return {b".MILLI.": "mm", b".CENTI.": "cm", b"$": "m"}.get(m.group(1), m.group(1).decode().strip(".").lower())
+        name = m.group(1).strip()
+        return _UNIT_NAMES.get(name, name.decode().lower())
+    m = re.search(rb"SI_UNIT\s*\(\s*(?:\*\s*,\s*)?(\.[A-Z]+\.|\$)\s*,\s*\.METRE\.", stmt)
+    if m:
+        return _SI_PREFIX_UNITS.get(m.group(1), m.group(1).decode().strip(".").lower())
+    return None
+
+
+def step_length_unit(path: str) -> str | None:
+    """The length unit of a STEP file's unit context ("mm", "inch", "m", "cm", "foot").
+
+    The unit the GLOBAL_UNIT_ASSIGNED_CONTEXT refers to, else the first length unit: the
+    statement that holds LENGTH_UNIT (a DEGREE conversion next to it is the plane-angle
+    unit; a complex entity may span lines).
+    """
+    size = os.path.getsize(path)
+    with open(path, "rb") as fh:
+        text = fh.read(UNIT_SNIFF_BYTES)
+        if size > UNIT_SNIFF_BYTES:
+            fh.seek(max(UNIT_SNIFF_BYTES, size - UNIT_SNIFF_BYTES))
+            text += b";" + fh.read()
+    text = text.upper()
+    statements = {m.group(1): m.group(2) for m in re.finditer(rb"#(\d+)\s*=\s*([^;]*);", text)}
+    for m in re.finditer(rb"GLOBAL_UNIT_ASSIGNED_CONTEXT\s*\(\s*\(([^)]*)\)", text):
+        for ref in re.findall(rb"#(\d+)", m.group(1)):
+            unit = _unit_of_statement(statements.get(ref, b""))
+            if unit:
+                return unit
+    for stmt in statements.values():
+        unit = _unit_of_statement(stmt)
+        if unit:
+            return unit
     return None
 
 

@@ -587,6 +587,30 @@ def quirk_small_metric(path: Path, clearance: float = 2.9, tapped: float | None 
     write_step(a, path)
 
 
+def quirk_unit_spelling(path: Path, style: str) -> None:
+    """The bolted pair with its millimetre unit spelled as other writers spell it.
+
+    style: "conversion" (a conversion-based 'MILLIMETRE', as one translation library writes
+    it), "multiline" (each unit entity over several lines, after an unused METRE unit, as a
+    cloud CAD system writes it).
+    """
+    write_step(bolted_pair_assembly(), path)
+    text = path.read_text()
+    si = re.compile(r"#(\d+) = \( LENGTH_UNIT\(\) NAMED_UNIT\(\*\) SI_UNIT\(\.MILLI\.,\.METRE\.\) \);")
+    if style == "conversion":
+        text = si.sub(lambda m: f"#{m.group(1)} = (CONVERSION_BASED_UNIT('MILLIMETRE',#{m.group(1)}01)"
+                                f"LENGTH_UNIT()NAMED_UNIT(#{m.group(1)}02));\n"
+                                f"#{m.group(1)}01 = LENGTH_MEASURE_WITH_UNIT(LENGTH_MEASURE(1.0),#{m.group(1)}03);\n"
+                                f"#{m.group(1)}02 = DIMENSIONAL_EXPONENTS(1.,0.,0.,0.,0.,0.,0.);\n"
+                                f"#{m.group(1)}03 = ( LENGTH_UNIT() NAMED_UNIT(*) SI_UNIT(.MILLI.,.METRE.) );", text)
+    elif style == "multiline":
+        text = si.sub(lambda m: f"#{m.group(1)}09=(\nLENGTH_UNIT()\nNAMED_UNIT(*)\nSI_UNIT($,.METRE.)\n);\n"
+                                f"#{m.group(1)}=(\nLENGTH_UNIT()\nNAMED_UNIT(*)\nSI_UNIT(.MILLI.,.METRE.)\n);", text)
+    else:
+        raise ValueError(style)
+    path.write_text(text)
+
+
 def main() -> None:
     cases = step_cases() + job_cases()
     (HERE / "manifest.json").write_text(json.dumps(cases, indent=1) + "\n")
