@@ -252,6 +252,17 @@ def test_size_without_nut_data_is_a_finding_not_a_crash(tmp_path):
     assert gap and "no nut dimensions for M7" in gap[0].message and gap[0].severity == "warn"
 
 
+def test_a_catalogue_error_during_the_scan_names_the_file(tmp_path, monkeypatch):
+    path = tmp_path / "m25.step"
+    mc.quirk_small_metric(path, clearance=2.9)
+
+    def no_data(*args, **kwargs):
+        raise InputError("no clearance data")
+    monkeypatch.setattr(catalog, "nominal_from_hole", no_data)
+    with pytest.raises(InputError, match=r"m25\.step: no clearance data"):
+        scan_model(path)
+
+
 # ----------------------------------------------------------------------------- plastics
 
 def test_plastics_in_the_catalogue():

@@ -69,6 +69,15 @@ class ScanResult:
 def scan_model(source: Any) -> ScanResult:
     """Find every bolted joint of a STEP file or an in-memory cadquery model."""
     model = source if isinstance(source, Model) else load_model(source)
+    try:
+        return _scan(model)
+    except InputError as exc:
+        if model.source in str(exc):
+            raise
+        raise InputError(str(exc), where=model.source) from None   # every error names the file
+
+
+def _scan(model: Model) -> ScanResult:
     holes, bolts, nuts, washers = [], [], [], []
     hints = {}
     for part in model.parts:
