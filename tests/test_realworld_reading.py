@@ -76,6 +76,16 @@ def test_degree_unit_with_named_unit_star_reads_to_the_same_geometry(tmp_path):
     assert props.Mass() == pytest.approx(volume, rel=1e-9)
 
 
+@pytest.mark.parametrize("style, words", [("solid_angle", "solid-angle unit"), ("presentation", "presentation item")])
+def test_entities_without_geometry_are_remarks(tmp_path, style, words):
+    path = tmp_path / f"{style}.step"
+    mc.quirk_remark_entities(path, style)
+    scan = scan_model(path)
+    [finding] = scan.findings
+    assert finding.code == "reader-remark" and words in finding.message
+    assert len(scan.model.parts) == 6 and len(scan.joints) == 2     # nothing lost
+
+
 def test_plane_angle_unit_is_not_taken_for_the_length_unit(tmp_path):
     path = tmp_path / "degree_unit.step"
     mc.quirk_degree_unit(path)

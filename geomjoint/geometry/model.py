@@ -68,7 +68,11 @@ _PRESENTATION_CLASS = "StepVisual_"
 #: what each kind of remark says in the one finding
 _REMARKS = {"name": "'$' where a name string belongs",
             "unit": "a conversion-based unit written with NAMED_UNIT(*)",
-            "presentation": "a presentation item (saved view, annotation) of a type the reader does not know"}
+            "presentation": "a presentation item (saved view, annotation) of a type the reader does not know",
+            "solid angle": "a solid-angle unit the reader cannot parse (no geometry uses it)"}
+#: the solid-angle unit (steradian) is part of every unit context, but no shape entity has
+#: a solid-angle parameter: one the reader cannot parse changes nothing
+_SOLID_ANGLE_CLASS = "SolidAngleUnit"
 
 #: words in a part or colour name that hint at a material (common practice in part naming);
 #: order matters: the first match wins, so "cast iron" is tested before "iron"
@@ -409,7 +413,8 @@ def _check_entities(reader: STEPCAFControl_Reader, path: str) -> list[Finding]:
 
     A check whose every failure leaves the geometry as it is (``$`` where the schema wants
     a name, description or id; a conversion-based unit written with ``NAMED_UNIT(*)``; a
-    presentation entity with an item the reader does not know) is a remark: all of them
+    presentation entity with an item the reader does not know; a solid-angle unit it
+    cannot parse) is a remark: all of them
     together become one info finding naming the file's own ``#id`` of each entity.  The
     transfer is still checked for lost solids afterwards.  Any other failure (a syntax
     error, an entity of the wrong type, an unresolved reference) is a damaged file: the
@@ -465,6 +470,8 @@ def _remark_kind(check, messages: list[str]) -> str | None:
         return "unit"
     if kind.startswith(_PRESENTATION_CLASS):
         return "presentation"
+    if _SOLID_ANGLE_CLASS in kind:
+        return "solid angle"
     return None
 
 

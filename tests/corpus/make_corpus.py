@@ -611,6 +611,32 @@ def quirk_unit_spelling(path: Path, style: str) -> None:
     path.write_text(text)
 
 
+def quirk_remark_entities(path: Path, style: str) -> None:
+    """The bolted pair with entities the reader complains about but that carry no geometry.
+
+    style: "solid_angle" (the steradian unit with its dimensions given by reference, parsed
+    as a wrong parameter count, as a translation library writes it), "presentation" (a saved
+    view whose items include an entity of the wrong type, as one commercial system writes
+    its annotation views).
+    """
+    write_step(bolted_pair_assembly(), path)
+    text = path.read_text()
+    if style == "solid_angle":
+        text, n = re.subn(r"#(\d+) = \( NAMED_UNIT\(\*\) SI_UNIT\(\$,\.STERADIAN\.\) SOLID_ANGLE_UNIT\(\) \);",
+                          lambda m: f"#{m.group(1)} = (NAMED_UNIT(#{m.group(1)}01)SOLID_ANGLE_UNIT()SI_UNIT($,.STERADIAN.));\n"
+                                    f"#{m.group(1)}01 = DIMENSIONAL_EXPONENTS(0.,0.,0.,0.,0.,0.,0.);", text)
+    elif style == "presentation":
+        product = re.search(r"#(\d+) = PRODUCT\(", text).group(1)
+        context = re.search(r"#(\d+) = \( GEOMETRIC_REPRESENTATION_CONTEXT", text).group(1)
+        text, n = text.replace("ENDSEC;\nEND-ISO-10303-21;",
+                               f"#999001 = DRAUGHTING_MODEL('Default',(#{product}),#{context});\n"
+                               "ENDSEC;\nEND-ISO-10303-21;"), 1
+    else:
+        raise ValueError(style)
+    assert n >= 1, style
+    path.write_text(text)
+
+
 def main() -> None:
     cases = step_cases() + job_cases()
     (HERE / "manifest.json").write_text(json.dumps(cases, indent=1) + "\n")
