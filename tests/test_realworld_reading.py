@@ -169,6 +169,8 @@ def test_report_and_marked_up_model_use_the_readable_names(tmp_path):
     assert "plate_upper-S235" in html and "NAUO" not in html
     step = next(p for p in out.glob("*.step"))
     assert "plate_upper-S235" in step.read_text(errors="replace")
+    glb = next(out.glob("*.glb")).read_bytes()
+    assert b"plate_upper-S235" in glb and b"NAUO" not in glb
 
 
 # ----------------------------------------------------------------------------- sizes

@@ -123,7 +123,7 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
         if hint is not None and abs(hint.d - b.d) <= 0.03 * hint.d:
             j.nominal_source = "bolt"
             return catalog.thread(hint.designation)
-        t = thread_for_diameter(b.d, "inch" if (hint and "-" in hint.designation) else _system_hint(j))
+        t = thread_for_diameter(b.d, "inch" if (hint and "-" in hint.designation) else _system_hint(j, default_system))
         if t is None:
             t = thread_for_diameter(b.d)
         if hint is not None and t is not None and abs(hint.d - b.d) > 0.03 * hint.d:
