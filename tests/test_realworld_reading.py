@@ -250,6 +250,19 @@ def test_inference_never_lands_on_a_size_it_cannot_finish():
     assert catalog.hardware_gaps(catalog.thread("M12"), "hex") == []
 
 
+def test_no_size_is_inferred_that_no_standard_length_can_finish(tmp_path):
+    """Two 30 mm blocks with a 2.0 mm hole through both: the ISO 273 coarse clearance of M1.6,
+    but no M1.6 bolt reaches 60 mm (ISO 4017 lengths end at 16 mm, from memory)."""
+    path = tmp_path / "pin_hole.step"
+    a = cq.Assembly(name="pin_hole")
+    a.add(mc.plate([(0.0, 0.0)], 30.0, dia=2.0, size=(30.0, 30.0, 30.0)), name="upper_block")
+    a.add(mc.plate([(0.0, 0.0)], 0.0, dia=2.0, size=(30.0, 30.0, 30.0)), name="lower_block")
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.nominal is None
+    assert [f.severity for f in joint.findings if f.code == "no-hardware"] == ["warn"]
+
+
 def test_size_without_nut_data_is_a_finding_not_a_crash(tmp_path):
     """A modelled M7 bolt (ISO 261 second choice; the catalog has no M7 nut) through two plates."""
     path = tmp_path / "m7.step"

@@ -145,15 +145,34 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
         probes.append((tapped[0].hole_diameter, ("nominal", "tap drill"), "tapped hole"))
     head = "socket" if any(l.counterbore for l in j.layers[:1]) else "hex"
     # the preferred system first (a model written in inches), then any; never a size the
-    # catalog cannot finish (no nut for a through joint, no head or lengths of the kind)
+    # catalog cannot finish (no nut for a through joint, no head of the kind, no standard
+    # length long enough: an M1.6 clearance hole through a 380 mm stack is no bolt hole)
     for system in dict.fromkeys((preferred, None)):
         for diameter, kinds, what in probes:
             for t, how in catalog.nominal_from_hole(diameter, system):
-                if how in kinds and t.series in ("coarse", "UNC") and \
-                        not catalog.hardware_gaps(t, head, with_nut=j.kind == "through" and j.nut is None):
+                if how in kinds and t.series in ("coarse", "UNC") and _can_finish(j, t, head):
                     j.nominal_source = what
                     return t
     return None
+
+
+def _can_finish(j: Joint, t, head: str) -> bool:
+    """True when the catalog can finish a joint of thread `t`: head, nut (through, none
+    modelled) and a standard length that reaches what the stack needs (`required_length`)."""
+    if catalog.hardware_gaps(t, head, with_nut=j.kind == "through" and j.nut is None):
+        return False
+    if j.kind == "through":
+        nut_h = j.nut.height if j.nut else catalog.nut(t).height
+        needed = required_length(j.grip, d=t.d, pitch=t.pitch, tapped=False, nut_height=nut_h)
+    else:
+        tl = j.layers[-1]
+        needed = required_length(j.grip, d=t.d, pitch=t.pitch, tapped=True, tapped_depth=tl.end - tl.start,
+                                 tapped_material=tl.material_hint)
+    try:
+        catalog.shortest_length(t, needed, head)
+    except InputError:
+        return False
+    return True
 
 
 def add_findings(j: Joint, system: str | None = None) -> None:
