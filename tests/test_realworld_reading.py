@@ -354,3 +354,22 @@ def test_build123d_objects_are_models():
     assert sorted(p.name for p in scan.model.parts) == ["lower_plate", "upper_plate"]
     [joint] = scan.joints
     assert joint.nominal == "M10" and joint.grip == pytest.approx(20.0)
+
+
+# ----------------------------------------------------------------------------- the real-model corpus
+
+def test_corpus_manifest_and_name_reading():
+    sys.path.insert(0, str(Path(__file__).resolve().parent / "realworld"))
+    import run_corpus
+
+    entries = json.loads(run_corpus.MANIFEST.read_text())
+    assert 10 <= len(entries) <= 20
+    for e in entries:
+        assert {"repo", "commit", "path", "local", "sha256", "licence", "cad_system", "units"} <= set(e)
+        assert re.fullmatch(r"[0-9a-f]{40}", e["commit"]) and re.fullmatch(r"[0-9a-f]{64}", e["sha256"])
+    assert len({e["cad_system"].split()[0] for e in entries}) >= 6     # mixed writing systems
+    # sizes as product names state them (a trade convention: M d x L, inch size-TPI x L)
+    assert run_corpus.stated_size("01_01_09-cylinder_screw_M5x25-DIN912") == ("M5", 25.0)
+    assert run_corpus.stated_size("#10-32 x 1/2 BHCS") == ("#10-32", 12.7)
+    assert run_corpus.stated_size("1/4-20 x 1 1/4 SHCS") == ("1/4-20", 31.75)
+    assert run_corpus.is_fastener_name("screw ISO 4017 M12x40") and not run_corpus.is_fastener_name("washer M6")

@@ -63,7 +63,7 @@ FASTENER_WORDS = re.compile(
     re.I)
 #: size and length in a name: "M5x25", "M3 x 10", "#10-32 x 1/2", "1/4-20 x 3/4"
 METRIC_SIZE = re.compile(r"(?<![A-Za-z])M(\d+(?:[.,]\d+)?)\s*(?:[xX×*]\s*\d+(?:[.,]\d+)?\s*)?[xX×*]\s*(\d+(?:[.,]\d+)?)")
-INCH_SIZE = re.compile(r"(#\d{1,2}|\d+/\d+|\d+(?:\.\d+)?)\s*-\s*(\d{2,3})\s*[xX×]\s*(\d+(?:\.\d+)?(?:[ -]\d+/\d+)?|\d+/\d+)")
+INCH_SIZE = re.compile(r"(#\d{1,2}|\d+/\d+|\d+(?:\.\d+)?)\s*-\s*(\d{2,3})\s*[xX×]\s*(\d+[ -]\d+/\d+|\d+/\d+|\d+(?:\.\d+)?)")
 
 
 def _inch(text: str) -> float:
