@@ -373,3 +373,5 @@ def test_corpus_manifest_and_name_reading():
     assert run_corpus.stated_size("#10-32 x 1/2 BHCS") == ("#10-32", 12.7)
     assert run_corpus.stated_size("1/4-20 x 1 1/4 SHCS") == ("1/4-20", 31.75)
     assert run_corpus.is_fastener_name("screw ISO 4017 M12x40") and not run_corpus.is_fastener_name("washer M6")
+    assert run_corpus.is_fastener_name("HDW-207_91290A012_M2x5mm_SHCS_91290A012")
+    assert run_corpus.stated_size("HDW-207_91290A012_M2x5mm_SHCS_91290A012") == ("M2", 5.0)

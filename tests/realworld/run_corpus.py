@@ -58,8 +58,8 @@ LENGTH_TOL = 0.6
 #: words in a product name that say the part is a threaded fastener (common practice in
 #: fastener libraries and catalogue part numbers)
 FASTENER_WORDS = re.compile(
-    r"screw|bolt|\bSHCS\b|\bBHCS\b|\bFHCS\b|\bSHSS\b|DIN\s?-?(912|931|933|7991|7380|7984|6912|965|963)\b|"
-    r"ISO\s?-?(4762|4014|4017|7380|10642|7045|1580|4026|4029|14579|14580|14583)\b",
+    r"screw|bolt|(?<![A-Za-z])(SHCS|BHCS|FHCS|SHSS)(?![A-Za-z])|DIN\s?-?(912|931|933|7991|7380|7984|6912|965|963)(?!\d)|"
+    r"ISO\s?-?(4762|4014|4017|7380|10642|7045|1580|4026|4029|14579|14580|14583)(?!\d)",
     re.I)
 #: size and length in a name: "M5x25", "M3 x 10", "#10-32 x 1/2", "1/4-20 x 3/4"
 METRIC_SIZE = re.compile(r"(?<![A-Za-z])M(\d+(?:[.,]\d+)?)\s*(?:[xX×*]\s*\d+(?:[.,]\d+)?\s*)?[xX×*]\s*(\d+(?:[.,]\d+)?)")
