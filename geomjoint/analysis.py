@@ -29,10 +29,12 @@ from geomjoint.mechanics.joint import (
     Check,
     ConeStiffness,
     FeRun,
+    FitBias,
     JointResult,
     JointSpec,
     StiffnessComparison,
 )
+from geomjoint.mechanics.members import WILEMAN_TAPPED_BIAS
 from geomjoint.mechanics.stripping import engagement_of, stripping_check
 from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
 from geomjoint.progress import Progress
@@ -162,6 +164,37 @@ def with_member_value(spec: JointSpec, methods: MemberMethods) -> JointSpec:
     return spec
 
 
+def tapped_fit_bias(spec: JointSpec, stiffness_method: str, methods: MemberMethods) -> FitBias | None:
+    """The exponential fit's known bias, when a tapped joint uses it or compares it (else None).
+
+    The Wileman fit (through joints, d_w = 1.5 d) reads 26-47 % above the FE on every tapped
+    case of docs/tapped_stiffness.md; this joint's own deviation is measured against the VDI
+    2230-1 substitute body (the default for tapped joints, a closed form, so always at hand).
+    """
+    if not spec.tapped:
+        return None
+    if stiffness_method == "exponential":
+        role = "chosen"
+    elif spec.compare_stiffness:
+        role = "compared"
+    else:
+        return None
+    deviation = methods.value("exponential") / methods.value("vdi") - 1.0
+    low, high = WILEMAN_TAPPED_BIAS
+    message = (f"exponential (Wileman) member stiffness {'used' if role == 'chosen' else 'compared'} on a tapped "
+               f"joint: the fit was made for through joints with d_w = 1.5 d and knows neither the bearing nor the "
+               f"hole diameter; here it reads {100 * deviation:+.0f} % against the VDI 2230-1 substitute body, and "
+               f"on the documented tapped cases {100 * low:+.0f} % to {100 * high:+.0f} % against the FE (docs/tapped_stiffness.md)"
+               + ("; prefer vdi (the default for tapped joints) or fe" if role == "chosen" else ""))
+    return FitBias("exponential", role, "vdi", deviation, low, high, message)
+
+
+def fit_bias_finding(bias: FitBias) -> dict:
+    """The finding of a known method bias: warn when the joint's k_m is the biased method, info when compared."""
+    return {"severity": "warn" if bias.role == "chosen" else "info", "code": "tapped-fit-bias",
+            "message": bias.message}
+
+
 # ----------------------------------------------------------------------------- one joint
 
 def _vdi_assess(spec: JointSpec) -> JointResult:
@@ -196,6 +229,9 @@ def assess_joint(spec: JointSpec, methods: MemberMethods | None = None) -> Joint
     if spec.compare_stiffness:
         result.comparison = methods.comparison()
     result.cone, result.fe = methods.cone, methods.fe
+    result.fit_bias = tapped_fit_bias(spec, result.stiffness_method, methods)
+    if result.fit_bias is not None:
+        result.findings.append(fit_bias_finding(result.fit_bias))
     result.checks.append(stripping_check(spec))
     if spec.shear > 0 and spec.method != "vdi":
         result.checks.append(slip_check(spec, result.preload, result.joint_constant))
@@ -362,7 +398,7 @@ def _analyse_one(state: _ModelState, index: int) -> JointResult | UnanalysedJoin
         result = within_time_limit(mj.spec, lambda: assess_joint(mj.spec, methods))
     except InputError as exc:
         return not_analysed(mj.spec.id, str(exc), mj.findings)
-    result.findings = list(mj.findings)
+    result.findings = list(mj.findings) + result.findings   # the scan's, then the analysis's own
     result.checks.append(stackup_check(mj.findings))
     return finish(result, hole_limit=result.spec.hole_diameter)
 

@@ -20,5 +20,12 @@ JOB_FINDING_CODES = {
                     "are checked",
 }
 
+#: codes the analysis adds about the member-stiffness methods of a joint (geomjoint.analysis)
+STIFFNESS_FINDING_CODES = {
+    "tapped-fit-bias": "warn: a tapped joint's member stiffness is the exponential (Wileman) fit, which reads "
+                       "26-47 % high on tapped joints (docs/tapped_stiffness.md); info: the fit is only in the "
+                       "side-by-side comparison",
+}
+
 #: every finding code a scan or a check can give
-FINDING_CODES = {**SCAN_FINDING_CODES, **JOB_FINDING_CODES}
+FINDING_CODES = {**SCAN_FINDING_CODES, **JOB_FINDING_CODES, **STIFFNESS_FINDING_CODES}

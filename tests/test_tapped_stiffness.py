@@ -181,3 +181,55 @@ def test_results_say_which_definition_and_where_the_thread_went():
     assert chain.stiffness_split.screw_thread == pytest.approx(chain_numbers.bolt.engaged)
     html = html_report([textbook], title="t")
     assert "k_m spans" in html and "engaged-thread region" in html
+
+
+# ----------------------------------------------------------------- the exponential fit's bias, named
+
+def test_the_documented_bias_of_the_exponential_fit_is_the_table_of_the_docs():
+    # members.WILEMAN_TAPPED_BIAS is what the reports quote: the least and largest exp./FE - 1 of the
+    # comparison table (docs/tapped_stiffness.md), to its printed rounding
+    from geomjoint.mechanics.members import WILEMAN_TAPPED_BIAS
+
+    excess = [ratios[1] - 1 for ratios in DOCUMENTED_RATIOS.values()]
+    assert WILEMAN_TAPPED_BIAS == pytest.approx((min(excess), max(excess)), abs=0.001)
+
+
+def test_a_tapped_joint_on_the_exponential_fit_names_its_bias_everywhere():
+    from geomjoint.report.text import result_table
+
+    case = CASES[0]
+    r = evaluate_joint(case_spec(case, member_stiffness="exponential"))
+    got = method_values(case)
+    assert r.stiffness_method == "exponential" and r.member_stiffness == pytest.approx(got.exponential)
+    bias = r.fit_bias
+    assert bias is not None and bias.role == "chosen" and bias.reference == "vdi"
+    # this joint: 4.722e6 / 3.246e6 - 1 = +45 % over the VDI 2230-1 ESV body (docs table, row 1)
+    assert bias.deviation == pytest.approx(got.exponential / got.vdi - 1, rel=1e-12)
+    assert bias.deviation == pytest.approx(0.455, abs=0.005)
+    finding = [f for f in r.findings if f["code"] == "tapped-fit-bias"]
+    assert len(finding) == 1 and finding[0]["severity"] == "warn" and "+45 %" in finding[0]["message"]
+    doc = result_document([r], "test")
+    validate_result(doc)
+    joint = doc["joints"][0]
+    assert joint["stiffness"]["fit_bias"]["role"] == "chosen"
+    assert joint["stiffness"]["fit_bias"]["documented_high"] == pytest.approx(0.467)
+    assert "tapped-fit-bias" in [f["code"] for f in joint["findings"]]
+    assert f"case: caution: {bias.message}" in result_table([r])
+    html = html_report([r], title="t")
+    assert "reads high on tapped joints" in html and "tapped-fit-bias" in html
+
+
+def test_a_tapped_comparison_names_the_bias_and_a_through_joint_does_not():
+    case = CASES[4]
+    r = evaluate_joint(case_spec(case, compare_stiffness=True))
+    assert r.stiffness_method == "vdi" and r.fit_bias.role == "compared"
+    assert r.fit_bias.deviation == pytest.approx(r.comparison.exponential / r.comparison.vdi - 1, rel=1e-12)
+    assert [f["severity"] for f in r.findings if f["code"] == "tapped-fit-bias"] == ["info"]
+    html = html_report([r], title="t")
+    assert "known bias on tapped joints" in html
+    validate_result(result_document([r], "test"))
+    # the default on its own, and a through joint on the fit: nothing to name
+    assert evaluate_joint(case_spec(case)).fit_bias is None
+    spec = case_spec(CASES[0], member_stiffness="exponential")
+    through = replace(spec, tapped=False, layers=(spec.layers[0],) * 2, far_bearing_diameter=spec.bearing_diameter)
+    assert evaluate_joint(through).fit_bias is None

@@ -190,6 +190,24 @@ class StiffnessSplit:
 
 
 @dataclass(frozen=True)
+class FitBias:
+    """A member-stiffness method known to read high on this kind of joint, named in the reports.
+
+    Today one case: the exponential (Wileman) fit on a tapped joint (docs/tapped_stiffness.md,
+    "Agreement"): a fit of through joints with d_w = 1.5 d that knows neither the bearing nor
+    the hole diameter.
+    """
+
+    method: str                 # the biased method ("exponential")
+    role: str                   # "chosen" (the joint's k_m) | "compared" (in the side-by-side table only)
+    reference: str              # the method this joint's deviation is measured against ("vdi")
+    deviation: float            # k_m(method) / k_m(reference) - 1 on this joint
+    documented_low: float       # k_m(method) / k_m(FE) - 1, least over the documented tapped cases
+    documented_high: float      # the same, largest
+    message: str                # the sentence the reports show
+
+
+@dataclass(frozen=True)
 class Remedy:
     """One suggested change to a failing or marginal joint, re-checked before it is offered."""
 
@@ -300,6 +318,7 @@ class JointResult:
     comparison: StiffnessComparison | None = None
     remedies: list[Remedy] = field(default_factory=list)
     stiffness_split: StiffnessSplit | None = None  # tapped joints: the member/bolt definition used
+    fit_bias: FitBias | None = None  # a method of this joint's stiffness known to read high (reports name it)
 
     @property
     def criterion(self) -> str:

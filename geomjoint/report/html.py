@@ -332,7 +332,10 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
          "shank and thread in series, Shigley 10th ed., eq. 8-17"
          + (", with the engaged-thread region" if r.stiffness_split else "")),
         ("member stiffness k_m", _fmt(u.k(r.member_stiffness)), u.stiffness,
-         STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)),
+         STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)
+         + (f"; reads high on tapped joints ({100 * r.fit_bias.deviation:+.0f} % against VDI 2230-1 here, "
+            "see findings)"
+            if r.fit_bias is not None and r.fit_bias.role == "chosen" else "")),
         *_split_rows(r, u),
         ("joint constant C", _fmt(r.joint_constant, ".4f"), "–", "C = k_b/(k_b + k_m), Shigley 10th ed., Sec. 8-7"),
         ("preload F_i", _fmt(u.f(r.preload)), u.force, _preload_source(r, u)),
@@ -468,6 +471,12 @@ def _geometry(r: JointResult, u: ReportUnits) -> str:
             else:
                 shown, unit = _fmt(v, ".3f"), "–"
             body.append(f'<tr><th scope="row">{_e(label)}</th><td class="num">{_e(shown)}</td><td>{_e(unit)}</td></tr>')
+        if key == "stiffness_comparison" and r.fit_bias is not None:
+            b = r.fit_bias
+            body.append(f'<tr class="caution"><th scope="row">{_e(b.method)} fit against {_e(b.reference)} '
+                        f'(known bias on tapped joints)</th><td class="num">{100 * b.deviation:+.0f}</td>'
+                        f'<td>% (documented {100 * b.documented_low:+.0f} % to {100 * b.documented_high:+.0f} % '
+                        f'against the FE)</td></tr>')
         if body:
             out.append(f'<h3>{_e(heading)}</h3><table class="{key}"><tbody>{"".join(body)}</tbody></table>')
     return "".join(out)

@@ -60,6 +60,8 @@ def _stiffness(r: JointResult) -> dict[str, Any]:
         doc["fe"] = _plain(asdict(r.fe))
     if r.stiffness_split is not None:
         doc["definition"] = stiffness_definition(r.stiffness_split)
+    if r.fit_bias is not None:
+        doc["fit_bias"] = _plain(asdict(r.fit_bias))
     return doc
 
 

@@ -86,6 +86,8 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
             lines.append(f"  {r.id}: {c.name} fails:{numbers}  {c.note}".rstrip())
         for remedy in r.remedies:
             lines.append(f"  {r.id}: remedy: {remedy.change} -> {remedy.result}")
+        if r.fit_bias is not None:
+            lines.append(f"  {r.id}: caution: {r.fit_bias.message}")
     for u in not_analysed:
         lines.append(f"  {u.id}: FAIL {u.message}")
     n_fail = sum(1 for r in results if not r.ok) + len(not_analysed)
