@@ -10,6 +10,7 @@ All lengths are mm and all stresses MPa; records are the frozen dataclasses of
 """
 from __future__ import annotations
 
+from geomjoint.catalog.designation import Designation, parse_designation, product_standard
 from geomjoint.catalog.grades import grade, grade_names
 from geomjoint.catalog.hardware import (
     HEAD_KINDS,
@@ -31,9 +32,9 @@ from geomjoint.catalog.threads import size_label, tap_drill, thread, thread_size
 from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, SetScrewDims, Thread, WasherDims
 
 __all__ = [
-    "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",
+    "Designation", "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",
     "MM_PER_INCH", "MPA_PER_KPSI", "WILEMAN_GENERAL",
     "clearance_hole", "grade", "grade_names", "head", "material", "material_names",
-    "nominal_from_hole", "nut", "shortest_length", "size_label", "standard_lengths",
+    "nominal_from_hole", "nut", "parse_designation", "product_standard", "shortest_length", "size_label", "standard_lengths",
     "tap_drill", "thread", "thread_length", "thread_sizes", "washer",
 ]
