@@ -53,7 +53,7 @@ INLINE_MATERIAL_KEYS = {"E", "poisson", "yield", "tensile", "limiting_pressure",
 FASTENER_RULE_KEYS = JOINT_SETTING_KEYS | {"joints"}
 
 THREAD_KINDS = ("rolled", "cut")
-HEAD_KINDS = ("hex", "socket")
+HEAD_KINDS = catalog.HEAD_KINDS        # every head kind the catalogue dimensions (and the scan reports)
 ENDURANCE_MODES = ("auto", "table", "marin")
 METHODS = ("textbook", "vdi")
 SURFACES = ("ground", "machined", "cold-drawn", "hot-rolled", "as-forged")

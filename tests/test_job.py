@@ -492,3 +492,34 @@ def test_vdi_table_labels_every_number_for_a_reader():
     assert [name for name in shown if name not in VDI_LABELS] == []
     for internal in ("shank_in_clamp", "free_thread", "fatigue_formula"):
         assert VDI_LABELS[internal] != internal and " " in VDI_LABELS[internal]
+
+
+@pytest.mark.parametrize("head, width, bearing", [
+    ("button", 10.5, 10.5),     # ISO 7380-1:2011 M6 dk 10.5 (from memory); d_w taken = dk (common practice)
+    ("pan", 12.0, 12.0),        # ISO 7045:2011 M6 dk 12 (from memory)
+    ("pan slotted", 12.0, 12.0),  # ISO 1580:2011 M6 dk 12 (from memory)
+    ("cheese", 10.0, 10.0),     # ISO 1207:2011 M6 dk 10 (from memory)
+    ("countersunk", 13.44, 13.44),  # ISO 10642:2004 M6 dk 13.44 theoretical (from memory)
+    ("flange", 10.0, 14.2),     # ISO 4162:2012 M6 s 10, dc 14.2 (from memory)
+    ("socket", 10.0, 9.38),     # ISO 4762:2004 M6 dk 10, dw 9.38 (from memory)
+])
+def test_every_head_kind_the_scan_reports_is_a_job_head(tmp_path, head, width, bearing):
+    text = BASE.replace('fastener = "M12"', f'fastener = "M6"\nhead = "{head}"').replace('"16 mm"', '"5 mm"')
+    (spec,) = typed_joint_specs(load_job(write(tmp_path, text)))
+    from geomjoint import catalog
+
+    assert spec.fastener.head == head
+    assert catalog.head(catalog.thread("M6"), head).width == pytest.approx(width)
+    assert spec.bearing_diameter == pytest.approx(bearing)
+    # the thread-length rule of its kind exists (ISO 4014 for flange bolts, ISO 4762 for the rest)
+    assert catalog.thread_length(catalog.thread("M6"), 60.0, head) == pytest.approx(18.0 if head == "flange" else 24.0)
+
+
+def test_vdi_head_length_of_every_head_kind():
+    from geomjoint import catalog
+    from geomjoint.mechanics.vdi import HEAD_LENGTH_FACTOR, head_resilience
+
+    assert set(catalog.HEAD_KINDS) <= set(HEAD_LENGTH_FACTOR)
+    # VDI 2230-1:2015 5.1.1.1 (from memory): hexagon head l_SK = 0.5 d, socket head 0.4 d
+    assert head_resilience(10.0, 205000.0, "flange") == pytest.approx(head_resilience(10.0, 205000.0, "hex"))
+    assert head_resilience(10.0, 205000.0, "button") == pytest.approx(head_resilience(10.0, 205000.0, "socket"))

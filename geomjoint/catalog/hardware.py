@@ -58,7 +58,7 @@ def _row(table: str, t: Thread, style: str, what: str) -> Mapping[str, str]:
 
 
 #: head kinds the catalog has dimensions for (the names a job file may use)
-HEAD_KINDS = ("hex", "heavy hex", "socket", "button", "pan", "cheese", "countersunk", "flange")
+HEAD_KINDS = ("hex", "heavy hex", "socket", "button", "pan", "pan slotted", "cheese", "countersunk", "flange")
 
 #: other names of each head kind → the kind
 _HEAD_ALIASES = {
@@ -274,7 +274,8 @@ def thread_length_rule(d: float, length: float, system: str, head: str = "hex") 
     system : str
         "metric" or "inch".
     head : str
-        "hex" or "socket" (the names of `_kind_key` are accepted).
+        A head kind of HEAD_KINDS (or an alias); each follows the hex or the socket rule
+        (`_THREAD_RULE_KINDS`).
 
     >>> thread_length_rule(12.0, 50.0, "metric")
     30.0
@@ -287,7 +288,7 @@ def thread_length_rule(d: float, length: float, system: str, head: str = "hex") 
         raise InputError(f"diameter and length must be positive, got d={d}, L={length}")
     if system not in ("metric", "inch"):
         raise InputError(f"unknown thread system {system!r} (metric or inch)")
-    for limit, extra in _thread_length_rows(system, _kind_key(head)):
+    for limit, extra in _thread_length_rows(system, _thread_rule_kind(head)):
         if length <= limit:
             return 2.0 * d + extra
     raise AssertionError("unreachable: the last rule row has no limit")
@@ -320,6 +321,20 @@ _LENGTH_KINDS = {
 
 def _kind_key(kind: str) -> str:
     return _LENGTH_KINDS[head_kind(kind)][0]
+
+
+#: head kind -> the thread-length rule it follows (rows of thread_length_rules.csv): ISO 4162
+#: flange bolts have the b of ISO 4014; ISO 7380, ISO 7045 / ISO 1580 / ISO 1207 and ISO 10642
+#: screws are threaded to the head when short and have about 2d + 12 when long, as ISO 4762
+#: (from memory); the rule is cut at the length (thread_length)
+_THREAD_RULE_KINDS = {
+    "hex": "hex", "heavy hex": "hex", "flange": "hex", "socket": "socket", "button": "socket",
+    "pan": "socket", "pan slotted": "socket", "cheese": "socket", "countersunk": "socket",
+}
+
+
+def _thread_rule_kind(kind: str) -> str:
+    return _THREAD_RULE_KINDS[head_kind(kind)]
 
 
 def standard_lengths(t: Thread, kind: str = "hex") -> list[float]:

@@ -61,7 +61,7 @@ class FastenerSpec:
     thread_length: float | None = None  # L_T, mm (None: the standard rule)
     fully_threaded: bool = False
     threads: str = "rolled"         # "rolled" | "cut"
-    head: str = "hex"               # "hex" | "socket"
+    head: str = "hex"               # a head kind of catalog.HEAD_KINDS ("hex", "socket", "button" ...)
     E: float = BOLT_STEEL_E
     thermal_expansion: float = 11.5e-6  # 1/K, carbon steel (from memory)
     rolled_after_heat_treatment: bool = False

@@ -33,8 +33,11 @@ from geomjoint.mechanics.members import hollow_frustum_compliance
 
 #: substitute length of the head for the head's resilience, l_SK = factor * d
 #: (VDI 2230-1:2015 Section 5.1.1.1, Table 2, from memory): hexagon head 0.5 d,
-#: hexagon socket head 0.4 d
-HEAD_LENGTH_FACTOR = {"hex": 0.5, "socket": 0.4}
+#: hexagon socket head 0.4 d.  The guideline gives these two; a flange head is taken as the
+#: hexagon head it is, the other heads with an internal drive (button, pan, cheese,
+#: countersunk) as the socket head (common practice)
+HEAD_LENGTH_FACTOR = {"hex": 0.5, "heavy hex": 0.5, "flange": 0.5, "socket": 0.4, "button": 0.4,
+                      "pan": 0.4, "pan slotted": 0.4, "cheese": 0.4, "countersunk": 0.4}
 
 #: substitute length of the engaged thread, l_G = 0.5 d (VDI 2230-1:2015 Section 5.1.1.1, from memory)
 ENGAGED_THREAD_FACTOR = 0.5
@@ -212,7 +215,7 @@ def head_resilience(d: float, E: float, head: str = "hex") -> float:
     try:
         factor = HEAD_LENGTH_FACTOR[head]
     except KeyError:
-        raise InputError(f"unknown head kind {head!r} (hex or socket)", where="head") from None
+        raise InputError(f"unknown head kind {head!r} (one of {', '.join(HEAD_LENGTH_FACTOR)})", where="head") from None
     return cylinder_resilience(factor * d, d, E)
 
 
