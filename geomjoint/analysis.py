@@ -61,7 +61,9 @@ def cone_record(cone, neighbours: tuple[str, ...] = ()) -> ConeStiffness:
     return ConeStiffness(stiffness=cone.stiffness, ideal_stiffness=cone.ideal_stiffness,
                          area_fraction_mid_grip=cone.area_fraction_mid_grip, area_mid_grip=cone.area_mid_grip,
                          lost_to_edges=cone.lost_to_edges, lost_to_neighbours=cone.lost_to_neighbours,
-                         neighbours=tuple(neighbours))
+                         neighbours=tuple(neighbours),
+                         layer_areas=tuple(area for _, area, _ in cone.layer_sections),
+                         layer_ideal_areas=tuple(ideal for _, _, ideal in cone.layer_sections))
 
 
 def outer_diameter_of_area(area: float, hole_diameter: float) -> float:
@@ -79,22 +81,42 @@ def fe_engagement(spec: JointSpec) -> float | None:
     return L_e if L_e is not None and L_e > 0 else None   # a screw too short fails its length check
 
 
-def fe_run(spec: JointSpec, outer_diameter: float | None, outline: str) -> FeRun:
-    """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe), and the outline used."""
+def fe_inner_diameters(spec: JointSpec) -> list[float]:
+    """Inner diameter of each layer in the FE model, mm: the hole; a tapped part's thread (its nominal d)."""
+    inner = [spec.hole_diameter] * len(spec.layers)
+    if spec.tapped:
+        inner[-1] = spec.fastener.d
+    return inner
+
+
+def run_outline(layer_outlines: list[str]) -> str:
+    """The run's one outline word (results.json ``outline``): "clipped-cone" if any layer's outline
+    is its part's, else the one the layers share ("job" or "converged")."""
+    for word in ("clipped-cone", "job"):
+        if word in layer_outlines:
+            return word
+    return "converged"
+
+
+def fe_run(spec: JointSpec, layer_diameters: list[float | None], layer_outlines: list[str]) -> FeRun:
+    """k_m of the joint's stack by the axisymmetric FE model (mechanics.fe), and the outline used.
+
+    ``layer_diameters``: the outer diameter of each layer, head side first (None: a plate wide
+    enough that k_m stops changing); ``layer_outlines``: where each comes from (OUTLINES).
+    """
     from geomjoint.mechanics.fe import FeLayer, fe_member_stiffness
 
     # a tapped part is modelled whole, loaded by its engaged thread (docs/tapped_stiffness.md)
     layers = [FeLayer(layer.thickness, layer.E, layer.poisson) for layer in spec.layers]
     fe = fe_member_stiffness(layers, spec.hole_diameter, spec.bearing_diameter,
                              None if spec.tapped else spec.far_bearing_diameter,
-                             outer_diameter=outer_diameter, bearing=spec.fe_bearing,
-                             tapped=spec.tapped, thread_diameter=spec.fastener.d if spec.tapped else None,
-                             engaged_length=fe_engagement(spec))
-    # the axisymmetric model gives every layer the same outer diameter
+                             bearing=spec.fe_bearing, tapped=spec.tapped,
+                             thread_diameter=spec.fastener.d if spec.tapped else None,
+                             engaged_length=fe_engagement(spec), layer_outer_diameters=layer_diameters)
     return FeRun(stiffness=fe.stiffness, outer_diameter=fe.outer_diameter, mesh_change=fe.mesh_change,
                  contact_diameters=tuple(fe.contact_diameters),
-                 layer_outer_diameters=tuple(fe.outer_diameter for _ in layers), outline=outline,
-                 thread_region_compliance=fe.thread_region_compliance)
+                 layer_outer_diameters=tuple(fe.layer_outer_diameters), outline=run_outline(layer_outlines),
+                 thread_region_compliance=fe.thread_region_compliance, layer_outlines=tuple(layer_outlines))
 
 
 @dataclass
@@ -127,22 +149,29 @@ class MemberMethods:
             self.cone = self.cone_source()
             return self.cone.stiffness
         if method == "fe":
-            outer, outline = self.fe_outline()
-            self.fe = fe_run(spec, outer, outline)
+            self.fe = fe_run(spec, *self.fe_outlines())
             return self.fe.stiffness
         closed = replace(spec, member_stiffness=method, members_value=None)
         return engine.member_side(closed, engine.effective_grip_of(closed))[0]
 
-    def fe_outline(self) -> tuple[float | None, str]:
-        """The FE's outer diameter and where it comes from (see mechanics.joint.OUTLINES)."""
+    def fe_outlines(self) -> tuple[list[float | None], list[str]]:
+        """The FE's outer diameter of each layer and where it comes from (see mechanics.joint.OUTLINES).
+
+        A model joint: each layer whose part clips the cone (where the cone is widest in that
+        layer) gets the annulus of that clipped area around the FE's bore (its own part's
+        outline, so a narrow strap bounds its own layer only); the others the job's
+        ``outside_diameter``, else a plate wide enough that k_m stops changing (None).
+        """
+        spec = self.spec
+        fallback = (spec.outside_diameter, "job") if spec.outside_diameter is not None else (None, "converged")
+        rows = [fallback] * len(spec.layers)
         if self.cone_source is not None:
             self.value("cone")
-            if self.cone.area_fraction_mid_grip < UNCLIPPED_FRACTION:
-                # the plate the cone really finds: the annulus of the clipped mid-grip area
-                return outer_diameter_of_area(self.cone.area_mid_grip, self.spec.hole_diameter), "clipped-cone"
-        if self.spec.outside_diameter is not None:
-            return self.spec.outside_diameter, "job"
-        return None, "converged"
+        if self.cone is not None and len(self.cone.layer_areas) == len(rows):
+            areas = zip(self.cone.layer_areas, self.cone.layer_ideal_areas, fe_inner_diameters(spec))
+            rows = [(outer_diameter_of_area(area, bore), "clipped-cone") if area < UNCLIPPED_FRACTION * ideal
+                    else fallback for area, ideal, bore in areas]
+        return [d for d, _ in rows], [word for _, word in rows]
 
     def methods(self) -> tuple[str, ...]:
         """The methods the comparison runs for this joint."""

@@ -233,6 +233,56 @@ def test_against_the_wileman_fit(material, d_over_l):
     assert res.stiffness == pytest.approx(fit, rel=0.15)
 
 
+# ----------------------------------------------------------------- each layer its own outline
+
+#: two 15 mm steel layers, M12 with a 13 mm hole and an 18 mm bearing face on both sides (a strap
+#: of 30 mm equivalent diameter against a wide plate)
+PAIR = [FeLayer(15.0, 207_000.0, 0.29)] * 2
+NARROW = 30.0
+
+
+def test_one_bound_for_every_layer_is_the_plate_outer_diameter():
+    # identity: every layer bounded at D is the stack of outer diameter D, to round-off
+    whole = fe_member_stiffness(PAIR, 13.0, 18.0, outer_diameter=NARROW)
+    per_layer = fe_member_stiffness(PAIR, 13.0, 18.0, layer_outer_diameters=[NARROW, NARROW])
+    assert per_layer.stiffness == pytest.approx(whole.stiffness, rel=1e-12)
+    assert per_layer.layer_outer_diameters == [NARROW, NARROW] and per_layer.outer_diameter == NARROW
+
+
+def test_the_narrow_layer_governs_its_own_layer():
+    # hand reasoning: a symmetric through joint's mid-plane stays (nearly) plane, so each layer is
+    # half of the symmetric stack of its own outline; with one narrow and one wide layer
+    # 1/k = (1/k_narrow + 1/k_wide) / 2 -- whichever of the two layers is the narrow one
+    narrow = fe_member_stiffness(PAIR, 13.0, 18.0, outer_diameter=NARROW).stiffness
+    wide = fe_member_stiffness(PAIR, 13.0, 18.0).stiffness
+    head = fe_member_stiffness(PAIR, 13.0, 18.0, layer_outer_diameters=[NARROW, None])
+    nut = fe_member_stiffness(PAIR, 13.0, 18.0, layer_outer_diameters=[None, NARROW])
+    assert narrow < head.stiffness < wide
+    assert head.stiffness == pytest.approx(2.0 / (1.0 / narrow + 1.0 / wide), rel=0.01)
+    assert nut.stiffness == pytest.approx(head.stiffness, rel=1e-6)      # mirror image
+    assert head.layer_outer_diameters[0] == NARROW and head.layer_outer_diameters[1] > 4 * NARROW
+    assert head.outer_diameter == head.layer_outer_diameters[1]
+    assert head.mesh_change < fe.MESH_TOLERANCE
+    # the interface is in contact out to the narrow layer's rim at most
+    assert head.contact_diameters[0] <= NARROW * (1 + EPS)
+
+
+def test_a_narrow_cap_on_a_tapped_block():
+    # the cap (member) narrow, the tapped block wide: the member is softer than on a wide cap
+    layers = [FeLayer(15.0, 207_000.0, 0.29), FeLayer(30.0, 207_000.0, 0.29)]
+    kw = dict(tapped=True, thread_diameter=12.0, engaged_length=18.0)
+    wide = fe_member_stiffness(layers, 13.5, 17.23, **kw)
+    narrow = fe_member_stiffness(layers, 13.5, 17.23, layer_outer_diameters=[26.0, None], **kw)
+    assert narrow.stiffness < 0.97 * wide.stiffness
+    assert narrow.layer_outer_diameters[0] == 26.0 and narrow.layer_outer_diameters[1] > 26.0
+
+
+@pytest.mark.parametrize("bounds", [[NARROW], [NARROW, 15.0], [NARROW, -1.0], [NARROW, "wide"]])
+def test_bad_layer_outlines_name_the_layer(bounds):
+    with pytest.raises(InputError, match="layer"):
+        fe_member_stiffness(PAIR, 13.0, 18.0, layer_outer_diameters=bounds)
+
+
 # ----------------------------------------------------------------- bad input
 
 @pytest.mark.parametrize("kwargs", [dict(bearing="soft"), dict(interfaces="glued"), dict(thread_load="even"),

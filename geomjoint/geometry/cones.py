@@ -157,7 +157,9 @@ class ConeResult:
     mid-grip; lost_to_edges, lost_to_neighbours: fractions of the ideal mid-grip area;
     per_layer: (part, compliance mm/N) per layer; samples: (z mm, A mm², E MPa) of every
     integration point; area_mid_grip, ideal_area_mid_grip: mm²; z_mid: mm;
-    prismatic: (part, z_start, z_end, True if sectioned once) per integration region.
+    prismatic: (part, z_start, z_end, True if sectioned once) per integration region;
+    layer_sections: (part, clipped area mm², ideal area mm²) of every layer of the joint
+    (a tapped part too), where the layer's cone is widest (:func:`layer_sections`).
     """
 
     stiffness: float
@@ -171,6 +173,7 @@ class ConeResult:
     ideal_area_mid_grip: float = 0.0
     z_mid: float = 0.0
     prismatic: list[tuple[str, float, float, bool]] = field(default_factory=list)
+    layer_sections: list[tuple[str, float, float]] = field(default_factory=list)
 
 
 @dataclass
@@ -755,7 +758,38 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
         ideal_area_mid_grip=ideal_mid,
         z_mid=cone.z_mid,
         prismatic=regions_out,
+        layer_sections=_layer_sections(cone, planes, cache),
     )
+
+
+def widest_depth(cone: _Cone, layer: ConeLayer) -> float:
+    """Height (mm from the head bearing face) where the joint's cone is widest inside ``layer``:
+    mid-grip, or the layer's face nearest to it (the cones grow towards mid-grip)."""
+    za, zb = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
+    if zb < za:                     # a layer beyond the cones' span: its top face
+        return za
+    return min(max(cone.z_mid, za), zb)
+
+
+def _layer_sections(cone: _Cone, planes, cache: ConeCache) -> list[tuple[str, float, float]]:
+    """(part, clipped area, ideal area) of each layer at its :func:`widest_depth`, mm².
+
+    The clipped area is the layer's part section inside the cone disc, less what the
+    neighbours' bisecting planes give away (as at mid-grip); it is what the FE's per-layer
+    outline is made of (``analysis.MemberMethods.fe_outlines``).  A layer whose section the
+    disc does not reach past is reported whole (clipped = ideal).
+    """
+    out = []
+    for layer in cone.joint.layers:
+        z = widest_depth(cone, layer)
+        r = float(cone.radius(z))
+        ideal = math.pi * (r ** 2 - (0.5 * layer.hole_diameter) ** 2)
+        if min(layer.z_end, cone.L) - max(layer.z_start, 0.0) <= _LENGTH_TOL:
+            out.append((layer.part, ideal, ideal))
+            continue
+        _alone, shared = _mid_areas(cone, layer, planes, cache, z, r)
+        out.append((layer.part, min(shared, ideal), ideal))
+    return out
 
 
 def _layer_at(cone: _Cone, z: float) -> ConeLayer:

@@ -48,6 +48,10 @@ Modelling choices (why, briefly):
   RADIUS_SNAP of the annulus width are merged (no sliver elements).
 * Plate radius: unless given, doubled from beyond the cone's reach until k_m changes
   by under 0.5 % (on the base mesh), then the refinement check runs at that radius.
+  Each layer may have its own outer radius (``layer_outer_diameters``: a part narrower
+  than the others, e.g. a strap on a plate); only the layers without one take the plate
+  radius.  The free face of a wider layer beyond a narrower one's rim is unloaded (no
+  node pairs there), and the radial grid is graded towards every such rim.
 * Solver: the constraints (rigid faces, ties, the fixed dof) are eliminated by a 0/1
   map u = T q, and K_r = T' K T is factorised by SuperLU with a symmetric ordering.
 
@@ -56,7 +60,7 @@ Coordinates: r = x[0], z = x[1]; z = 0 is the far (nut) face, z = grip the head 
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Sequence
 
 import numpy as np
@@ -127,13 +131,15 @@ class FeResult:
     stiffness: float                 # k_m, N/mm
     approach: float                  # delta at the load P = 1 N, mm
     contact_diameters: list[float]   # per interface, from the head side, mm
-    outer_diameter: float            # plate diameter used, mm
+    outer_diameter: float            # diameter of the widest modelled layer, mm
     mesh_change: float               # |k(refined) - k(coarse)| / k(refined)
     elements: int                    # elements of the finest mesh solved
     seconds: float                   # wall time of the whole call
     #: tapped joint: compliance of the tapped part from the interface to its thread flanks
     #: (bolt side, like VDI delta_M), mm/N; 0.0 for a through joint
     thread_region_compliance: float = 0.0
+    #: outer diameter of each layer (head side first), mm: its own bound, or the plate's
+    layer_outer_diameters: list[float] = field(default_factory=list)
 
 
 # --------------------------------------------------------------------------- forms
@@ -375,8 +381,9 @@ class StackMesh:
 
 
 def stack_mesh(thicknesses: Sequence[float], inner_radius: Sequence[float], r_grid: np.ndarray,
-               z_grids: Sequence[np.ndarray]) -> StackMesh:
-    """Mesh an annular stack: layer i (head side first) spans r >= inner_radius[i] of ``r_grid``.
+               z_grids: Sequence[np.ndarray], outer_radius: Sequence[float] | None = None) -> StackMesh:
+    """Mesh an annular stack: layer i (head side first) spans inner_radius[i] <= r <= outer_radius[i]
+    of ``r_grid`` (every outer radius a node of it; None: to the end of the grid).
 
     ``z_grids[i]`` are the node heights of layer i relative to its own bottom face.
     """
@@ -387,6 +394,8 @@ def stack_mesh(thicknesses: Sequence[float], inner_radius: Sequence[float], r_gr
     for k in range(n):                      # k counts from the far face up
         i = n - 1 - k                       # layer index from the head side
         r = r_grid[r_grid >= inner_radius[i] - 1e-12]
+        if outer_radius is not None:
+            r = r[r <= outer_radius[i] * (1 + GEOMETRY_TOLERANCE)]
         z = z_faces[k] + np.asarray(z_grids[i])
         R, Z = np.meshgrid(r, z, indexing="ij")
         pts.append(np.vstack([R.ravel(), Z.ravel()]))
@@ -433,10 +442,36 @@ class StackGeometry:
     interfaces: str
     tapped: bool
     thread_decay: float | None = None   # l_decay of thread_load_density, mm; None: uniform thread load
+    #: fixed outer radius of each layer (head side first), mm; None: the plate radius of the solve
+    bounds: tuple[float | None, ...] = ()
+
+    def outer_radii(self, r_plate: float) -> list[float]:
+        """Outer radius of each layer, mm: its own bound, else the plate radius ``r_plate``."""
+        bounds = self.bounds or (None,) * len(self.layers)
+        return [r_plate if b is None else b for b in bounds]
+
+    def all_bounded(self) -> bool:
+        """Every layer has its own outer radius (no plate radius to search)."""
+        return bool(self.bounds) and all(b is not None for b in self.bounds)
+
+
+def two_sided_interval(a: float, b: float, h0: float, growth: float) -> np.ndarray:
+    """Points from a to b, steps growing by ``growth`` from h0 at both ends towards the middle.
+
+    Built on [0, b - a] and shifted, so the two halves meet at one point (no sliver).
+    """
+    span = b - a
+    half = geometric_interval(0.0, 0.5 * span, h0, growth)
+    return a + np.unique(np.concatenate([half, span - half]))
 
 
 def _grids(g: StackGeometry, r_out: float, level: int):
-    """The radial grid and per-layer axial grids of the base mesh, refined ``level`` times."""
+    """The radial grid and per-layer axial grids of the base mesh, refined ``level`` times.
+
+    ``r_out`` is the plate radius of the layers without a bound of their own; every layer's
+    outer radius is a node, and the grid is graded towards each rim inside the widest one
+    (the corner of a narrower layer on a wider one).
+    """
     radii = sorted({g.r_h, g.r_w, g.r_w2} | ({g.r_t} if g.tapped else set()))
     r_parts = []
     lo = radii[0]
@@ -445,8 +480,11 @@ def _grids(g: StackGeometry, r_out: float, level: int):
         r_parts.append(graded_interval(lo, hi, n))
         lo = hi
     h0 = (r_parts[-1][-1] - r_parts[-1][-2]) if r_parts else 0.1 * g.r_w
-    if r_out > lo * (1 + GEOMETRY_TOLERANCE):
-        r_parts.append(geometric_interval(lo, r_out, h0, GROWTH))
+    rims = sorted({r for r in g.outer_radii(r_out) if r > lo * (1 + GEOMETRY_TOLERANCE)})
+    for k, rim in enumerate(rims):
+        last = k == len(rims) - 1
+        r_parts.append(geometric_interval(lo, rim, h0, GROWTH) if last else two_sided_interval(lo, rim, h0, GROWTH))
+        lo = rim
     r = np.unique(np.concatenate(r_parts))
     ref = g.r_w - g.r_h
     z_grids = []
@@ -505,7 +543,8 @@ def _stack_model(g: StackGeometry, r_out: float, level: int,
     inner = [g.r_h] * len(g.layers)
     if g.tapped:
         inner[-1] = g.r_t
-    sm = stack_mesh([l.thickness for l in g.layers], inner, r_grid, auto_z if z_grids is None else z_grids)
+    sm = stack_mesh([l.thickness for l in g.layers], inner, r_grid, auto_z if z_grids is None else z_grids,
+                    g.outer_radii(r_out))
     E_el = np.array([g.layers[i].E for i in sm.layer_of_element])
     nu_el = np.array([g.layers[i].poisson for i in sm.layer_of_element])
     return AxisymmetricModel(sm.mesh, E_el, nu_el), sm
@@ -661,8 +700,12 @@ def _cone_contact_guess(g: StackGeometry) -> list[float]:
 def plate_radius_search(g: StackGeometry, guess: Sequence[float]) -> tuple[float, StackSolution]:
     """Outer radius (mm) at which a wider plate changes k_m by under RADIUS_TOLERANCE, and its solution.
 
-    Starts beyond the 30 deg cone's reach at mid-grip and doubles the radius (base mesh).
+    Starts beyond the 30 deg cone's reach at mid-grip and doubles the radius (base mesh) of the
+    layers without a bound of their own; with every layer bounded there is nothing to search.
     """
+    if g.all_bounded():
+        r_out = max(g.outer_radii(0.0))
+        return r_out, solve_member_stack(g, r_out, 0, guess)
     grip = sum(l.thickness for l in g.layers)
     r_min = max(g.r_w, g.r_w2, g.r_t)
     r_out = r_min + max(grip, r_min)
@@ -701,7 +744,7 @@ def _check(name: str, value, positive: bool = True) -> float:
 
 def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=None,
                   bearing="rigid", interfaces="contact", tapped=False, thread_diameter=None,
-                  engaged_length=None, thread_load="decaying") -> StackGeometry:
+                  engaged_length=None, thread_load="decaying", layer_outer_diameters=None) -> StackGeometry:
     """Validate the inputs of :func:`fe_member_stiffness` and bundle them (radii in mm)."""
     if not layers:
         raise InputError("FE member stiffness: at least one layer is needed")
@@ -740,15 +783,44 @@ def make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter=
     if tapped and abs(r_t - r_w2) < snap:
         r_w2 = r_t
     decay = ENGAGED_THREAD_FACTOR * d_t if thread_load == "decaying" else None
+    bounds = _layer_bounds(layer_outer_diameters, len(layers), max(r_w, r_w2, r_t), snap)
     return StackGeometry(list(layers), r_h, r_w, r_w2, r_t, min(engaged, layers[-1].thickness),
-                         bearing, interfaces, bool(tapped), decay)
+                         bearing, interfaces, bool(tapped), decay, bounds)
+
+
+def _layer_bounds(diameters, n: int, r_min: float, snap: float) -> tuple[float | None, ...]:
+    """Validated outer radius of each layer (None: the plate's), mm; rims closer than ``snap``
+    to each other or to the widest bearing or thread radius ``r_min`` are merged (no slivers)."""
+    if diameters is None:
+        return ()
+    diameters = list(diameters)
+    if len(diameters) != n:
+        raise InputError(f"FE member stiffness: layer_outer_diameters needs one value per layer ({n}), "
+                         f"got {len(diameters)}")
+    out: list[float | None] = []
+    for i, d in enumerate(diameters):
+        if d is None:
+            out.append(None)
+            continue
+        r = _check(f"layer {i + 1} outer diameter", d) / 2
+        if r < r_min * (1 - GEOMETRY_TOLERANCE):
+            raise InputError(f"FE member stiffness: layer {i + 1} outer diameter {2 * r:.4g} mm is smaller than "
+                             f"the bearing diameters ({2 * r_min:.4g} mm): the part is narrower than its bearing face")
+        out.append(r_min if r - r_min < snap else r)
+    rims = sorted({r for r in out if r is not None})
+    merged = {}
+    for r in rims:
+        base = next((m for m in merged.values() if abs(r - m) < snap), r)
+        merged[r] = base
+    return tuple(None if r is None else merged[r] for r in out)
 
 
 def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_diameter: float,
                         far_bearing_diameter: float | None = None, outer_diameter: float | None = None,
                         bearing: str = "rigid", interfaces: str = "contact", tapped: bool = False,
                         thread_diameter: float | None = None, refine_check: bool = True,
-                        engaged_length: float | None = None, thread_load: str = "decaying") -> FeResult:
+                        engaged_length: float | None = None, thread_load: str = "decaying",
+                        layer_outer_diameters: Sequence[float | None] | None = None) -> FeResult:
     """Member stiffness k_m (N/mm) of a layered annular stack by axisymmetric FE.
 
     k_m = P / delta_P with delta_P the mean axial approach of the two bearing faces, or for a
@@ -763,7 +835,9 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     top face, distributed by ``thread_load`` ("decaying": :func:`thread_load_density` with
     l_decay = 0.5 thread_diameter; "uniform"); ``refine_check``: refine the mesh uniformly
     until k_m changes < 1 %.  ``thread_region_compliance`` of the result is the tapped
-    part's thread region (bolt side).
+    part's thread region (bolt side).  ``layer_outer_diameters``: one per layer, the outer
+    diameter of that layer's part (None: ``outer_diameter``, or the searched plate), so a
+    narrow part bounds its own layer only.
 
     Source: method of Wileman, Choudhury & Green, J. Mech. Design 113 (1991) 432-437
     (axisymmetric FE of the members); formulation of our own as described above.
@@ -781,7 +855,7 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     """
     t0 = time.perf_counter()
     g = make_geometry(layers, hole_diameter, bearing_diameter, far_bearing_diameter, bearing,
-                      interfaces, tapped, thread_diameter, engaged_length, thread_load)
+                      interfaces, tapped, thread_diameter, engaged_length, thread_load, layer_outer_diameters)
     guess = _cone_contact_guess(g)
     if outer_diameter is not None:
         r_out = _check("outer_diameter", outer_diameter) / 2
@@ -793,5 +867,6 @@ def fe_member_stiffness(layers: list[FeLayer], hole_diameter: float, bearing_dia
     change = float("nan")
     if refine_check:
         sol, change = refined_solution(g, r_out, sol)
-    return FeResult(sol.stiffness, sol.approach, sol.contact_diameters, 2 * r_out, change,
-                    sol.elements, time.perf_counter() - t0, sol.thread_region)
+    radii = g.outer_radii(r_out)
+    return FeResult(sol.stiffness, sol.approach, sol.contact_diameters, 2 * max(radii), change,
+                    sol.elements, time.perf_counter() - t0, sol.thread_region, [2 * r for r in radii])

@@ -231,6 +231,10 @@ class ConeStiffness:
     lost_to_edges: float            # fraction of the ideal mid-grip area
     lost_to_neighbours: float       # fraction of the ideal mid-grip area
     neighbours: tuple[str, ...] = ()  # joints whose cones were clipped against this one's
+    #: per layer (head side first, a tapped part too), where its cone is widest: the clipped and the
+    #: ideal cone area, mm^2 (the FE's per-layer outline comes from these)
+    layer_areas: tuple[float, ...] = ()
+    layer_ideal_areas: tuple[float, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -242,15 +246,17 @@ class FeRun:
     mesh_change: float              # |k(refined) - k(coarse)| / k(refined)
     contact_diameters: tuple[float, ...]  # per interface, from the head side, mm
     layer_outer_diameters: tuple[float, ...]  # outside diameter of each modelled layer, mm
-    outline: str                    # where the outer diameter comes from (see OUTLINES)
+    outline: str                    # see OUTLINES: "clipped-cone" if any layer's is, else the layers' one
     #: tapped joint: compliance of the tapped part from the interface to its thread flanks, on the
     #: bolt side (like VDI delta_M), mm/N; 0.0 for a through joint
     thread_region_compliance: float = 0.0
+    layer_outlines: tuple[str, ...] = ()  # where each layer's outer diameter comes from (see OUTLINES)
 
 
-#: where an FE run's outer diameter comes from
+#: where an FE run's outer diameter comes from, per layer
 OUTLINES = {
-    "clipped-cone": "a disc of the clipped cone's mid-grip area (the parts' outline)",
+    "clipped-cone": "an annulus of the area of the layer's own part inside the cone, where the cone is widest "
+                    "in that layer (the part's outline)",
     "job": "outside_diameter of the job",
     "converged": "widened until k_m stops changing (unbounded plates)",
 }

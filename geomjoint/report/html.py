@@ -452,6 +452,11 @@ _GEOMETRY_ROWS = {
 }
 
 
+#: how each FE layer's outline reads in the report (mechanics.joint.OUTLINES)
+OUTLINE_WORDS = {"clipped-cone": "its part's outline inside the cone", "job": "outside_diameter of the job",
+                 "converged": "wide plate, widened until k_m stops changing"}
+
+
 def _geometry(r: JointResult, u: ReportUnits) -> str:
     out = []
     for key, (heading, rows) in _GEOMETRY_ROWS.items():
@@ -471,6 +476,12 @@ def _geometry(r: JointResult, u: ReportUnits) -> str:
             else:
                 shown, unit = _fmt(v, ".3f"), "–"
             body.append(f'<tr><th scope="row">{_e(label)}</th><td class="num">{_e(shown)}</td><td>{_e(unit)}</td></tr>')
+        if key == "fe":
+            names = [layer.part or f"layer {i + 1}" for i, layer in enumerate(r.spec.layers)]
+            outlines = record.layer_outlines or (record.outline,) * len(record.layer_outer_diameters)
+            for name, diameter, outline in zip(names, record.layer_outer_diameters, outlines):
+                body.append(f'<tr><th scope="row">outer diameter of {_e(name)} ({_e(OUTLINE_WORDS[outline])})</th>'
+                            f'<td class="num">{_e(_fmt(u.len(diameter)))}</td><td>{_e(u.length)}</td></tr>')
         if key == "stiffness_comparison" and r.fit_bias is not None:
             b = r.fit_bias
             body.append(f'<tr class="caution"><th scope="row">{_e(b.method)} fit against {_e(b.reference)} '
