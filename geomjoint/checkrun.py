@@ -183,12 +183,15 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
     analysis = analyze_job(job, workers=workers, quiet=quiet)
     clock.lap("analysis")
     results = analysis.results
-    document = result_document(results, version, analysis.excluded, analysis.not_analysed)
+    # the reader's remarks on the model file reach every output, not only the scan
+    model_findings = [] if analysis.scan is None else [
+        {"severity": f.severity, "code": f.code, "message": f.message} for f in analysis.scan.findings]
+    document = result_document(results, version, analysis.excluded, analysis.not_analysed, model_findings)
     files: dict[str, bytes] = {}
     if "json" in kinds:
         files[RESULTS_JSON] = dumps(document).encode("utf-8")
     clock.lap("results.json")
-    table = result_table(results, job.units, analysis.excluded, analysis.not_analysed)
+    table = result_table(results, job.units, analysis.excluded, analysis.not_analysed, model_findings)
     if "text" in kinds:
         files[REPORT_TEXT] = table.encode("utf-8")
     clock.lap("report.txt")
@@ -206,7 +209,7 @@ def run_check(job_path: Path, *, workers: int = 1, quiet: bool = True, version: 
             # meshes the parts at the GLB's tolerance, here in this process, so the GLB reuses them
             overview = overview_svg(model_overview(scan, hardware), verdicts)
         arguments = dict(title=job.title or job.path.stem, units=job.units, overview_svg=overview,
-                         not_analysed=analysis.not_analysed)
+                         not_analysed=analysis.not_analysed, findings=model_findings)
         if model_outputs and _parallel(workers):
             # the page (pure Python) in a forked process while this one builds the marked-up model
             pending = _ForkedRender(_html_bytes, results, arguments)

@@ -14,6 +14,8 @@ from geomjoint.geometry.scan import FINDING_CODES as SCAN_FINDING_CODES
 JOB_FINDING_CODES = {
     "job-model-mismatch": "warn: a [[fasteners]] rule sets another size than the modelled bolt (the job's is used); "
                           "info: [defaults] names another size than the modelled bolt (the model's is used)",
+    "bearing-over-hole": "fail: the bearing face of the head or nut (or of the washer under it) is no wider than "
+                         "the hole of the part it presses on: it would pull into the hole",
     "nut-not-modelled": "info: a through joint with a modelled bolt has no modelled nut: a catalogue hex nut is assumed",
     "not-analysed": "fail: the joint could not be sized or resolved (no size, no standard length, no hardware data "
                     "for its size, a hole or seat the bolt does not fit); the message says why, the other joints "

@@ -579,7 +579,42 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
     spec = build_spec(job, joint.id, settings, _model_layers(job, joint, aliases), tapped=joint.tapped,
                       load=_model_load(job, joint.id, group_loads, where), where=where,
                       geometry=_model_geometry(joint), notes=notes)
+    findings += bearing_cover_findings(joint.layers, spec)
     return ModelJoint(joint, spec, findings)
+
+
+#: a bearing face covers a hole only when wider than it by more than this, mm (the
+#: geometry tolerance of the scan: faces equal to within it are taken as equal)
+BEARING_COVER_TOL = 1e-3
+
+
+def bearing_cover_findings(layers, spec) -> list[dict]:
+    """A ``bearing-over-hole`` fail for each bearing face (head, nut, or the washer under
+    either) that is no wider than the hole of the part it presses on: such a head or nut
+    pulls into the hole, nothing is clamped, and no pressure cone can start there.
+
+    ``layers``: the scanned stack from the head side (role, part, hole_diameter); ``spec``:
+    the resolved joint (its bearing diameters and head kind).  A countersunk head bears on
+    its cone, not on a face, and is left alone.
+    """
+    faces = []
+    if spec.fastener.head != "countersunk":
+        faces.append(("head", spec.bearing_diameter, 0, 1))
+    if not spec.tapped and spec.far_bearing_diameter is not None:
+        faces.append(("nut", spec.far_bearing_diameter, len(layers) - 1, -1))
+    out = []
+    for side, d_w, index, step in faces:
+        what = side
+        if layers and layers[index].role == "washer" and 0 <= index + step < len(layers):
+            what, index = f"washer under the {side}", index + step   # the washer presses on the next part
+        if not layers or layers[index].role == "washer":
+            continue
+        hole = layers[index].hole_diameter
+        if d_w <= hole + BEARING_COVER_TOL:
+            out.append(_finding("fail", "bearing-over-hole",
+                                f"the {what} ({d_w:.2f} mm bearing face, {spec.fastener.designation}) does not cover "
+                                f"the {hole:.2f} mm hole of {layers[index].part}: it would pull into the hole"))
+    return out
 
 
 #: job keys whose failure is the joint's own (its size, length, hardware or hole), not a bad value

@@ -81,7 +81,14 @@ def _cone_items(mj, by_id: dict, rgb, taken: set[str], notes: list[str], cache) 
         return []
     out = []
     neighbours = [by_id[key].cone_joint for key in mj.neighbours if key in by_id]
-    for cname, shape in cone_solids(mj.cone_joint, neighbours, cache=cache):
+    try:
+        pieces = cone_solids(mj.cone_joint, neighbours, cache=cache)
+    except InputError as exc:
+        # a joint whose cone cannot be built (a bearing face smaller than a hole it spans)
+        # is drawn without it; its findings say why, and the other joints are drawn
+        notes.append(f"{mj.scan.id}: no pressure cone drawn: {exc}")
+        return []
+    for cname, shape in pieces:
         _, part, side = cname.rsplit(":", 2) if cname.count(":") >= 2 else ("", cname, "")
         if not has_solid(shape):
             notes.append(f"{mj.scan.id}: no cone material in {part} ({side} side)")

@@ -550,8 +550,17 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
             f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</details></section>")
 
 
+def _model_findings(findings: list[dict]) -> str:
+    """The findings on the model as a whole (the reader's remarks on the file)."""
+    if not findings:
+        return ""
+    items = "".join(f'<li><b>{_e(str(f.get("severity", "info")).upper())}</b> {_e(f.get("code", ""))}: '
+                    f'{_e(f.get("message", ""))}</li>' for f in findings)
+    return f'<section id="model-findings"><h2>On the model file</h2><ul class="findings">{items}</ul></section>'
+
+
 def html_report(results: list[JointResult], *, title: str, units: str = "SI",
-                overview_svg: str | None = None, not_analysed: list = ()) -> str:
+                overview_svg: str | None = None, not_analysed: list = (), findings: list[dict] = ()) -> str:
     """The whole report as one self-contained HTML document.
 
     Parameters
@@ -567,6 +576,9 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
         it must not reference outside resources).
     not_analysed : list of analysis.UnanalysedJoint
         Model joints that could not be resolved: listed as failing, with their reason.
+    findings : list of dict
+        Findings on the model as a whole (severity, code, message: the reader's remarks on the
+        file), listed before the joints.
 
     Returns
     -------
@@ -596,6 +608,7 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
             f'<meta name="viewport" content="width=device-width, initial-scale=1">'
             f"<title>{_e(title)}</title><style>{_CSS}</style></head>\n<body>"
             f"<header><h1>{_e(title)}</h1>{caution}{unit_note}</header>\n<main>"
-            f"{_summary(results)}{_joints_table(results, u)}{overview}{_not_analysed(not_analysed)}{toolbar}{sections}"
+            f"{_model_findings(list(findings))}{_summary(results)}{_joints_table(results, u)}{overview}"
+            f"{_not_analysed(not_analysed)}{toolbar}{sections}"
             "</main>\n"
             f"<footer>{caution}</footer>\n<script>{_JS}</script>\n</body></html>\n")

@@ -117,14 +117,16 @@ def stiffness_definition(split) -> dict[str, Any]:
 
 
 def result_document(results: list[JointResult], version: str, excluded: list[str] | None = None,
-                    not_analysed: list = ()) -> dict[str, Any]:
+                    not_analysed: list = (), findings: list[dict] = ()) -> dict[str, Any]:
     """The whole document. ``excluded``: the joint ids the job's ``exclude`` names (not analysed);
     ``not_analysed``: model joints that could not be resolved (analysis.UnanalysedJoint), listed
-    with their reason and counted as failed."""
+    with their reason and counted as failed; ``findings``: the findings on the model as a whole
+    (the reader's remarks on the file), as the scan document gives them."""
     excluded = list(excluded or [])
     doc = {
         "version": version,
         "units": {"force": "N", "length": "mm", "stress": "MPa"},
+        "findings": [dict(f) for f in findings],
         "joints": [joint_document(r) for r in results],
         "excluded": excluded,
         "summary": {

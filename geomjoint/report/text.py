@@ -60,9 +60,10 @@ def _factor_cells(r: JointResult) -> list[str]:
 
 
 def result_table(results: list[JointResult], units: str = "SI", excluded: list[str] | None = None,
-                 not_analysed: list = ()) -> str:
+                 not_analysed: list = (), findings: list[dict] = ()) -> str:
     """The table; ``excluded``: joint ids the job excludes; ``not_analysed``: model joints that could
-    not be resolved (analysis.UnanalysedJoint)."""
+    not be resolved (analysis.UnanalysedJoint); ``findings``: those on the model as a whole (the
+    reader's remarks), printed above the table."""
     grip_label, per_mm, preload_label, per_newton = TABLE_UNITS[units]
     head = ["joint", "fastener", grip_label, "C", preload_label, "n yield", "n load", "n sep", "n fat",
             "verdict", "governing"]
@@ -76,8 +77,9 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
             *_factor_cells(r), r.verdict.upper(), r.governing,
         ])
     widths = [max(len(str(x)) for x in col) for col in zip(head, *rows)]
-    lines = ["  ".join(str(x).ljust(w) for x, w in zip(head, widths)),
-             "  ".join("-" * w for w in widths)]
+    lines = [f"model: {f['severity']} {f['code']}: {f['message']}" for f in findings]
+    lines += ["  ".join(str(x).ljust(w) for x, w in zip(head, widths)),
+              "  ".join("-" * w for w in widths)]
     lines += ["  ".join(str(x).ljust(w) for x, w in zip(row, widths)) for row in rows]
     for r in results:
         failed = [c for c in r.checks if not c.ok]

@@ -587,6 +587,27 @@ def quirk_small_metric(path: Path, clearance: float = 2.9, tapped: float | None 
     write_step(a, path)
 
 
+#: a fan housing's mounting hole and the thin bracket under it (the Ultimaker 2 head's fan:
+#: 3.2 mm holes in the housing over 1.8 mm holes in a 0.5 mm sheet), here for M5, mm
+WIDE_HOLE = 9.0          # wider than an M5 hex head's bearing face (ISO 4017 d_w 6.88, from memory)
+BRACKET_HOLE = 5.5       # M5 medium clearance (ISO 273)
+
+
+def quirk_wide_hole_over_small(path: Path) -> None:
+    """A 10 mm fan housing with a 9 mm hole on a 1 mm bracket with a 5.5 mm hole, no hardware:
+    the size is inferred from the bracket (M5), whose head or nut bears on the housing's hole,
+    which is wider than its bearing face (met in a real export: the bearing face pulls into
+    the hole; the marked-up model once stopped the check on it)."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="fan_mount")
+    housing = cq.Workplane("XY").box(30, 30, 10, centered=(True, True, False)).faces(">Z").workplane().hole(WIDE_HOLE)
+    a.add(housing.translate((0, 0, 1)), name="fan_housing")
+    bracket = cq.Workplane("XY").box(30, 30, 1, centered=(True, True, False)).faces(">Z").workplane().hole(BRACKET_HOLE)
+    a.add(bracket, name="bracket_sheet")
+    write_step(a, path)
+
+
 def quirk_unit_spelling(path: Path, style: str) -> None:
     """The bolted pair with its millimetre unit spelled as other writers spell it.
 

@@ -1,0 +1,140 @@
+"""What real CAD exports did to a whole check run, reproduced with the corpus builders
+(tests/corpus/make_corpus.py) and tested end to end: a bearing face over a wider hole no
+longer stops the check (exit 2 in two corpus models), the reader's remarks on the file reach
+results.json and the reports, and the corpus runner's test for false claims measures what it
+says.  The models are our own invented scenarios (a fan mount, a bracket)."""
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+import pytest
+
+from conftest import validate_result
+from geomjoint.cli import main
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE / "corpus"))
+sys.path.insert(0, str(HERE / "realworld"))
+import make_corpus as mc  # noqa: E402
+import run_corpus as rc  # noqa: E402
+
+
+def _starter_check(model: Path, capsys) -> tuple[int, Path]:
+    """``geomjoint init`` then ``check`` with steel for every part and one load on every joint
+    (what the corpus runner does): the exit code and the output folder."""
+    assert main(["init", str(model)]) == 0
+    job = model.with_suffix(".toml")
+    job.write_text(rc.starter_with_load(job.read_text(), True))
+    out = model.parent / "out"
+    code = main(["check", str(job), "--out", str(out), "--workers", "1"])
+    capsys.readouterr()
+    return code, out
+
+
+# ----------------------------------------------------------------------------- a bearing face over a wider hole
+
+def test_a_head_over_a_wider_hole_fails_its_joint_and_the_check_goes_on(tmp_path, capsys):
+    model = tmp_path / "fan_mount.step"
+    mc.quirk_wide_hole_over_small(model)
+    code, out = _starter_check(model, capsys)
+    # the check ran to the end: exit 1 (a joint fails), not 2, and every output is written
+    assert code == 1
+    assert {"results.json", "report.txt", "report.html", "fan_mount-checked.step",
+            "fan_mount-checked.glb"} <= {p.name for p in out.iterdir()}
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    [joint] = doc["joints"]
+    assert joint["fastener"]["designation"] == "M5"     # inferred from the 5.5 mm bracket hole (ISO 273 medium)
+    [over] = [f for f in joint["findings"] if f["code"] == "bearing-over-hole"]
+    # ISO 4017 M5 d_w = 6.88 mm (from memory) or ISO 4032 nut d_w 6.9 against the 9 mm hole
+    assert over["severity"] == "fail" and "9.00 mm hole of fan_housing" in over["message"]
+    assert not joint["ok"]
+    assert "does not cover the 9.00 mm hole" in (out / "report.txt").read_text()
+
+
+def test_bearing_faces_are_judged_against_the_part_they_press_on():
+    from types import SimpleNamespace as NS
+
+    from geomjoint.resolve import bearing_cover_findings
+
+    def layers(*rows):
+        return [NS(part=p, role=r, hole_diameter=h) for p, r, h in rows]
+
+    spec = NS(fastener=NS(head="hex", designation="M10"), bearing_diameter=16.0, far_bearing_diameter=16.0,
+              tapped=False)
+    # ISO 273 medium M10 clearance 11 mm under both faces: nothing to say
+    assert bearing_cover_findings(layers(("a", "member", 11.0), ("b", "member", 11.0)), spec) == []
+    # a 17 mm hole under the nut face
+    [f] = bearing_cover_findings(layers(("a", "member", 11.0), ("b", "member", 17.0)), spec)
+    assert "nut" in f["message"] and "17.00 mm hole of b" in f["message"]
+    # a washer (its outside diameter is the face) on a 17 mm hole: the washer presses on it
+    washer = NS(fastener=NS(head="hex", designation="M10"), bearing_diameter=20.0, far_bearing_diameter=16.0,
+                tapped=False)
+    assert bearing_cover_findings(layers(("w", "washer", 10.5), ("a", "member", 17.0), ("b", "member", 11.0)),
+                                  washer) == []
+    # a countersunk head bears on its cone; a tapped joint has no nut face
+    sunk = NS(fastener=NS(head="countersunk", designation="M10"), bearing_diameter=8.0, far_bearing_diameter=None,
+              tapped=True)
+    assert bearing_cover_findings(layers(("a", "member", 11.0), ("b", "tapped", 8.5)), sunk) == []
+
+
+# ----------------------------------------------------------------------------- the reader's remarks reach the outputs
+
+def test_reader_remarks_reach_results_json_and_both_reports(tmp_path, capsys):
+    model = tmp_path / "dollar_names.step"
+    mc.quirk_dollar_names(model)
+    code, out = _starter_check(model, capsys)
+    assert code in (0, 1)
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    [remark] = doc["findings"]
+    assert (remark["severity"], remark["code"]) == ("info", "reader-remark") and "dollar_names.step" in remark["message"]
+    assert "reader-remark" in (out / "report.txt").read_text().splitlines()[0]
+    assert 'id="model-findings"' in (out / "report.html").read_text()
+
+
+def test_a_clean_model_has_no_model_findings(tmp_path, capsys):
+    model = tmp_path / "pair.step"
+    mc.write_step(mc.bolted_pair_assembly(), model)
+    code, out = _starter_check(model, capsys)
+    doc = json.loads((out / "results.json").read_text())
+    assert doc["findings"] == [] and 'id="model-findings"' not in (out / "report.html").read_text()
+
+
+# ----------------------------------------------------------------------------- the runner's false-claim tests
+
+def _box(x0, x1, z0, z1):
+    import cadquery as cq
+
+    return cq.Workplane("XY").box(x1 - x0, 20, z1 - z0, centered=False).translate((x0, -10, z0)).val().wrapped
+
+
+def test_touching_near_the_axis_is_what_contradicts_a_gap():
+    from types import SimpleNamespace as NS
+
+    joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), grip=20.0, hole_diameter=5.0)
+    lower = _box(-30, 30, 0, 10)
+    # touching right at the axis
+    assert rc._distance_near_axis(lower, _box(-30, 30, 10, 20), joint, 1.0) < rc.TOUCH_TOL
+    # a real 1 mm gap at the axis, the parts touching 25 mm away (beyond 2 hole diameters):
+    # the whole solids touch, near the axis they are 1 mm apart
+    import cadquery as cq
+
+    stepped = (cq.Workplane("XY").box(60, 20, 9, centered=False).translate((-30, -10, 11))
+               .union(cq.Workplane("XY").box(5, 20, 1, centered=False).translate((25, -10, 10)))).val().wrapped
+    assert rc._distance_near_axis(lower, stepped, joint, 1.0) == pytest.approx(1.0, abs=1e-6)
+
+
+def test_a_screw_end_inside_a_part_is_found():
+    import numpy as np
+    from types import SimpleNamespace as NS
+
+    bolt = NS(part="screw", bearing_point=np.array([0.0, 0.0, 20.0]), direction=np.array([0.0, 0.0, -1.0]),
+              length=15.0)
+    block = _box(-30, 30, 0, 10)                     # the screw ends 5 mm deep in it
+    scan = NS(bolts=[bolt], nuts=[], washers=[])
+    assert rc._bolt_end_inside(bolt, scan, {"screw": None, "block": block}) == "block"
+    short = NS(**{**bolt.__dict__, "length": 8.0})   # ends 2 mm above the block
+    assert rc._bolt_end_inside(short, scan, {"block": block}) is None
