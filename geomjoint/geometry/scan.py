@@ -13,7 +13,16 @@ from typing import Any
 
 from geomjoint import catalog
 from geomjoint.errors import InputError
-from geomjoint.geometry.hardware import Bolt, Nut, Washer, recognise, thread_for_diameter
+from geomjoint.geometry.hardware import (
+    Bolt,
+    Headless,
+    Nut,
+    Washer,
+    recognise,
+    stud_bolts,
+    thread_fits_diameter,
+    thread_for_diameter,
+)
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.geometry.stacks import Finding, Joint, find_joints
@@ -33,7 +42,9 @@ FINDING_CODES = {
     "hole-not-standard": "warn: a clearance hole is none of the ISO 273 / ASME B18.2.8 sizes",
     "seat-too-small": "fail: head or washer wider than the counterbore it sits in",
     "no-hardware": "info: no bolt modelled, size inferred; warn: and no size matches",
-    "name-mismatch": "warn: the size in a bolt's name disagrees with its geometry",
+    "name-mismatch": "warn: the designation in a fastener's name (size, length, head kind) disagrees with its shape",
+    "modelled-diameter": "info: the shank is modelled at a minor or pitch diameter; the size is the one its name states",
+    "stud": "info: a stud (threaded rod) with a nut as its head",
     "grip": "info: the grip and the shortest standard bolt length that fits",
     "catalog-gap": "warn: the catalog has no data for part of this size's hardware; the checks that need it are skipped",
     "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
@@ -59,6 +70,7 @@ class ScanResult:
     washers: list[Washer] = field(default_factory=list)
     hole_count: int = 0
     unmatched_hardware: list[str] = field(default_factory=list)   # bolts/nuts/washers in no joint
+    headless: list[Headless] = field(default_factory=list)        # set screws and studs in no joint
     findings: list[Finding] = field(default_factory=list)          # on the model as a whole (reader remarks)
 
     @property
@@ -77,13 +89,18 @@ def scan_model(source: Any) -> ScanResult:
         raise InputError(str(exc), where=model.source) from None   # every error names the file
 
 
+def _label(part) -> str:
+    """The names a part's designation is read from: its product name and its readable name."""
+    return " ".join(n for n in dict.fromkeys((part.product, part.name)) if n)
+
+
 def _scan(model: Model) -> ScanResult:
-    holes, bolts, nuts, washers = [], [], [], []
+    holes, bolts, nuts, washers, headless = [], [], [], [], []
     hints = {}
     for part in model.parts:
         faces = analyse_faces(part.solid)
         part_holes = find_holes(part.solid, part.name, faces)
-        hw = recognise(part.name, faces, part_holes, part.solid)
+        hw = recognise(part.name, faces, part_holes, part.solid, label=_label(part))
         hints[part.name] = part.material_hint
         if isinstance(hw, Bolt):
             bolts.append(hw)
@@ -91,8 +108,14 @@ def _scan(model: Model) -> ScanResult:
             nuts.append(hw)
         elif isinstance(hw, Washer):
             washers.append(hw)
+        elif isinstance(hw, Headless):
+            headless.append(hw)          # a set screw in its threaded hole is no clamping joint
         else:
             holes.extend(part_holes)
+    # a stud with a nut on it is a bolt whose head is the nut
+    studs, head_nuts = stud_bolts(headless, nuts)
+    bolts += studs
+    nuts = [n for n in nuts if n.part not in head_nuts]
     joints = find_joints(holes, bolts, nuts, washers, hints)
     # the file's unit suggests the fastener system when a size is inferred from holes
     system = {"inch": "inch", "foot": "inch", "mm": "metric", "cm": "metric", "m": "metric"}.get(
@@ -102,8 +125,10 @@ def _scan(model: Model) -> ScanResult:
     used = {j.bolt.part for j in joints if j.bolt} | {j.nut.part for j in joints if j.nut} | \
         {w.part for j in joints for w in j.washers}
     loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
+    stud_parts = {b.part for b in studs}
     return ScanResult(source=model.source, model=model, joints=joints, bolts=bolts, nuts=nuts,
                       washers=washers, hole_count=len(holes), unmatched_hardware=loose,
+                      headless=[h for h in headless if h.part not in stud_parts],
                       findings=list(model.findings))
 
 
@@ -119,18 +144,22 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
     """The thread of the joint: modelled bolt (name hint cross-checked), nut, or holes."""
     if j.bolt is not None:
         b = j.bolt
+        j.nominal_source = "bolt"
+        named = _named_thread(b)
+        if named is not None and thread_fits_diameter(named, b.d):
+            if abs(named.d - b.d) > 0.03 * named.d:
+                j.findings.append(Finding("info", "modelled-diameter",
+                                          f"{b.part}: the shank is modelled at {b.d:.2f} mm, not the nominal "
+                                          f"{named.d:g} mm; size {named.designation} from its name"))
+            return named
         hint = b.hint
-        if hint is not None and abs(hint.d - b.d) <= 0.03 * hint.d:
-            j.nominal_source = "bolt"
-            return catalog.thread(hint.designation)
         t = thread_for_diameter(b.d, "inch" if (hint and "-" in hint.designation) else _system_hint(j, default_system))
         if t is None:
             t = thread_for_diameter(b.d)
-        if hint is not None and t is not None and abs(hint.d - b.d) > 0.03 * hint.d:
+        if named is not None:
             j.findings.append(Finding("warn", "name-mismatch",
-                                      f"{b.part}: name says {hint.designation} but the shank is "
-                                      f"{b.d:.2f} mm ({t.designation})"))
-        j.nominal_source = "bolt"
+                                      f"{b.part}: name says {named.designation} but the shank is "
+                                      f"{b.d:.2f} mm ({t.designation if t else 'no standard size'})"))
         return t
     preferred = _system_hint(j, default_system)
     tapped = [l for l in j.layers if l.role == "tapped"]
@@ -154,6 +183,46 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
                     j.nominal_source = what
                     return t
     return None
+
+
+def _named_thread(b: Bolt):
+    """The thread a bolt's name states, or None."""
+    if b.hint is None:
+        return None
+    try:
+        return catalog.thread(b.hint.designation)
+    except InputError:
+        return None
+
+
+#: a modelled length agrees with the name's within this, mm (rounding of the exporting system;
+#: the corpus runner counts a bolt "as named" with the same tolerance)
+NAME_LENGTH_TOL = 0.6
+#: head kinds a name may give for the same shape (ISO 1580 and ISO 7045 pan heads; a heavy hex
+#: head is a hex head)
+_SAME_HEAD = {"pan slotted": "pan", "heavy hex": "hex"}
+
+
+def _designation_findings(j: Joint, t) -> None:
+    """The bolt's name against its shape: length and head kind (the size in _resolve_nominal);
+    each disagreement one warn finding stating both."""
+    b = j.bolt
+    desig = b.designation
+    if desig is None or b.nut_head:
+        return
+    said = desig.size or desig.named_standard or desig.text
+    if desig.length is not None and abs(desig.length - b.length) > NAME_LENGTH_TOL:
+        what = "overall" if b.head_kind == "countersunk" else "from the bearing face to the tip"
+        j.findings.append(Finding("warn", "name-mismatch",
+                                  f"{b.part}: name says {said} but the modelled length is {b.length:.2f} mm ({what})"))
+    if desig.family == "bolt" and desig.kind and \
+            _SAME_HEAD.get(desig.kind, desig.kind) != _SAME_HEAD.get(b.head_kind, b.head_kind):
+        j.findings.append(Finding("warn", "name-mismatch",
+                                  f"{b.part}: name says a {desig.kind} head ({desig.named_standard or desig.text}) "
+                                  f"but the shape is a {b.head_kind} head"))
+    elif desig.family in ("nut", "washer", "set screw", "stud"):
+        j.findings.append(Finding("warn", "name-mismatch",
+                                  f"{b.part}: name says a {desig.family} but the shape is a {b.head_kind}-head bolt"))
 
 
 def _can_finish(j: Joint, t, head: str) -> bool:
@@ -183,6 +252,10 @@ def add_findings(j: Joint, system: str | None = None) -> None:
     """
     t = _resolve_nominal(j, system)
     j.nominal = t.designation if t else None
+    if j.bolt is not None:
+        _designation_findings(j, t)
+        if j.bolt.nut_head:
+            j.findings.append(Finding("info", "stud", f"{j.bolt.part} is a stud; the nut {j.bolt.nut_head} is its head"))
     d = t.d if t else (j.bolt.d if j.bolt else None)
     add = j.findings.append
     if j.bolt is None:
@@ -357,14 +430,17 @@ def scan_to_json(result: ScanResult) -> dict:
                         "start": _r(l.start), "end": _r(l.end)} for l in j.layers if l.thickness > 0],
             "gaps": [{"between": list(g.between), "size": _r(g.size)} for g in j.gaps],
             "hardware": {
-                "bolt": ({"part": j.bolt.part, "d": _r(j.bolt.d), "length": _r(j.bolt.length)}
+                "bolt": ({"part": j.bolt.part, "d": _r(j.bolt.d), "length": _r(j.bolt.length),
+                          "head": j.bolt.head_kind, **({"stud_nut": j.bolt.nut_head} if j.bolt.nut_head else {})}
                          if j.bolt else None),
                 "nut": j.nut.part if j.nut else None,
                 "washers": [w.part for w in j.washers],
             },
             "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in j.findings],
         })
-    return {"joints": joints,
+    hardware = [{"part": h.part, "kind": h.kind, "d": _r(h.d), "length": _r(h.length),
+                 "nominal": h.hint.designation if h.hint else None} for h in result.headless]
+    return {"joints": joints, "hardware": hardware,
             "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in result.findings]}
 
 
@@ -385,6 +461,9 @@ def scan_table(result: ScanResult) -> str:
             lines.append(f"{'':<4} {f.severity:<5} {f.code:<18} {f.message}")
     if result.unmatched_hardware:
         lines.append("hardware in no joint: " + ", ".join(result.unmatched_hardware))
+    for h in result.headless:
+        size = h.hint.designation if h.hint else f"{h.d:.2f} mm"
+        lines.append(f"{h.kind}: {h.part} ({size} x {h.length:.2f} mm; not a clamping joint)")
     fails = sum(f.severity == "fail" for j in result.joints for f in j.findings)
     lines.append(f"{fails} failing finding(s)")
     return "\n".join(lines) + "\n"

@@ -6,7 +6,7 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from OCP.TopAbs import TopAbs_FACE, TopAbs_SOLID, TopAbs_VERTEX, TopAbs_WIRE
+from OCP.TopAbs import TopAbs_EDGE, TopAbs_FACE, TopAbs_SHELL, TopAbs_SOLID, TopAbs_VERTEX, TopAbs_WIRE
 from OCP.TopExp import TopExp_Explorer
 from OCP.TopoDS import TopoDS, TopoDS_Shape
 
@@ -36,3 +36,13 @@ def wires(shape: TopoDS_Shape) -> Iterator:
 def vertices(shape: TopoDS_Shape) -> Iterator:
     """The vertices of a shape."""
     return _explore(shape, TopAbs_VERTEX, TopoDS.Vertex_s)
+
+
+def edges(shape: TopoDS_Shape) -> Iterator:
+    """The edges of a shape (shared edges once per face that uses them), located."""
+    return _explore(shape, TopAbs_EDGE, TopoDS.Edge_s)
+
+
+def shells(shape: TopoDS_Shape) -> Iterator:
+    """The shells of a shape (those of its solids included), located."""
+    return _explore(shape, TopAbs_SHELL, TopoDS.Shell_s)
