@@ -203,17 +203,17 @@ def _bearing_diameters(s: dict[str, Any], geometry: dict[str, float], layers: li
     modelled hardware, else the catalogue (washer outside diameter when a washer is clamped,
     else the head's / nut's bearing diameter). The nut face is None for a tapped joint."""
     thread = fastener.thread
-    washer_outer = catalog.washer(thread).outer
     head, head_source = geometry.get("bearing_diameter"), SOURCE_MODEL
     if head is None:
-        head = washer_outer if layers[0].role == "washer" else fastener.head.bearing_diameter
+        # the catalogue washer only where a washer is clamped: a size without washer data still resolves
+        head = catalog.washer(thread).outer if layers[0].role == "washer" else fastener.head.bearing_diameter
         head_source = SOURCE_CATALOGUE
     far: float | None = None
     far_source: str | None = None
     if not tapped:
         far, far_source = geometry.get("far_bearing_diameter"), SOURCE_MODEL
         if far is None:
-            far = washer_outer if layers[-1].role == "washer" else catalog.nut(thread).bearing_diameter
+            far = catalog.washer(thread).outer if layers[-1].role == "washer" else catalog.nut(thread).bearing_diameter
             far_source = SOURCE_CATALOGUE
     if "bearing_diameter" in s:
         job_head, job_nut = _bearing_faces(s["bearing_diameter"], f"{where}.bearing_diameter", tapped)

@@ -316,11 +316,38 @@ def test_inch_hardware():
     assert cat.clearance_hole(t, "loose") == pytest.approx(0.5625 * IN)
 
 
+def test_numbered_inch_sizes_have_hex_heads_washers_and_nuts():
+    # ASME B18.6.3 hex head machine screws, plain and slotted, regular head: A max, H max (as reprinted
+    # by adfastcomponents.com and fastenerplanet.com)
+    for size, A, H in (("#1-64", 0.125, 0.044), ("#4-40", 0.188, 0.060), ("#6-32", 0.250, 0.093),
+                       ("#10-24", 0.312, 0.120), ("#10-32", 0.312, 0.120), ("#12-24", 0.312, 0.155)):
+        h = cat.head(cat.thread(size))
+        assert (h.width, h.height) == (pytest.approx(A * IN), pytest.approx(H * IN)), size
+        assert h.bearing_diameter == pytest.approx(A * IN) and "B18.6.3" in h.source
+    # ASME B18.21.1-2009 plain washers type B (formerly B18.22.1-1965 Table 2), ID / OD / thickness basic
+    # (as reprinted by adfastcomponents.com): #0 narrow 0.068 / 0.125 / 0.025, #3 wide 0.109 / 0.405 / 0.040,
+    # #5 narrow 0.141 / 0.281 / 0.032; type A (from #6) is unchanged: #6 narrow 0.156 / 0.375 / 0.049
+    for size, kind, dims in (("#0-80", "standard", (0.068, 0.125, 0.025)), ("#3-48", "uss", (0.109, 0.405, 0.040)),
+                             ("#5-40", "sae", (0.141, 0.281, 0.032)), ("#6-32", "sae", (0.156, 0.375, 0.049))):
+        w = cat.washer(cat.thread(size), kind)
+        assert (w.inner, w.outer, w.thickness) == pytest.approx(tuple(x * IN for x in dims)), size
+    # ASME B18.6.3-2003 hex machine screw nuts (ASME B18.2.2-2010): F basic, H max (as reprinted by
+    # torqbolt.com): #0 5/32 / 0.050, #10 3/8 / 0.130, #12 7/16 / 0.161
+    for size, F, H in (("#0-80", 5 / 32, 0.050), ("#10-24", 3 / 8, 0.130), ("#12-24", 7 / 16, 0.161)):
+        n = cat.nut(cat.thread(size))
+        assert (n.width, n.height) == (pytest.approx(F * IN), pytest.approx(H * IN)), size
+    # each of them can now be finished with a hex head and a nut (stock lengths, common practice)
+    for size in ("#1-64", "#4-40", "#10-24", "#12-24"):
+        assert cat.hardware_gaps(cat.thread(size), "hex") == [], size
+    assert cat.standard_lengths(cat.thread("#10-24"), "hex")[0] == pytest.approx(0.25 * IN)
+    assert cat.hardware_gaps(cat.thread("#0-80"), "hex") == ["hex head", "hex lengths"]
+
+
 def test_metric_heavy_hex_and_bad_kinds_are_input_errors():
     t = cat.thread("M12")
     for call in (lambda: cat.head(t, "heavy hex"), lambda: cat.head(t, "carriage"),
                  lambda: cat.washer(t, "uss"), lambda: cat.clearance_hole(t, "snug"),
-                 lambda: cat.head(cat.thread("#10-24"))):
+                 lambda: cat.head(cat.thread("#0-80"))):     # ASME B18.6.3 hex heads start at #1
         with pytest.raises(InputError):
             call()
 

@@ -277,6 +277,93 @@ def test_size_without_nut_data_is_a_finding_not_a_crash(tmp_path):
     assert gap and "no nut dimensions for M7" in gap[0].message and gap[0].severity == "warn"
 
 
+#: numbered inch screws of the synthetic model below: (name, thread, head kind, head width, head height in inch)
+#: hex heads ASME B18.6.3 regular (A max, H max), the socket ASME B18.3 (from memory)
+NUMBERED = (("hex_head_screw_10-24x3/4", "#10-24", "hex", 0.312, 0.120),
+            ("hex_head_screw_12-24x3/4", "#12-24", "hex", 0.312, 0.155),
+            ("hex_head_screw_2-56x3/4", "#2-56", "hex", 0.125, 0.050),
+            ("socket_cap_screw_4-40x3/4", "#4-40", "socket", 0.183, 0.112))
+
+
+def _numbered_model(path: Path) -> None:
+    """Two 1/4 in steel plates, one ASME B18.2.8 normal clearance hole per screw of NUMBERED."""
+    inch = 25.4
+    t_plate = 0.25 * inch
+    xs = [(-1.5 + i) * inch for i in range(len(NUMBERED))]
+    a = cq.Assembly(name="instrument_rail")
+    for name, z0 in (("rail_upper", t_plate), ("rail_lower", 0.0)):
+        w = cq.Workplane("XY").box(5.0 * inch, 1.0 * inch, t_plate, centered=(True, True, False))
+        for x, (_, size, *_) in zip(xs, NUMBERED):
+            hole = catalog.clearance_hole(catalog.thread(size), "normal")
+            w = w.cut(cq.Workplane("XY").circle(hole / 2).extrude(t_plate).translate((x, 0, 0)))
+        a.add(w.translate((0, 0, z0)), name=name)
+    for x, (name, size, kind, width, height) in zip(xs, NUMBERED):
+        d = catalog.thread(size).d
+        shape = (mc._hex_bolt(d, 0.75 * inch, width * inch, height * inch) if kind == "hex"
+                 else mc._socket_screw(d, 0.75 * inch, width * inch, height * inch))
+        a.add(shape, name=name, loc=cq.Location(cq.Vector(x, 0, 2 * t_plate)))
+    mc.write_step(a, path)
+
+
+NUMBERED_JOB = """title = "Instrument rail, numbered inch screws (demo)"
+model = "{model}"
+[materials]
+"*" = "steel"
+[defaults]
+grade = "A2-70"
+preload = "75%"
+[[joint]]
+id = "typed-4-40"
+fastener = "#4-40"
+head = "socket"
+length = "1/2 in"
+layers = [ {{ material = "steel", thickness = "0.032 in", role = "washer" }},
+           {{ material = "steel", thickness = "1/8 in" }}, {{ material = "steel", thickness = "1/8 in" }} ]
+"""
+
+
+def test_numbered_inch_sizes_are_finished_from_the_catalogue(tmp_path, monkeypatch):
+    """#2, #10 and #12 hex head machine screws and a #4 socket screw (washer on a typed-in twin): every
+    joint is analysed, with no catalog-gap; without the numbered-size rows they were not."""
+    from geomjoint.analysis import analyze_job
+    from geomjoint.catalog import hardware
+    from geomjoint.job import parse_job
+
+    path = tmp_path / "rail.step"
+    _numbered_model(path)
+    job_path = tmp_path / "rail.toml"
+    job_path.write_text(NUMBERED_JOB.format(model=path.name))
+    scan = scan_model(path)
+    by_size = {j.nominal: j for j in scan.joints}
+    assert sorted(by_size) == sorted(catalog.thread(size).designation for _, size, *_ in NUMBERED)
+    for j in scan.joints:
+        assert not [f for f in j.findings if f.code == "catalog-gap"], j.nominal
+    analysis = analyze_job(parse_job(job_path.read_text(), job_path), scan=scan)
+    assert not analysis.not_analysed, [u.message for u in analysis.not_analysed]
+    results = {r.spec.fastener.designation if r.id != "typed-4-40" else r.id: r for r in analysis.results}
+    assert len(results) == len(NUMBERED) + 1
+    for r in analysis.results:
+        assert not [f for f in r.findings if f["code"] in ("catalog-gap", "not-analysed")], r.id
+    # the typed-in #4 with a washer bears on the ASME B18.21.1 type B narrow washer, OD 0.250 in
+    typed = results["typed-4-40"]
+    assert typed.spec.bearing_diameter == pytest.approx(0.250 * 25.4) and typed.spec.bearing_source == "catalogue"
+    # without the rows of this change (hex heads below 1/4 in, washers below #6) the same joints fail
+    new_rows = {("hex_heads", size) for size in ("#1", "#2", "#3", "#4", "#5", "#6", "#8", "#10", "#12")} | {
+        ("washers", size) for size in ("#0", "#1", "#2", "#3", "#4", "#5")}
+    full = hardware._by_size
+
+    def without_new_rows(table):
+        return {k: v for k, v in full(table).items() if (table, k[0]) not in new_rows}
+    monkeypatch.setattr(hardware, "_by_size", without_new_rows)
+    with pytest.raises(InputError, match="no narrow washer dimensions for #4-40 UNC"):
+        analyze_job(parse_job(job_path.read_text(), job_path), scan=scan)      # the typed-in twin: exit 2
+    model_only = job_path.read_text().split("[[joint]]")[0]
+    before = analyze_job(parse_job(model_only, job_path), scan=scan_model(path))
+    reasons = " | ".join(u.message for u in before.not_analysed)
+    for size in ("#10-24", "#12-24", "#2-56"):
+        assert f"no hex head dimensions for {size} UNC" in reasons, size
+
+
 def test_a_catalogue_error_during_the_scan_names_the_file(tmp_path, monkeypatch):
     path = tmp_path / "m25.step"
     mc.quirk_small_metric(path, clearance=2.9)

@@ -3,10 +3,11 @@
 Metric: ISO 4014/4017 hex heads, ISO 4762 socket heads, ISO 7380-1 button heads, ISO 7045 /
 ISO 1580 pan heads, ISO 1207 cheese heads, ISO 10642 / ISO 2009 countersunk heads, ISO 4162
 flange bolts, ISO 4026 / ISO 4029 set screws, ISO 4032 nuts, ISO 7089 washers, ISO 273
-clearance holes.  Inch: ASME B18.2.1 hex and heavy hex bolts, ASME B18.3 socket, button and
-flat countersunk head cap screws, ASME B18.2.2 / B18.6.3 nuts, ASME B18.21.1 type A washers
-(SAE = narrow, USS = wide), ASME B18.2.8 clearance holes.  A size the standards do not
-cover in some table (no ISO 7380 button head below M3, no numbered-size washer below #6)
+clearance holes.  Inch: ASME B18.2.1 hex and heavy hex bolts (1/4 in and up), ASME B18.6.3
+hex head machine screws (#1-#12), ASME B18.3 socket, button and flat countersunk head cap
+screws, ASME B18.2.2 / B18.6.3 nuts, ASME B18.21.1 plain washers (type A from #6: SAE =
+narrow, USS = wide; type B narrow / wide below #6), ASME B18.2.8 clearance holes.  A size the
+standards do not cover in some table (no ISO 7380 button head below M3, no hex head for #0)
 raises InputError naming the size and the sizes there are; callers turn that into a
 finding on the one joint.  The tables are keyed by the size of the thread
 ("M12", "1/2", "#10"), so a fine-pitch thread gets the hardware of its nominal size.
@@ -90,7 +91,8 @@ def head_kind(kind: str) -> str:
 def head(t: Thread, kind: str = "hex") -> HeadDims:
     """Head dimensions of a bolt or screw with thread `t`.
 
-    kind: "hex" (ISO 4014/4017; ASME B18.2.1 hex bolt), "heavy hex" (ASME B18.2.1, inch only),
+    kind: "hex" (ISO 4014/4017; ASME B18.2.1 hex bolt; ASME B18.6.3 hex head machine screw for
+    the numbered sizes), "heavy hex" (ASME B18.2.1, inch only),
     "socket" (ISO 4762; ASME B18.3), "button" (ISO 7380-1; ASME B18.3), "pan" (ISO 7045
     cross recessed; "pan slotted": ISO 1580), "cheese" (ISO 1207), "countersunk" (ISO 10642,
     below M3 ISO 2009; ASME B18.3 flat head) or "flange" (ISO 4162).  width is s (hex,
@@ -163,9 +165,10 @@ def nut(t: Thread) -> NutDims:
 
 
 def washer(t: Thread, kind: str = "standard") -> WasherDims:
-    """Plain washer for thread `t`: ISO 7089 (metric) or ASME B18.21.1 type A (inch).
+    """Plain washer for thread `t`: ISO 7089 (metric) or ASME B18.21.1 plain washer (inch).
 
     kind: "standard" (ISO 7089; inch: SAE = narrow), "sae"/"narrow", "uss"/"wide" (inch only).
+    Inch sizes from #6 are type A; #0-#5, where type A has none, type B of the same series.
 
     >>> from geomjoint.catalog.threads import thread
     >>> washer(thread("M12")).outer
