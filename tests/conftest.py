@@ -39,7 +39,7 @@ CAD_TEST_MODULES = frozenset({
     "test_api", "test_cli", "test_cluster", "test_cones", "test_corpus", "test_geometry_hardware",
     "test_geometry_model", "test_geometry_scan", "test_geometry_stacks", "test_markup",
     "test_outputs_agree", "test_pipeline", "test_properties", "test_methods", "test_required_length",
-    "test_comparison", "test_not_analysed",
+    "test_comparison", "test_not_analysed", "test_hardware_shapes",
     "test_check_outputs",
     "test_realworld_reading", "test_realworld_checks",
 })

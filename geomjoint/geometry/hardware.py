@@ -726,8 +726,11 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
     ring = [p for p in outer if np.linalg.norm(p.ref - h.ref) < 10 * LINEAR_TOL
             and abs(abs(float(np.dot(p.direction, h.direction))) - 1) < ANGLE_TOL]
     o = _Outline.of(_faces_of(solid), h.ref, h.direction) if solid is not None else None
+    R = end_r = 0.0
     if o is not None:
         hf = [(f, *o.tr(f)) for f in o.faces if len(f.points)]
+        R = float(o.r.max()) if len(o.r) else 0.0
+        end_r = _end_face_radius(o, hf, a0, a1)
         af = _prism_width(o, hf, 6, height)
         kind = "hex"
         if af is None:
@@ -738,14 +741,15 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
             t_sq = _thread_by_bore(h.diameter) if af is not None else None
             if t_sq is None or af > SQUARE_NUT_MAX_WIDTH_RATIO * t_sq.d or R > PRISM_CORNER_TOL * af / math.sqrt(2):
                 af = None
-        R = float(o.r.max()) if len(o.r) else 0.0
     else:
         af = _hex_width(faces, h.ref, h.direction)
-        kind, R = "hex", 0.0
+        kind = "hex"
     if (af and MIN_HEAD_WIDTH_RATIO * h.diameter <= af <= MAX_HEAD_WIDTH_RATIO * h.diameter
             and height <= NUT_MAX_HEIGHT_RATIO * h.diameter):
-        corners = af / math.cos(math.radians(30 if kind == "hex" else 45))
-        bearing = af
+        corners = af * HEX_CORNER_FACTOR
+        # the bearing face: the end face as far as it reaches (a chamfered nut's circle, a
+        # washer face), at most the flats
+        bearing = min(af, 2 * end_r) if end_r > h.diameter / 2 else af
         if kind == "hex" and R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bearing = "flange", 2 * R
         elif kind == "hex":
@@ -759,6 +763,19 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
         if MIN_HEAD_WIDTH_RATIO * h.diameter <= od <= WASHER_MAX_OD_RATIO * h.diameter:
             return Washer(part, h.ref, h.direction, h.diameter, od, height, a0, a1, hint, solid, desig)
     return None
+
+
+def _end_face_radius(o: _Outline, hf, a0: float, a1: float) -> float:
+    """How far out the smaller of a nut's two end faces reaches (planes normal to the axis at
+    either end), mm; 0 when an end has no such face."""
+    reach = {}
+    for f, ft, fr in hf:
+        if f.kind != "plane" or abs(abs(float(np.dot(f.normal, o.d))) - 1) > 1e-6 or np.ptp(ft) > 10 * LINEAR_TOL:
+            continue
+        for end in (a0, a1):
+            if abs(float(ft.mean()) - end) < 10 * LINEAR_TOL:
+                reach[end] = max(reach.get(end, 0.0), float(fr.max()))
+    return min(reach.values()) if len(reach) == 2 else 0.0
 
 
 def _thread_by_bore(bore: float):

@@ -111,6 +111,7 @@ class Part:
     material_hint: str | None = None    # from the name or the colour name
     product: str | None = None          # name of the part definition (shared by instances)
     instance: str | None = None         # the file's own name of this placement ("NAUO12", "bolt:3")
+    surface_body: bool = False          # made a solid from a closed surface body (shells, no solid)
 
     @property
     def aliases(self) -> tuple[str, ...]:
@@ -212,6 +213,7 @@ class _Raw:
     colour: Quantity_Color | None
     product: str | None
     instance: str | None
+    surface_body: bool = False
 
 
 class _Collector:
@@ -221,6 +223,9 @@ class _Collector:
         self.doc = doc
         self.colours = XCAFDoc_DocumentTool.ColorTool_s(doc.Main())
         self.raw: list[_Raw] = []
+        self.open_bodies: list[str] = []      # surface bodies that do not close (not read)
+        self.closed_bodies: list[str] = []    # surface bodies made solids
+        self._surface_cache: dict[int, tuple[list[TopoDS_Shape], bool]] = {}
 
     def run(self) -> None:
         shapes = XCAFDoc_DocumentTool.ShapeTool_s(self.doc.Main())
@@ -254,10 +259,62 @@ class _Collector:
         own = _label_name(label)
         product = readable(own) and own or product
         col = _label_colour(label) or colour
-        for solid in _solids(shape):
+        solids = _solids(shape)
+        from_surface = False
+        if not solids and not shape.IsNull():
+            key = hash(shape.Located(TopLoc_Location()))
+            if key not in self._surface_cache:
+                self._surface_cache[key] = solids_of_surface_body(shape)
+            solids, left_open = self._surface_cache[key]
+            from_surface = bool(solids)
+            if solids and name not in self.closed_bodies:
+                self.closed_bodies.append(name)
+            if left_open and name not in self.open_bodies:
+                self.open_bodies.append(name)
+        for solid in solids:
             scol = _shape_colour(self.colours, solid) or col
             located = solid.Moved(loc) if not loc.IsIdentity() else solid
-            self.raw.append(_Raw(name, located, scol, product, instance))
+            self.raw.append(_Raw(name, located, scol, product, instance, from_surface))
+
+
+#: the faces of a surface body are sewn with this tolerance, mm: above the gaps CAD writers
+#: leave between the faces of one body (1e-6 to 1e-3 mm), far below any feature of a part
+SEWING_TOL = 1e-2
+
+
+def solids_of_surface_body(shape: TopoDS_Shape) -> tuple[list[TopoDS_Shape], bool]:
+    """A shape with faces but no solid (a surface body: shells, as some fastener libraries
+    export screws): its faces sewn, each closed shell made a solid (outward oriented).
+    Returns the solids and whether some surface stayed open (then it is no part)."""
+    from OCP.BRep import BRep_Tool
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_Sewing
+    from OCP.BRepGProp import BRepGProp
+    from OCP.GProp import GProp_GProps
+    from OCP.ShapeFix import ShapeFix_Solid
+
+    faces = list(topology.faces(shape))
+    if not faces:
+        return [], False
+    sewing = BRepBuilderAPI_Sewing(SEWING_TOL)
+    for f in faces:
+        sewing.Add(f)
+    sewing.Perform()
+    sewn = sewing.SewedShape()
+    shells = list(topology.shells(sewn))
+    solids: list[TopoDS_Shape] = []
+    left_open = not shells
+    for shell in shells:
+        if not BRep_Tool.IsClosed_s(shell):
+            left_open = True
+            continue
+        solid = ShapeFix_Solid().SolidFromShell(shell)
+        props = GProp_GProps()
+        BRepGProp.VolumeProperties_s(solid, props)
+        if props.Mass() <= 0:
+            left_open = True
+            continue
+        solids.append(solid)
+    return solids, left_open
 
 
 def _instance_names_win(raw: list[_Raw]) -> None:
@@ -297,7 +354,7 @@ def _unique_parts(raw: list[_Raw]) -> list[Part]:
             cname = Quantity_Color.StringName_s(col.Name())
         parts.append(Part(name=uname, solid=r.solid, colour=rgb, colour_name=cname,
                           material_hint=material_hint(name, r.product, r.instance, cname), product=r.product,
-                          instance=r.instance))
+                          instance=r.instance, surface_body=r.surface_body))
     # a later duplicate may collide with an earlier literal "x#2": make names unique anyway
     names: set[str] = set()
     for p in parts:
@@ -405,7 +462,20 @@ def _read_step(path: str) -> tuple[list[Part], list[Finding]]:
     parts = _unique_parts(col.raw)
     supervision.announce_read()
     _check_transfer(path, parts)
-    return parts, notes
+    return parts, notes + surface_body_findings(os.path.basename(path), col.closed_bodies, col.open_bodies)
+
+
+def surface_body_findings(file: str, closed: list[str], left_open: list[str]) -> list[Finding]:
+    """What became of the surface bodies (shells without a solid) of a model: one info finding
+    naming those made solids, one warn finding naming those that do not close."""
+    out = []
+    if closed:
+        out.append(Finding("info", "surface-body", f"{file}: read as solids from their closed surfaces: "
+                                                   f"{', '.join(closed)}"))
+    if left_open:
+        out.append(Finding("warn", "surface-body", f"{file}: surface bodies that do not close, not read as parts "
+                                                   f"(no joint sees them): {', '.join(left_open)}"))
+    return out
 
 
 def _check_entities(reader: STEPCAFControl_Reader, path: str) -> list[Finding]:
@@ -482,7 +552,7 @@ def _check_transfer(path: str, parts: list[Part]) -> None:
     if expected == 0:
         return  # no solid entities: the caller reports "no solids"
     # instances of one part share one solid: count distinct shapes, placement removed
-    distinct = len({hash(p.solid.Located(TopLoc_Location())) for p in parts})
+    distinct = len({hash(p.solid.Located(TopLoc_Location())) for p in parts if not p.surface_body})
     if distinct != expected:
         raise InputError(f"the file has {expected} solid entities but the reader made {distinct} solids of them: "
                          f"a solid whose shell is not closed, or a non-manifold one", where=path)

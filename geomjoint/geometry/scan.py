@@ -47,6 +47,7 @@ FINDING_CODES = {
     "stud": "info: a stud (threaded rod) with a nut as its head",
     "grip": "info: the grip and the shortest standard bolt length that fits",
     "catalog-gap": "warn: the catalog has no data for part of this size's hardware; the checks that need it are skipped",
+    "surface-body": "info (model): surface bodies made solids from their closed shells; warn: ones that do not close, not read",
     "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
 }
 
@@ -167,6 +168,11 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
     clearance_fits = ("fine", "medium", "coarse", "close", "normal", "loose")
     probes = []
     if j.nut is not None:
+        named = _named_thread(j.nut)
+        if named is not None and (thread_fits_diameter(named, j.nut.d)
+                                  or abs(catalog.tap_drill(named) - j.nut.d) <= SIZE_MATCH_TOL):
+            j.nominal_source = "nut"       # the nut's name decides where its bore fits two sizes
+            return named
         probes.append((j.nut.d, ("nominal", "tap drill"), "nut"))
     if clear:
         probes.append((j.hole_diameter, clearance_fits, "clearance hole"))
@@ -185,8 +191,12 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
     return None
 
 
-def _named_thread(b: Bolt):
-    """The thread a bolt's name states, or None."""
+#: a bore matches a thread's tap drill within this, mm (as stacks.THREAD_MATCH_TOL)
+SIZE_MATCH_TOL = 0.05
+
+
+def _named_thread(b):
+    """The thread a bolt's (or nut's) name states, or None."""
     if b.hint is None:
         return None
     try:

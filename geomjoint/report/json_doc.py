@@ -82,7 +82,7 @@ def joint_document(r: JointResult) -> dict[str, Any]:
         "verdict": r.verdict,
         "governing": r.governing,
         "fastener": {"designation": f.designation, "grade": f.grade, "d": f.d, "pitch": f.pitch,
-                     "stress_area": f.stress_area, "length": f.length,
+                     "stress_area": f.stress_area, "length": f.length, "head": f.head,
                      **({"thread_length": r.thread_length} if r.thread_length is not None else {})},
         "grip": r.grip,
         "effective_grip": r.effective_grip,

@@ -658,6 +658,270 @@ def quirk_remark_entities(path: Path, style: str) -> None:
     path.write_text(text)
 
 
+# ---------------------------------------------------------------- hardware as fastener libraries model it
+# Reproductions of how real fastener libraries draw their parts, for tests/test_hardware_shapes.py.
+# Dimensions are the catalogue's (ISO tables, from memory, as in geomjoint/catalog/data); the
+# scenarios (plates, blocks, a hub) are invented.
+
+def _revolved(profile: list[tuple[float, float]]):
+    """A solid of revolution about z from a closed (r, z) polygon."""
+    import cadquery as cq
+
+    return cq.Workplane("XZ").polyline(profile).close().revolve(360.0, (0, 0, 0), (0, 1, 0))
+
+
+def _hex_socket(key: float, depth: float, top: float):
+    """The cutting tool of a hexagon socket of size `key` (across flats) and `depth` from z = top."""
+    import cadquery as cq
+
+    return (cq.Workplane("XY").polygon(6, key / math.cos(math.radians(30))).extrude(depth)
+            .translate((0, 0, top - depth)))
+
+
+def hex_bolt_as_library(d: float, length: float, s: float, k: float, dw: float, c: float = 0.5,
+                        chamfer_deg: float = 30.0):
+    """A hex bolt as fastener libraries draw it (ISO 4014 / ISO 4017): the hexagon chamfered at
+    the top (a cone at ``chamfer_deg`` to the top face, cutting the corners down to about s), a
+    washer face of diameter ``dw`` and height ``c`` under it, the bearing face at z = 0 and the
+    shank to z = -length."""
+    import cadquery as cq
+
+    e = s / math.cos(math.radians(30))
+    r_top = 0.95 * s / 2
+    slope = math.tan(math.radians(chamfer_deg))
+    chamfer = _revolved([(0, c), (e, c), (e, k - (e - r_top) * slope), (r_top, k), (0, k)])
+    prism = cq.Workplane("XY").polygon(6, e).extrude(k - c).translate((0, 0, c))
+    head = prism.intersect(chamfer)
+    face = cq.Workplane("XY").circle(dw / 2).extrude(c)
+    shank = cq.Workplane("XY").circle(d / 2).extrude(-length)
+    return head.union(face).union(shank)
+
+
+def socket_screw_as_library(d: float, length: float, dk: float, k: float, key: float, chamfer: float = 0.5):
+    """An ISO 4762 socket head cap screw as one commercial CAD library writes it: the head's top
+    edge chamfered (a cone narrowing to the top), a hexagon socket, the bearing face at z = 0."""
+    import cadquery as cq
+
+    head = _revolved([(0, 0), (dk / 2, 0), (dk / 2, k - chamfer), (dk / 2 - chamfer, k), (0, k)])
+    head = head.cut(_hex_socket(key, 0.6 * k, k))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def button_screw(d: float, length: float, dk: float, k: float, key: float):
+    """An ISO 7380-1 button head screw: a low dome over a short rim, a hexagon socket."""
+    import cadquery as cq
+
+    rim = 0.15 * k
+    head = (cq.Workplane("XZ").moveTo(0, 0).lineTo(dk / 2, 0).lineTo(dk / 2, rim)
+            .threePointArc((0.3 * dk, 0.85 * k), (0, k)).close().revolve(360.0, (0, 0, 0), (0, 1, 0)))
+    head = head.cut(_hex_socket(key, 0.6 * k, k + 0.01))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def pan_screw(d: float, length: float, dk: float, k: float):
+    """An ISO 7045 pan head screw: a short side, a rounded crown, a cross recess (four slots)."""
+    import cadquery as cq
+
+    side = 0.45 * k
+    head = (cq.Workplane("XZ").moveTo(0, 0).lineTo(dk / 2, 0).lineTo(dk / 2, side)
+            .threePointArc((0.32 * dk, 0.9 * k), (0, k)).close().revolve(360.0, (0, 0, 0), (0, 1, 0)))
+    for w, l in ((0.12 * dk, 0.5 * dk), (0.5 * dk, 0.12 * dk)):
+        head = head.cut(cq.Workplane("XY").rect(w, l).extrude(0.5 * k).translate((0, 0, 0.55 * k)))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def cheese_screw(d: float, length: float, dk: float, k: float):
+    """An ISO 1207 slotted cheese head screw: a cylindrical head with a flat top and a slot."""
+    import cadquery as cq
+
+    head = _revolved([(0, 0), (dk / 2, 0), (dk / 2, k - 0.2), (dk / 2 - 0.2, k), (0, k)])
+    head = head.cut(cq.Workplane("XY").rect(0.2 * dk, dk + 1).extrude(0.4 * k).translate((0, 0, 0.6 * k + 0.01)))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def flange_bolt(d: float, length: float, s: float, k: float, dc: float, flange: float = 1.2):
+    """An ISO 4162 hexagon flange bolt: a round flange of diameter ``dc`` under the hexagon."""
+    import cadquery as cq
+
+    e = s / math.cos(math.radians(30))
+    head = cq.Workplane("XY").polygon(6, e).extrude(k - flange).translate((0, 0, flange))
+    head = head.union(_revolved([(0, 0), (dc / 2, 0), (dc / 2, 0.4 * flange), (e / 2, flange), (0, flange)]))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
+def countersunk_screw(d: float, length: float, dk: float, key: float, angle: float = 90.0):
+    """An ISO 10642 countersunk screw: the seat cone from d to dk (included ``angle``), its top at
+    z = 0, the length overall (head included) to z = -length."""
+    import cadquery as cq
+
+    h = (dk - d) / 2 / math.tan(math.radians(angle / 2))
+    head = _revolved([(0, -h), (d / 2, -h), (dk / 2, 0), (0, 0)])
+    head = head.cut(_hex_socket(key, 0.6 * h, 0.01))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-(length - h)).translate((0, 0, -h)))
+
+
+def square_nut(bore: float, s: float, m: float):
+    """A DIN 557 square nut: a square prism with the bore."""
+    import cadquery as cq
+
+    return cq.Workplane("XY").rect(s, s).extrude(m).faces(">Z").workplane().hole(bore)
+
+
+def chamfered_hex_nut(bore: float, s: float, m: float):
+    """An ISO 4032 hex nut with both ends chamfered at 30 degrees (the corners turned off)."""
+    import cadquery as cq
+
+    e = s / math.cos(math.radians(30))
+    cut = 0.95 * s / 2
+    t = (e / 2 - cut) * math.tan(math.radians(30))
+    body = _revolved([(0, 0), (cut, 0), (e / 2 + 0.01, t), (e / 2 + 0.01, m - t), (cut, m), (0, m)])
+    return (cq.Workplane("XY").polygon(6, e).extrude(m).intersect(body)
+            .faces(">Z").workplane().hole(bore))
+
+
+def set_screw(d: float, length: float, key: float, socket: bool = True):
+    """An ISO 4026 flat-point set screw: a plain cylinder (thread not drawn), a hexagon socket
+    at z = length, chamfered ends."""
+    import cadquery as cq
+
+    body = _revolved([(0, 0), (d / 2 - 0.3, 0), (d / 2, 0.3), (d / 2, length - 0.3), (d / 2 - 0.3, length), (0, length)])
+    return body.cut(_hex_socket(key, 0.5 * length, length + 0.01)) if socket else body
+
+
+def stud(d: float, length: float):
+    """A stud (DIN 938 / DIN 976 threaded rod): a plain cylinder, both ends chamfered."""
+    return _revolved([(0, 0), (d / 2 - 0.5, 0), (d / 2, 0.5), (d / 2, length - 0.5), (d / 2 - 0.5, length), (0, length)])
+
+
+def _plates(a, hole: float, thickness=(10.0, 10.0), size=(40.0, 40.0), names=("upper_plate", "lower_plate"),
+            csk: float | None = None):
+    """Two plates stacked from z = 0 up, each with one hole at the origin (the upper one
+    countersunk to ``csk`` at 90 degrees when given). Returns the top face z."""
+    import cadquery as cq
+
+    z = sum(thickness)
+    top = z
+    for name, t in zip(names, thickness):
+        z -= t
+        w = cq.Workplane("XY").box(size[0], size[1], t, centered=(True, True, False))
+        if csk is not None and name == names[0]:
+            w = w.faces(">Z").workplane().cskHole(hole, csk, 90.0)
+        else:
+            w = w.faces(">Z").workplane().hole(hole)
+        a.add(w.translate((0, 0, z)), name=name)
+    return top
+
+
+def hardware_model(path: Path, kind: str) -> dict:
+    """One fastener of `kind` in an invented plate stack, written as a STEP file at `path`;
+    returns what the scan should read (head kind, size, length, ...).
+
+    kind: "hex" (ISO 4017 M12x40 with a chamfered head and a washer face on a DIN 125 washer,
+    ISO 4032 nut), "socket" (ISO 4762 M8x25 with a chamfered head and socket, tapped),
+    "button" (ISO 7380 M5x12), "pan" (ISO 7045 M4x10), "cheese" (ISO 1207 M5x12),
+    "flange" (ISO 4162 M8x25, nut), "countersunk" (ISO 10642 M6x20 in a countersink, tapped),
+    "square nut" (ISO 4762 M6x20 with a DIN 557 nut), "lock nut" (ISO 4017 M8x30 with an ISO 7040
+    nut), "set screw" (ISO 4026 M4x6 in the tapped hole of a hub on a shaft), "set screw unnamed",
+    "stud" (DIN 938 M8 into a tapped block, a plate, an ISO 4032 nut), "shell" (a socket screw
+    exported as a surface body, closed), "open shell" (the same with its top face missing).
+    """
+    import cadquery as cq
+
+    a = cq.Assembly(name=f"{kind.replace(' ', '_')}_fixture")
+    expect: dict = {"kind": kind}
+    if kind == "hex":
+        # ISO 4017 M12: s 18, k 7.5, d_w min 16.63; DIN 125 A 13: 13 / 24 / 2.5; ISO 4032 M12 m 10.8
+        top = _plates(a, 13.5, (12.0, 12.0), (60.0, 60.0), ("frame_upper", "frame_lower"))
+        a.add(cq.Workplane("XY").circle(12.0).circle(6.5).extrude(2.5), name="DIN 125 A 13",
+              loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(hex_bolt_as_library(12.0, 40.0, 18.0, 7.5, 16.8, 0.5), name="screw ISO 4017 M12x40",
+              loc=cq.Location(cq.Vector(0, 0, top + 2.5)))
+        a.add(chamfered_hex_nut(12.0, 18.0, 10.8), name="ISO 4032 M12",
+              loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="hex", nominal="M12", length=40.0, washer="DIN 125 A 13", grip=26.5, bearing=24.0)
+    elif kind == "socket":
+        # ISO 4762 M8: dk 13, k 8, socket 6; tapped M8 (tap drill 6.8)
+        a.add(cq.Workplane("XY").box(40, 40, 10, centered=(True, True, False)).faces(">Z").workplane().hole(9.0)
+              .translate((0, 0, 20)), name="cover")
+        a.add(cq.Workplane("XY").box(40, 40, 20, centered=(True, True, False)).faces(">Z").workplane().hole(6.8, 18.0),
+              name="housing")
+        a.add(socket_screw_as_library(8.0, 25.0, 13.0, 8.0, 6.0), name="DIN 912 M8x25",
+              loc=cq.Location(cq.Vector(0, 0, 30)))
+        expect.update(head="socket", nominal="M8", length=25.0, joint_kind="tapped")
+    elif kind in ("button", "pan", "cheese"):
+        d, length, hole = {"button": (5.0, 12.0, 5.5), "pan": (4.0, 10.0, 4.5), "cheese": (5.0, 12.0, 5.5)}[kind]
+        top = _plates(a, hole, (3.0, 3.0), (30.0, 30.0))
+        screw = {"button": lambda: button_screw(5.0, 12.0, 9.5, 2.75, 3.0),   # ISO 7380-1 M5: dk 9.5, k 2.75, s 3
+                 "pan": lambda: pan_screw(4.0, 10.0, 8.0, 3.1),               # ISO 7045 M4: dk 8, k 3.1
+                 "cheese": lambda: cheese_screw(5.0, 12.0, 8.5, 3.3)}[kind]() # ISO 1207 M5: dk 8.5, k 3.3
+        name = {"button": "M5x12 BHCS", "pan": "ISO 7045 M4x10", "cheese": "ISO 1207 M5x12"}[kind]
+        a.add(screw, name=name, loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(chamfered_hex_nut(d, {5.0: 8.0, 4.0: 7.0}[d], {5.0: 4.7, 4.0: 3.2}[d]), name=f"hex nut M{d:g}",
+              loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head=kind, nominal=f"M{d:g}", length=length)
+    elif kind == "flange":
+        # ISO 4162 M8: s 13, k 8.1, d_c 18 (the catalogue's row)
+        top = _plates(a, 9.0, (8.0, 8.0))
+        a.add(flange_bolt(8.0, 25.0, 13.0, 8.1, 18.0), name="EN 1665 M8x25", loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(chamfered_hex_nut(8.0, 13.0, 6.8), name="ISO 4032 M8",
+              loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="flange", nominal="M8", length=25.0, bearing=18.0)
+    elif kind == "countersunk":
+        # ISO 10642 M6: dk 13.44, 90 deg; the cover countersunk to 13.44, the base tapped (tap drill 5.0)
+        a.add(cq.Workplane("XY").box(40, 40, 8, centered=(True, True, False)).faces(">Z").workplane()
+              .cskHole(6.6, 13.44, 90.0).translate((0, 0, 15)), name="cover")
+        a.add(cq.Workplane("XY").box(40, 40, 15, centered=(True, True, False)).faces(">Z").workplane().hole(5.0, 14.0),
+              name="base")
+        a.add(countersunk_screw(6.0, 20.0, 13.44, 4.0), name="DIN 7991 M6x20", loc=cq.Location(cq.Vector(0, 0, 23)))
+        expect.update(head="countersunk", nominal="M6", length=20.0, joint_kind="tapped", grip=8.0)
+    elif kind == "square nut":
+        # ISO 4762 M6: dk 10, k 6, socket 5; DIN 557 M6 square nut: s 10, m 5 (from memory), bore at the tap drill
+        top = _plates(a, 6.6, (6.0, 6.0))
+        a.add(socket_screw_as_library(6.0, 20.0, 10.0, 6.0, 5.0), name="ISO 4762 M6x20", loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(square_nut(5.0, 10.0, 5.0), name="square nut M6", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="socket", nominal="M6", length=20.0, nut_kind="square")
+    elif kind == "lock nut":
+        # ISO 7040 M8: s 13, h 9.5 (from memory): a nylon-insert nut modelled as one body
+        top = _plates(a, 9.0, (8.0, 8.0))
+        a.add(hex_bolt_as_library(8.0, 30.0, 13.0, 5.3, 11.8, 0.4), name="ISO 4017 M8x30", loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(chamfered_hex_nut(8.0, 13.0, 9.5), name="ISO 7040 M8", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="hex", nominal="M8", length=30.0, nut_kind="lock")
+    elif kind in ("set screw", "set screw unnamed"):
+        # a hub on a shaft, held by an ISO 4026 M4x6 set screw (socket 2) in a radial tapped hole (tap drill 3.3)
+        hub = cq.Workplane("XY").circle(12.0).circle(5.0).extrude(16.0).cut(
+            cq.Workplane("XZ").circle(1.65).extrude(-13.0).translate((0, 0, 8.0)))
+        a.add(hub, name="hub")
+        a.add(cq.Workplane("XY").circle(5.0).extrude(40.0).translate((0, 0, -12.0)), name="shaft")
+        name = "ISO 4026 M4x6" if kind == "set screw" else "part_17"
+        a.add(set_screw(4.0, 6.0, 2.0), name=name,
+              loc=cq.Location(cq.Vector(0, 5.0, 8.0), cq.Vector(1, 0, 0), -90))
+        expect.update(part=name, joints=0, nominal="M4", length=6.0)
+    elif kind == "stud":
+        # DIN 938 M8x32 into a block tapped 15 deep (tap drill 6.8), a 10 mm plate, an ISO 4032 M8 nut (m 6.8)
+        a.add(cq.Workplane("XY").box(40, 40, 20, centered=(True, True, False)).faces(">Z").workplane().hole(6.8, 15.0),
+              name="block")
+        a.add(cq.Workplane("XY").box(40, 40, 10, centered=(True, True, False)).faces(">Z").workplane().hole(9.0)
+              .translate((0, 0, 20)), name="clamp_plate")
+        a.add(stud(8.0, 32.0), name="stud DIN 938 M8x32", loc=cq.Location(cq.Vector(0, 0, 8.0)))
+        a.add(chamfered_hex_nut(8.0, 13.0, 6.8), name="ISO 4032 M8", loc=cq.Location(cq.Vector(0, 0, 30.0)))
+        # the nut bears at z = 30; the stud ends at z = 8, 22 mm below it
+        expect.update(nominal="M8", length=22.0, joint_kind="tapped", nut="ISO 4032 M8", grip=10.0)
+    elif kind in ("shell", "open shell"):
+        top = _plates(a, 5.5, (3.0, 3.0))
+        solid = socket_screw_as_library(5.0, 12.0, 8.5, 5.0, 4.0).val()
+        faces = solid.Faces()
+        if kind == "open shell":
+            faces = [f for f in faces if f.Center().z < 4.9]       # the top face left out
+        a.add(cq.Shell.makeShell(faces), name="ISO 4762 M5x12", loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(chamfered_hex_nut(5.0, 8.0, 4.7), name="ISO 4032 M5",
+              loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="socket", nominal="M5", length=12.0, part="ISO 4762 M5x12")
+    else:
+        raise ValueError(kind)
+    write_step(a, path)
+    return expect
+
+
 def main() -> None:
     cases = step_cases() + job_cases()
     (HERE / "manifest.json").write_text(json.dumps(cases, indent=1) + "\n")

@@ -1,0 +1,192 @@
+"""Fasteners as fastener libraries model them (tests/corpus/make_corpus.py, "hardware as
+fastener libraries model it"): every head kind by its shape, nuts, washers, set screws,
+studs and surface bodies, each read back with the size, length and kind the standards give,
+and every head kind the scan reports accepted back by the job and the engine."""
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+import cadquery as cq
+import pytest
+
+from geomjoint.cli import main
+from geomjoint.geometry.scan import scan_model, scan_to_json
+
+sys.path.insert(0, str(Path(__file__).resolve().parent / "corpus"))
+import make_corpus as mc  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    """Every reproduction written once, scanned once."""
+    out = {}
+    folder = tmp_path_factory.mktemp("hardware")
+    for kind in ("hex", "socket", "button", "pan", "cheese", "flange", "countersunk", "square nut",
+                 "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell"):
+        path = folder / f"{kind.replace(' ', '_')}.step"
+        expect = mc.hardware_model(path, kind)
+        out[kind] = (path, expect, scan_model(path))
+    return out
+
+
+def _codes(joint):
+    return [f.code for f in joint.findings]
+
+
+@pytest.mark.parametrize("kind", ["hex", "socket", "button", "pan", "cheese", "flange", "countersunk",
+                                  "square nut", "lock nut", "shell"])
+def test_each_head_kind_is_read_with_its_size_and_length(built, kind):
+    _, expect, scan = built[kind]
+    [joint] = scan.joints
+    assert joint.bolt is not None and joint.bolt.head_kind == expect["head"]
+    assert joint.nominal == expect["nominal"]
+    # the nominal length as the standards define it: bearing face to tip (ISO 4014, ISO 4762,
+    # ISO 7380, ISO 7045, ISO 1207, ISO 4162); overall for countersunk heads (ISO 10642)
+    assert joint.bolt.length == pytest.approx(expect["length"], abs=1e-3)
+    assert joint.kind == expect.get("joint_kind", "through")
+    # no finding claims what the model does not have, and the name agrees with the shape
+    assert not {"gap", "overlap", "name-mismatch", "interference"} & set(_codes(joint)), joint.findings
+    assert not [f for f in joint.findings if f.severity == "fail"], joint.findings
+
+
+def test_hex_head_with_chamfer_and_washer_face_sits_on_its_washer(built):
+    """The issue's machine frame: 'screw ISO 4017 M12x40' on a DIN 125 washer, read as
+    countersunk M12x47.5 with a 7.5 mm gap before; now hex M12x40 bearing on the washer."""
+    _, expect, scan = built["hex"]
+    [joint] = scan.joints
+    bolt = joint.bolt
+    assert bolt.head_kind == "hex" and bolt.head_width == pytest.approx(18.0)   # ISO 4017 M12 s = 18
+    assert bolt.head_height == pytest.approx(7.5)                               # k = 7.5 with the washer face
+    assert bolt.bearing_diameter == pytest.approx(16.8)       # the washer face as modelled (d_w min 16.63)
+    assert [l.role for l in joint.layers] == ["washer", "member", "member"]
+    assert joint.layers[0].part == "DIN 125 A 13" and joint.layers[0].start == pytest.approx(0.0, abs=1e-6)
+    assert joint.grip == pytest.approx(expect["grip"])
+    assert joint.head_bearing_diameter == pytest.approx(24.0)  # DIN 125 A 13 / ISO 7089 M12: d2 = 24
+    assert joint.nut.kind == "hex" and joint.nut.bearing_diameter == pytest.approx(0.95 * 18.0)
+
+
+def test_chamfered_socket_head_is_not_countersunk(built):
+    # the top chamfer narrows towards the top: no seat under the head
+    bolt = built["socket"][2].joints[0].bolt
+    assert bolt.head_kind == "socket" and bolt.head_height == pytest.approx(8.0)   # ISO 4762 M8 k = 8
+
+
+def test_countersunk_head_by_its_seat_referred_to_the_plate_surface(built):
+    _, expect, scan = built["countersunk"]
+    [joint] = scan.joints
+    # ISO 10642 M6: d_k 13.44 at 90 degrees; the grip runs from the plate surface (the head's top)
+    assert joint.bolt.head_width == pytest.approx(13.44)
+    assert joint.grip == pytest.approx(expect["grip"])
+    assert joint.layers[0].countersink == pytest.approx(13.44)
+
+
+def test_flange_head_bears_on_its_flange(built):
+    bolt = built["flange"][2].joints[0].bolt
+    assert bolt.head_width == pytest.approx(13.0) and bolt.bearing_diameter == pytest.approx(18.0)  # ISO 4162 M8 s, d_c
+
+
+def test_button_pan_and_cheese_by_the_catalogue_tables(built):
+    # ISO 7380-1 M5 d_k 9.5; ISO 7045 M4 d_k 8; ISO 1207 M5 d_k 8.5 (from memory)
+    widths = {k: built[k][2].joints[0].bolt.head_width for k in ("button", "pan", "cheese")}
+    assert widths == pytest.approx({"button": 9.5, "pan": 8.0, "cheese": 8.5})
+
+
+@pytest.mark.parametrize("kind, nut_kind", [("square nut", "square"), ("lock nut", "lock"), ("hex", "hex")])
+def test_nut_kinds(built, kind, nut_kind):
+    nut = built[kind][2].joints[0].nut
+    assert nut is not None and nut.kind == nut_kind
+    if kind == "square nut":
+        assert nut.width == pytest.approx(10.0)        # DIN 557 M6 s = 10 (from memory)
+
+
+@pytest.mark.parametrize("kind", ["set screw", "set screw unnamed"])
+def test_a_set_screw_is_hardware_not_a_joint(built, kind):
+    _, expect, scan = built[kind]
+    assert scan.joints == [] and not scan.bolts
+    [screw] = scan.headless
+    assert (screw.part, screw.kind) == (expect["part"], "set screw")
+    assert screw.d == pytest.approx(4.0) and screw.length == pytest.approx(expect["length"])
+    doc = scan_to_json(scan)
+    assert doc["hardware"] == [{"part": expect["part"], "kind": "set screw", "d": 4.0, "length": 6.0,
+                                "nominal": "M4" if kind == "set screw" else None}]
+
+
+def test_a_stud_with_a_nut_is_a_tapped_joint_headed_by_the_nut(built):
+    _, expect, scan = built["stud"]
+    [joint] = scan.joints
+    assert joint.kind == "tapped" and joint.nominal == "M8"
+    assert joint.bolt.nut_head == expect["nut"] and joint.nut is None
+    assert joint.bolt.length == pytest.approx(expect["length"]) and joint.grip == pytest.approx(expect["grip"])
+    assert "stud" in _codes(joint) and "gap" not in _codes(joint)
+    assert joint.layers[-1].part == "block" and joint.layers[-1].role == "tapped"
+
+
+def test_a_closed_surface_body_is_read_as_a_solid(built):
+    _, expect, scan = built["shell"]
+    assert [f.code for f in scan.findings] == ["surface-body"] and scan.findings[0].severity == "info"
+    assert expect["part"] in scan.findings[0].message
+    assert scan.model.part(expect["part"]).surface_body
+
+
+def test_an_open_surface_body_is_one_warning_naming_it(built):
+    _, expect, scan = built["open shell"]
+    [finding] = scan.findings
+    assert (finding.severity, finding.code) == ("warn", "surface-body") and expect["part"] in finding.message
+    assert not scan.bolts and expect["part"] not in [p.name for p in scan.model.parts]
+
+
+def test_scan_json_states_the_head_kind(built):
+    doc = scan_to_json(built["button"][2])
+    assert doc["joints"][0]["hardware"]["bolt"]["head"] == "button"
+
+
+@pytest.mark.parametrize("kind", ["button", "pan", "cheese", "flange", "countersunk", "stud"])
+def test_check_accepts_every_head_kind_its_scan_reports(built, kind, tmp_path):
+    """`check` refused its own scan before ("'countersunk' is not one of hex, socket")."""
+    path = tmp_path / built[kind][0].name
+    path.write_bytes(built[kind][0].read_bytes())
+    assert main(["init", str(path)]) == 0
+    job = path.with_suffix(".toml")
+    text = job.read_text().replace("[defaults]", 'default_material = "steel"\n\n[defaults]', 1)
+    job.write_text(text + '\n[[load]]\njoints = "*"\naxial = { max = "500 N" }\n')
+    out = tmp_path / "out"
+    assert main(["check", str(job), "--out", str(out), "--workers", "1", "--outputs", "json"]) in (0, 1)
+    doc = json.loads((out / "results.json").read_text())
+    assert not doc.get("not_analysed"), doc.get("not_analysed")
+    [joint] = doc["joints"]
+    assert joint["checks"]
+    assert joint["fastener"]["head"] == ("hex" if kind == "stud" else kind)
+    assert joint["fastener"]["length"] == pytest.approx(built[kind][1]["length"])
+
+
+def test_the_name_disagreeing_with_the_shape_is_a_warning_stating_both(tmp_path):
+    """A hex bolt M12x40 named as a socket screw M12x45: the shape decides, the finding says both."""
+    path = tmp_path / "misnamed.step"
+    a = cq.Assembly(name="misnamed")
+    top = mc._plates(a, 13.5, (12.0, 12.0), (60.0, 60.0))
+    a.add(mc.hex_bolt_as_library(12.0, 40.0, 18.0, 7.5, 16.8), name="DIN 912 M12x45", loc=cq.Location(cq.Vector(0, 0, top)))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.bolt.head_kind == "hex" and joint.nominal == "M12" and joint.bolt.length == pytest.approx(40.0)
+    said = [f.message for f in joint.findings if f.code == "name-mismatch"]
+    assert any("M12x45" in m and "40.00 mm" in m for m in said), said
+    assert any("socket head" in m and "hex head" in m for m in said), said
+    assert all(f.severity == "warn" for f in joint.findings if f.code == "name-mismatch")
+
+
+def test_a_shank_modelled_at_the_minor_diameter_takes_its_size_from_the_name(tmp_path):
+    """Libraries that draw the thread at its minor diameter: M12 d3 = 9.853 mm (ISO 724), which
+    alone reads as M10; the name's M12 decides, with an info finding."""
+    from geomjoint import catalog
+
+    d3 = catalog.thread("M12").d3
+    path = tmp_path / "minor.step"
+    a = cq.Assembly(name="minor")
+    top = mc._plates(a, 13.5, (12.0, 12.0), (60.0, 60.0))
+    a.add(mc.hex_bolt_as_library(d3, 40.0, 18.0, 7.5, 16.8), name="ISO 4017 M12x40", loc=cq.Location(cq.Vector(0, 0, top)))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.nominal == "M12" and "modelled-diameter" in _codes(joint)
+    assert "name-mismatch" not in _codes(joint)
