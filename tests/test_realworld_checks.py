@@ -111,20 +111,34 @@ def _box(x0, x1, z0, z1):
     return cq.Workplane("XY").box(x1 - x0, 20, z1 - z0, centered=False).translate((x0, -10, z0)).val().wrapped
 
 
-def test_touching_near_the_axis_is_what_contradicts_a_gap():
+def test_touching_across_the_gap_near_the_axis_is_what_contradicts_it():
+    import cadquery as cq
     from types import SimpleNamespace as NS
 
-    joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), grip=20.0, hole_diameter=5.0)
-    lower = _box(-30, 30, 0, 10)
-    # touching right at the axis
-    assert rc._distance_near_axis(lower, _box(-30, 30, 10, 20), joint, 1.0) < rc.TOUCH_TOL
-    # a real 1 mm gap at the axis, the parts touching 25 mm away (beyond 2 hole diameters):
-    # the whole solids touch, near the axis they are 1 mm apart
-    import cadquery as cq
-
+    lower = NS(part="lower", start=0.0, end=10.0)
+    upper = NS(part="upper", start=11.0, end=20.0)
+    joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=5.0, layers=[lower, upper],
+               bolt=None, nut=None)
+    span = rc.gap_span(joint, "lower", "upper", 1.0)
+    assert span == (10.0, 11.0)
+    low = _box(-30, 30, 0, 10)
+    # a real 1 mm gap at the axis, the parts touching 25 mm away (beyond the bearing zone of
+    # one hole diameter): the whole solids touch, across the gap near the axis they do not
     stepped = (cq.Workplane("XY").box(60, 20, 9, centered=False).translate((-30, -10, 11))
                .union(cq.Workplane("XY").box(5, 20, 1, centered=False).translate((25, -10, 10)))).val().wrapped
-    assert rc._distance_near_axis(lower, stepped, joint, 1.0) == pytest.approx(1.0, abs=1e-6)
+    assert rc._distance_near_axis(low, stepped, joint, span) > 0.5
+    # the same parts touching at the axis (the upper one sits on the lower): the gap is false
+    assert rc._distance_near_axis(low, _box(-30, 30, 10, 20), joint, span) < rc.TOUCH_TOL
+    # a head reported 7.5 mm above the washer it sits on (a hex head read as countersunk, issue 15
+    # item 8): the head's solid reaches down into the span and touches the washer
+    bolt = NS(part="bolt")
+    washer = NS(part="washer", start=7.5, end=10.0)
+    head_joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=13.5, layers=[washer],
+                    bolt=bolt, nut=None)
+    span = rc.gap_span(head_joint, "bolt", "washer", 7.5)
+    assert span == (0.0, 7.5)
+    head = _box(-9, 9, 0, 7.5)          # the head, drawn from the false bearing face to the washer
+    assert rc._distance_near_axis(head, _box(-12, 12, 7.5, 10), head_joint, span) < rc.TOUCH_TOL
 
 
 def test_a_screw_end_inside_a_part_is_found():

@@ -379,10 +379,11 @@ def _false_claims(scan, row: dict) -> None:
             a, b = g.between
             if a == b or a not in solids or b not in solids:
                 continue         # two faces of one part (a U-bracket's legs) may well stand apart
-            if _distance_near_axis(solids[a], solids[b], j, g.size) <= TOUCH_TOL:
+            span = gap_span(j, a, b, g.size)
+            if span is not None and _distance_near_axis(solids[a], solids[b], j, span) <= TOUCH_TOL:
                 bolt_side = j.bolt is not None and j.bolt.part in (a, b)
                 claims.append({"kind": KIND_SHAPE if bolt_side else KIND_HOLES, "where": f"{j.id} ({a} / {b})",
-                               "what": f"gap of {g.size:.2f} mm reported between solids that touch"})
+                               "what": f"gap of {g.size:.3f} mm reported between solids that touch"})
         codes = {f.code for f in j.findings}
         if j.bolt is not None and "interference" in codes:
             t = thread_for_diameter(j.bolt.d)
@@ -402,14 +403,32 @@ def _false_claims(scan, row: dict) -> None:
 
 
 #: the neighbourhood of a joint's axis in which two solids touching contradicts a gap
-#: reported between them: this many hole diameters from the axis (the bearing faces of
-#: heads, nuts and washers lie within 1 .. 1.5 hole diameters; common practice)
-NEAR_AXIS_HOLES = 2.0
+#: reported between them: within this many hole diameters of the axis (radius), where the
+#: bearing faces of heads, nuts and washers are (an ISO 7089 washer's outside radius is
+#: about 0.9 clearance-hole diameters; common practice), and over the gap's own axial span
+BEARING_ZONE_HOLES = 1.0
+#: the axial span is widened by this at each end, mm (faces that touch meet at its ends)
+SPAN_MARGIN = 0.05
 
 
-def _distance_near_axis(a, b, joint, gap: float) -> float:
-    """Distance between solids ``a`` and ``b`` within NEAR_AXIS_HOLES hole diameters of the
-    joint's axis, mm (parts that touch far from the joint do not contradict a gap along it)."""
+def gap_span(joint, a: str, b: str, size: float) -> tuple[float, float] | None:
+    """Where along the joint's axis (from the head's bearing face, mm) the scan places the gap
+    between consecutive solids ``a`` and ``b`` of the stack (bolt head, layers, nut), or None."""
+    layers = list(joint.layers)
+    if joint.bolt is not None and a == joint.bolt.part and layers and layers[0].part == b:
+        return 0.0, size
+    for la, lb in zip(layers, layers[1:]):
+        if la.part == a and lb.part == b:
+            return la.end, la.end + size
+    if joint.nut is not None and b == joint.nut.part and layers and layers[-1].part == a:
+        return layers[-1].end, layers[-1].end + size
+    return None
+
+
+def _distance_near_axis(a, b, joint, span: tuple[float, float]) -> float:
+    """Distance between solids ``a`` and ``b`` within BEARING_ZONE_HOLES hole diameters of the
+    joint's axis and over the axial ``span`` of the gap, mm (parts that touch far from the
+    joint, or beyond the gap, do not contradict it)."""
     import numpy as np
     from OCP.BRepAlgoAPI import BRepAlgoAPI_Common
     from OCP.BRepExtrema import BRepExtrema_DistShapeShape
@@ -417,10 +436,10 @@ def _distance_near_axis(a, b, joint, gap: float) -> float:
     from OCP.gp import gp_Ax2, gp_Dir, gp_Pnt
 
     e = np.asarray(joint.direction, dtype=float)
-    reach = 10.0 * (abs(joint.grip) + gap + 100.0)     # past both ends of the stack
-    start = np.asarray(joint.point, dtype=float) - e * reach
-    tube = BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*start), gp_Dir(*e)), NEAR_AXIS_HOLES * joint.hole_diameter,
-                                    2 * reach).Shape()
+    z0, z1 = span[0] - SPAN_MARGIN, span[1] + SPAN_MARGIN
+    start = np.asarray(joint.point, dtype=float) + e * z0
+    tube = BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*start), gp_Dir(*e)), BEARING_ZONE_HOLES * joint.hole_diameter,
+                                    z1 - z0).Shape()
     pieces = []
     for solid in (a, b):
         common = BRepAlgoAPI_Common(solid, tube)
