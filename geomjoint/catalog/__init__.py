@@ -29,12 +29,23 @@ from geomjoint.catalog.hardware import (
 from geomjoint.catalog.materials import WILEMAN_GENERAL, creeps_under_preload, material, material_names
 from geomjoint.catalog.tables import MM_PER_INCH, MPA_PER_KPSI
 from geomjoint.catalog.threads import size_label, tap_drill, thread, thread_sizes
-from geomjoint.catalog.types import Grade, HeadDims, Material, NutDims, SetScrewDims, Thread, WasherDims
+from geomjoint.catalog.tolerances import (
+    GENERAL_CLASSES,
+    PLATE_CLASSES,
+    bolt_length_tolerance,
+    general_tolerance,
+    nut_height_limits,
+    plate_tolerance,
+    product_grade,
+    washer_thickness_limits,
+)
+from geomjoint.catalog.types import Deviation, Grade, HeadDims, Material, NutDims, SetScrewDims, Thread, WasherDims
 
 __all__ = [
-    "Designation", "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",
+    "Deviation", "Designation", "GENERAL_CLASSES", "PLATE_CLASSES", "Grade", "HeadDims", "Material", "NutDims", "Thread", "WasherDims",
     "MM_PER_INCH", "MPA_PER_KPSI", "WILEMAN_GENERAL",
-    "clearance_hole", "grade", "grade_names", "head", "material", "material_names",
+    "bolt_length_tolerance", "clearance_hole", "general_tolerance", "nut_height_limits", "plate_tolerance",
+    "product_grade", "washer_thickness_limits", "grade", "grade_names", "head", "material", "material_names",
     "nominal_from_hole", "nut", "parse_designation", "product_standard", "shortest_length", "size_label", "standard_lengths",
     "tap_drill", "thread", "thread_length", "thread_sizes", "washer",
 ]

@@ -97,3 +97,12 @@ class WasherDims:
     outer: float          # d2, mm
     thickness: float      # h, mm
     source: str
+
+
+@dataclass(frozen=True)
+class Deviation:
+    """Lower and upper deviation of a size from its nominal, mm (lower <= upper), with its source."""
+
+    lower: float
+    upper: float
+    source: str
