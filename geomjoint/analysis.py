@@ -22,7 +22,7 @@ from typing import Any, Callable
 import numpy as np
 
 from geomjoint.errors import InputError
-from geomjoint.job import Job, check_rules_match, is_excluded
+from geomjoint.job import Job, check_rules_match, is_excluded, rule_bringing_in
 from geomjoint.mechanics import checks as engine
 from geomjoint.mechanics.checks import slip_check
 from geomjoint.mechanics.joint import (
@@ -505,10 +505,12 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
         from geomjoint.geometry.scan import scan_model  # the CAD kernel only for a model
 
         scan = scan_model(job.model)
-    check_rules_match(job, [j.id for j in scan.joints] + typed_ids,
+    set_aside = getattr(scan, "set_aside", [])
+    check_rules_match(job, [j.id for j in scan.joints] + [a.id for a in set_aside] + typed_ids,
                       typed_parts + [(p.name, *p.aliases) for p in scan.model.parts])
-    excluded = [i for i in typed_ids + [j.id for j in scan.joints] if is_excluded(job, i)]
-    analysed = [j for j in scan.joints if not is_excluded(job, j.id)]
+    scanned = list(scan.joints) + brought_in(job, scan)
+    excluded = [i for i in typed_ids + [j.id for j in scanned] if is_excluded(job, i)]
+    analysed = [j for j in scanned if not is_excluded(job, j.id)]
     model_groups = [g for g in job.groups if "positions" not in g]
     shares = group_shares(job, analysed, model_groups) if model_groups else {}
     # [materials] globs match a part's readable name or the file's instance / product name
@@ -523,6 +525,32 @@ def analyze_job(job: Job, *, workers: int = 1, quiet: bool = True, scan=None, mo
     for outcome in _analyse_model(state, workers, quiet, started):
         (not_analysed if isinstance(outcome, UnanalysedJoint) else results).append(outcome)
     return Analysis(results, scan, model_joints, excluded, not_analysed, state.cone_cache)
+
+
+def brought_in(job: Job, scan) -> list:
+    """The stacks the scan set aside that a [[fasteners]] rule brings back as joints (its size is
+    used as it is; job.rule_bringing_in says which rules do), with the scan's stack-up findings."""
+    from geomjoint import catalog
+    from geomjoint.errors import InputError
+    from geomjoint.geometry.scan import add_findings
+    from geomjoint.geometry.stacks import Finding
+
+    out = []
+    for aside in getattr(scan, "set_aside", []):
+        found = rule_bringing_in(job, aside.id)
+        if found is None:
+            continue
+        i, rule = found
+        try:
+            thread = catalog.thread(rule["fastener"])
+        except InputError as exc:
+            raise InputError(str(exc), where=f"{job.path.name}: fasteners[{i}].fastener") from None
+        joint = aside.joint
+        joint.findings = [Finding("info", aside.code, f"set aside by the scan ({aside.reason}); brought in by "
+                                                      f"fasteners[{i}] as {thread.designation}")]
+        add_findings(joint, getattr(scan, "system", None), thread=thread)
+        out.append(joint)
+    return out
 
 
 def warn_not_analysed(analysis: Analysis) -> list[JointResult]:

@@ -397,6 +397,24 @@ def is_excluded(job: Job, joint_id: str) -> bool:
     return any(_matches(joint_id, pattern) for pattern in job.exclude)
 
 
+#: the first letter of the ids of coaxial holes the scan set aside (geometry.stacks.SET_ASIDE_PREFIX)
+SET_ASIDE_PREFIX = "H"
+
+
+def rule_bringing_in(job: Job, hole_id: str) -> tuple[int, dict[str, Any]] | None:
+    """(index, rule) of the [[fasteners]] rule that brings a set-aside stack back as a joint, or None.
+
+    A rule brings one in when it names a size (``fastener``) and its ``joints`` pattern is
+    written for set-aside ids: it starts with their letter ("H03", "H*") and matches the id.
+    ``joints = "*"`` is a rule for every joint, never a reason to bolt a shaft bore.
+    """
+    for i, rule in enumerate(job.fastener_rules):
+        pattern = rule["joints"]
+        if "fastener" in rule and pattern.startswith(SET_ASIDE_PREFIX) and _matches(hole_id, pattern):
+            return i, rule
+    return None
+
+
 #: how many names a "matches nothing" line lists when none is near the pattern
 LISTED_NAMES = 8
 

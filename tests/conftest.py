@@ -41,7 +41,7 @@ CAD_TEST_MODULES = frozenset({
     "test_outputs_agree", "test_pipeline", "test_properties", "test_methods", "test_required_length",
     "test_comparison", "test_not_analysed", "test_hardware_shapes",
     "test_check_outputs",
-    "test_realworld_reading", "test_realworld_checks",
+    "test_realworld_reading", "test_realworld_checks", "test_holes_and_threads",
 })
 #: test modules that drive chromium or node
 BROWSER_TEST_MODULES = frozenset({"test_report_browser", "test_glb_validator"})

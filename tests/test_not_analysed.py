@@ -2,7 +2,8 @@
 
 The model is our own: a steel cover on a steel base, 40 mm each, held by two M10 bolts in 11 mm
 holes (ISO 273 medium clearance for M10, from memory), with a 47 mm bearing-seat bore between them
-(the outside diameter of a 6204 ball bearing, ISO 15, from memory) that is no bolt hole.
+(the outside diameter of a 6204 ball bearing, ISO 15, from memory) that is no bolt hole: the scan
+sets it aside, and a job that names a size for it brings it back in.
 """
 from __future__ import annotations
 
@@ -60,10 +61,10 @@ def folder(tmp_path_factory):
 def ids(folder):
     from geomjoint.geometry.scan import scan_model
 
-    joints = scan_model(folder / "cover.step").joints
-    bore = [j.id for j in joints if abs(j.hole_diameter - BORE) < 0.01]
-    bolts = [j.id for j in joints if abs(j.hole_diameter - BOLT_HOLE) < 0.01]
-    assert len(bore) == 1 and len(bolts) == 2
+    scan = scan_model(folder / "cover.step")
+    bore = [a.id for a in scan.set_aside if abs(a.joint.hole_diameter - BORE) < 0.01]
+    bolts = [j.id for j in scan.joints if abs(j.hole_diameter - BOLT_HOLE) < 0.01]
+    assert len(bore) == 1 and len(bolts) == 2 and len(scan.joints) == 2
     return {"bore": bore[0], "bolts": bolts}
 
 
@@ -74,25 +75,65 @@ def run(folder: Path, name: str, defaults: str = "", rules: str = "") -> tuple[i
     return main(["check", str(job), "--out", str(out)]), out
 
 
-def test_a_bore_with_no_size_is_not_analysed_and_the_bolts_are(folder, ids, capsys):
+def test_a_bore_matching_no_fastener_size_is_set_aside_and_the_bolts_are_checked(folder, ids, capsys):
     code, out = run(folder, "bore")
+    assert code == 0
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    assert sorted(j["id"] for j in doc["joints"]) == sorted(ids["bolts"])
+    assert not doc.get("not_analysed") and ids["bore"].startswith("H")
+    # the scan says once why the bore is no joint
+    capsys.readouterr()
+    assert main(["scan", str(folder / "cover.step"), "--json"]) == 0
+    scan = json.loads(capsys.readouterr().out)
+    [finding] = [f for f in scan["findings"] if f["code"] == "not-a-bolt-hole"]
+    assert finding["severity"] == "info" and ids["bore"] in finding["message"] and "47.00" in finding["message"]
+    [aside] = scan["set_aside"]
+    assert (aside["id"], aside["code"], aside["hole_diameter"]) == (ids["bore"], "not-a-bolt-hole", BORE)
+
+
+def test_a_set_aside_bore_brought_in_by_a_size_that_cannot_bear_is_not_analysed(folder, ids):
+    # naming the bore's id and a size brings it in; "*" would not. No ISO 4017 M3 reaches 80 mm
+    # (the lengths end at 30 mm, from memory), so it is not analysed and the bolts still are
+    rules = f'[[fasteners]]\njoints = "{ids["bore"]}"\nfastener = "M3"\n'
+    code, out = run(folder, "brought", rules=rules)
     assert code == 1
     for name in ("results.json", "report.txt", "report.html", "cover-checked.step", "cover-checked.glb"):
         assert (out / name).stat().st_size > 0, name
     doc = json.loads((out / "results.json").read_text())
     validate_result(doc)
     assert sorted(j["id"] for j in doc["joints"]) == sorted(ids["bolts"])
-    assert all(j["verdict"] != "fail" for j in doc["joints"])
     [skipped] = doc["not_analysed"]
     assert skipped["id"] == ids["bore"] and skipped["verdict"] == "fail"
-    assert "no size could be inferred" in skipped["reason"] and skipped["message"].startswith("not analysed: ")
-    # its own findings come with it: the scan's, and the one that says it was not analysed
+    assert "bearing diameter" in skipped["reason"] and "47 mm" in skipped["reason"]
+    assert skipped["message"].startswith("not analysed: ")
     codes = [f["code"] for f in skipped["findings"]]
-    assert "no-hardware" in codes and "not-analysed" in codes
+    assert "not-a-bolt-hole" in codes and "not-analysed" in codes
     assert doc["summary"]["joints"] == 3 and doc["summary"]["failed"] == 1 and doc["summary"]["not_analysed"] == 1
     assert f"{ids['bore']}: FAIL not analysed" in (out / "report.txt").read_text()
     page = (out / "report.html").read_text()
     assert "Joints not analysed" in page and f'data-joint="{ids["bore"]}"' in page
+
+
+def test_a_star_rule_does_not_bring_in_set_aside_holes(folder, ids):
+    code, out = run(folder, "star", rules='[[fasteners]]\njoints = "*"\nfastener = "M10"\n')
+    assert code == 0
+    doc = json.loads((out / "results.json").read_text())
+    assert sorted(j["id"] for j in doc["joints"]) == sorted(ids["bolts"]) and not doc.get("not_analysed")
+
+
+def test_exclusions_match_joints_and_set_aside_holes_and_must_match_something(folder, ids, capsys):
+    job = folder / "exclude.toml"
+    job.write_text(f'exclude = ["{ids["bore"]}", "{ids["bolts"][0]}"]\n' + JOB.format(defaults="", rules=""))
+    assert main(["check", str(job), "--out", str(folder / "exclude-out")]) == 0
+    doc = json.loads((folder / "exclude-out" / "results.json").read_text())
+    assert [j["id"] for j in doc["joints"]] == [ids["bolts"][1]]
+    capsys.readouterr()
+    # an exclusion that matches nothing is bad input: exit 2, one line naming the file and the pattern
+    job.write_text('exclude = ["J99"]\n' + JOB.format(defaults="", rules=""))
+    assert main(["check", str(job), "--out", str(folder / "exclude-bad")]) == 2
+    err = capsys.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "exclude.toml" in err and "'J99'" in err and "matches no joint" in err
 
 
 def test_a_forced_size_with_no_standard_length_is_not_analysed(folder, ids):
@@ -103,7 +144,7 @@ def test_a_forced_size_with_no_standard_length_is_not_analysed(folder, ids):
     doc = json.loads((out / "results.json").read_text())
     validate_result(doc)
     reasons = {j["id"]: j["reason"] for j in doc["not_analysed"]}
-    assert set(reasons) == {bolt, ids["bore"]}
+    assert set(reasons) == {bolt}          # the bore is set aside, not a joint
     assert "M3" in reasons[bolt] and "length" in reasons[bolt]
     assert [j["id"] for j in doc["joints"]] == [ids["bolts"][1]]
 

@@ -278,13 +278,26 @@ def tap_drill(t: Thread) -> float:
 
     Metric: D_drill = d - P (the ISO 2306 drills follow this rule to within the 0.05 mm
     of the drill series, e.g. M8 6.8, M12 10.2; common practice);
-    inch:   D_drill = D - 0.01299 * 75 / n in, the 75 % thread-depth rule (common practice).
-    Both lie a little above the basic minor diameter D1.
+    inch: the handbook's tap drill for about 75 % thread (``data/tap_drills_inch.csv``, e.g.
+    #10-32 the #21 drill, 0.159 in), and for a size without a row the rule it follows,
+    D - 0.01299 * 75 / n in (common practice).  Both lie a little above the basic minor
+    diameter D1.
 
     >>> tap_drill(thread("M10"))
     8.5
+    >>> round(tap_drill(thread("#10-32")), 4)      # the #21 drill, 0.1590 in
+    4.0386
     """
     if t.system == "metric":
         return t.d - t.pitch
+    row = _inch_tap_drills().get((size_label(t), t.series))
+    if row is not None:
+        return row
     return t.d - INCH_TAP_DRILL_PER_PERCENT * INCH_TAP_DRILL_PERCENT * t.pitch
 
+
+@functools.lru_cache(maxsize=1)
+def _inch_tap_drills() -> dict[tuple[str, str], float]:
+    """(size label, series) -> the handbook tap drill, mm."""
+    return {(r["size"], r["series"]): float(r["diameter"]) * (MM_PER_INCH if r["unit"] == "in" else 1.0)
+            for r in load_table("tap_drills_inch")}

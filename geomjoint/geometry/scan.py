@@ -14,6 +14,7 @@ from typing import Any
 from geomjoint import catalog
 from geomjoint.errors import InputError
 from geomjoint.geometry.hardware import (
+    SIZE_TOL,
     Bolt,
     Headless,
     Nut,
@@ -25,7 +26,8 @@ from geomjoint.geometry.hardware import (
 )
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
-from geomjoint.geometry.stacks import Finding, Joint, find_joints
+from geomjoint.catalog.hole_parts import hole_part_kind
+from geomjoint.geometry.stacks import THREAD_MATCH_TOL, Finding, Joint, Plug, SetAside, find_plugs, find_stacks
 from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
 
 #: every finding code a scan can give, with what it means
@@ -49,6 +51,12 @@ FINDING_CODES = {
     "catalog-gap": "warn: the catalog has no data for part of this size's hardware; the checks that need it are skipped",
     "surface-body": "info (model): surface bodies made solids from their closed shells; warn: ones that do not close, not read",
     "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
+    "thread-in-hole": "info: where the thread of a tapped joint is: a screw in a hole of its tap-drill, minor or "
+                      "nominal size, a thread-forming screw in plastic, or an insert (no nut is assumed)",
+    "not-a-bolt-hole": "info (model): coaxial holes with no fastener modelled whose bores match no clearance hole "
+                       "and no tap drill of any catalogue size (a shaft bore, bearing seat, nozzle or vent): not a joint",
+    "holds-a-part": "info (model): coaxial holes with no fastener modelled holding a part that is no fastener "
+                    "(a pin, shaft, bushing or tube): not a joint",
 }
 
 #: protrusion past the nut beyond which the bolt is reported long, in bolt diameters
@@ -72,7 +80,9 @@ class ScanResult:
     hole_count: int = 0
     unmatched_hardware: list[str] = field(default_factory=list)   # bolts/nuts/washers in no joint
     headless: list[Headless] = field(default_factory=list)        # set screws and studs in no joint
-    findings: list[Finding] = field(default_factory=list)          # on the model as a whole (reader remarks)
+    findings: list[Finding] = field(default_factory=list)          # on the model as a whole (reader remarks, set-aside stacks)
+    set_aside: list[SetAside] = field(default_factory=list)        # coaxial stacks that are no joint (H01 ...)
+    system: str | None = None          # the fastener system the file's unit suggests ("inch" / "metric")
 
     @property
     def failed(self) -> bool:
@@ -97,6 +107,7 @@ def _label(part) -> str:
 
 def _scan(model: Model) -> ScanResult:
     holes, bolts, nuts, washers, headless = [], [], [], [], []
+    plugs: list[Plug] = []
     hints = {}
     for part in model.parts:
         faces = analyse_faces(part.solid)
@@ -113,11 +124,13 @@ def _scan(model: Model) -> ScanResult:
             headless.append(hw)          # a set screw in its threaded hole is no clamping joint
         else:
             holes.extend(part_holes)
+            names = (part.name, getattr(part, "product", None), getattr(part, "instance", None))
+            plugs.extend(find_plugs(part.name, faces, hole_part_kind(*names), part.material_hint, part.solid))
     # a stud with a nut on it is a bolt whose head is the nut
     studs, head_nuts = stud_bolts(headless, nuts)
     bolts += studs
     nuts = [n for n in nuts if n.part not in head_nuts]
-    joints = find_joints(holes, bolts, nuts, washers, hints)
+    joints, aside = find_stacks(holes, bolts, nuts, washers, hints, plugs)
     # the file's unit suggests the fastener system when a size is inferred from holes
     system = {"inch": "inch", "foot": "inch", "mm": "metric", "cm": "metric", "m": "metric"}.get(
         model.file_unit or "")
@@ -127,10 +140,11 @@ def _scan(model: Model) -> ScanResult:
         {w.part for j in joints for w in j.washers}
     loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
     stud_parts = {b.part for b in studs}
+    findings = list(model.findings) + [Finding("info", a.code, f"{a.id}: {a.reason}") for a in aside]
     return ScanResult(source=model.source, model=model, joints=joints, bolts=bolts, nuts=nuts,
                       washers=washers, hole_count=len(holes), unmatched_hardware=loose,
                       headless=[h for h in headless if h.part not in stud_parts],
-                      findings=list(model.findings))
+                      findings=findings, set_aside=aside, system=system)
 
 
 def _system_hint(j: Joint, default: str | None = None) -> str | None:
@@ -154,6 +168,9 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
                                           f"{named.d:g} mm; size {named.designation} from its name"))
             return named
         hint = b.hint
+        by_bore = _thread_by_bore(j, default_system) if named is None else None
+        if by_bore is not None:
+            return by_bore
         t = thread_for_diameter(b.d, "inch" if (hint and "-" in hint.designation) else _system_hint(j, default_system))
         if t is None:
             t = thread_for_diameter(b.d)
@@ -178,16 +195,17 @@ def _resolve_nominal(j: Joint, default_system: str | None = None):
         probes.append((j.hole_diameter, clearance_fits, "clearance hole"))
     if tapped:
         probes.append((tapped[0].hole_diameter, ("nominal", "tap drill"), "tapped hole"))
-    head = "socket" if any(l.counterbore for l in j.layers[:1]) else "hex"
     # the preferred system first (a model written in inches), then any; never a size the
     # catalog cannot finish (no nut for a through joint, no head of the kind, no standard
     # length long enough: an M1.6 clearance hole through a 380 mm stack is no bolt hole)
-    for system in dict.fromkeys((preferred, None)):
-        for diameter, kinds, what in probes:
+    # each probe in the preferred system first, then in any: a clearance hole that is standard in
+    # the other system outweighs a tapped bore that happens to be a nominal size in this one
+    for diameter, kinds, what in probes:
+        for system in dict.fromkeys((preferred, None)):
             for t, how in catalog.nominal_from_hole(diameter, system):
-                if how in kinds and t.series in ("coarse", "UNC") and _can_finish(j, t, head):
+                if how in kinds and t.series in ("coarse", "UNC") and _can_finish(j, t, inferred_head(j, t)):
                     j.nominal_source = what
-                    return t
+                    return _pitch_by_tapped_bore(j, t, inferred_head(j, t))
     return None
 
 
@@ -235,6 +253,48 @@ def _designation_findings(j: Joint, t) -> None:
                                   f"{b.part}: name says a {desig.family} but the shape is a {b.head_kind}-head bolt"))
 
 
+def inferred_head(j: Joint, t) -> str:
+    """The head kind of a screw that is not modelled: socket in a counterbore, else hex where the
+    catalogue has a hex head of the size, else socket (the numbered inch sizes have no ASME
+    B18.2.1 hex bolt: their hex-free screws are socket or button heads)."""
+    if any(l.counterbore for l in j.layers[:1]):
+        return "socket"
+    return "hex" if not catalog.hardware_gaps(t, "hex", with_nut=False) else "socket"
+
+
+def _thread_by_bore(j: Joint, system: str | None):
+    """The thread of a modelled screw threaded into a bore: of the threads the shank's diameter
+    fits, the one whose tap drill or minor diameter the bore is (e.g. #10-32, not #10-24, in the
+    #21 drill's 4.04 mm hole), the file's system first; None when the bore says nothing."""
+    tapped = [l for l in j.layers if l.role == "tapped"]
+    if not tapped or j.insert is not None and j.threaded_bore == "name":
+        return None
+    bore = tapped[0].hole_diameter
+    best = None
+    for t in catalog.thread_sizes():
+        if abs(t.d - j.bolt.d) > SIZE_TOL * t.d:
+            continue
+        err = min(abs(catalog.tap_drill(t) - bore), abs(t.D1 - bore))
+        if err <= THREAD_MATCH_TOL:
+            rank = (round(err, 6), t.system != system, t.series not in ("coarse", "UNC"))
+            if best is None or rank < best[0]:
+                best = (rank, t)
+    return best[1] if best else None
+
+
+def _pitch_by_tapped_bore(j: Joint, t, head: str):
+    """The thread of size `t` whose tap drill (or minor diameter) the joint's tapped bore is: the
+    holes give the size, a tapped bore the pitch (a 4.04 mm bore under a #10 clearance is the
+    #21 drill of #10-32, not #10-24); `t` itself when the bore says nothing else."""
+    tapped = [l for l in j.layers if l.role == "tapped"]
+    if not tapped:
+        return t
+    for other, how in catalog.nominal_from_hole(tapped[0].hole_diameter, t.system, THREAD_MATCH_TOL):
+        if how == "tap drill" and catalog.size_label(other) == catalog.size_label(t) and _can_finish(j, other, head):
+            return other
+    return t
+
+
 def _can_finish(j: Joint, t, head: str) -> bool:
     """True when the catalog can finish a joint of thread `t`: head, nut (through, none
     modelled) and a standard length that reaches what the stack needs (`required_length`)."""
@@ -254,13 +314,16 @@ def _can_finish(j: Joint, t, head: str) -> bool:
     return True
 
 
-def add_findings(j: Joint, system: str | None = None) -> None:
+def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
     """Stack-up findings of one joint (appended to j.findings), nominal and bolt length.
 
     `system` ("inch" / "metric" / None) is preferred when a size is inferred from holes
-    (a model written in inches suggests inch fasteners).
+    (a model written in inches suggests inch fasteners).  `thread` (a catalogue thread) is a
+    size the job names for a stack the scan set aside: it is used as it is.
     """
-    t = _resolve_nominal(j, system)
+    if thread is not None:
+        j.nominal_source = "job"
+    t = thread if thread is not None else _resolve_nominal(j, system)
     j.nominal = t.designation if t else None
     if j.bolt is not None:
         _designation_findings(j, t)
@@ -269,7 +332,10 @@ def add_findings(j: Joint, system: str | None = None) -> None:
     d = t.d if t else (j.bolt.d if j.bolt else None)
     add = j.findings.append
     if j.bolt is None:
-        if t is not None:
+        if j.nominal_source == "job":
+            add(Finding("info", "no-hardware", f"no bolt modelled; size {t.designation} named by the job "
+                                               f"for holes the scan set aside"))
+        elif t is not None:
             add(Finding("info", "no-hardware",
                         f"no bolt modelled; size {t.designation} inferred from the {j.nominal_source} "
                         f"({_hole_for(j):.2f} mm)"))
@@ -296,7 +362,13 @@ def add_findings(j: Joint, system: str | None = None) -> None:
     if t is None:
         return
     pitch = t.pitch
-    kind = j.bolt.head_kind if j.bolt else ("socket" if any(l.counterbore for l in j.layers[:1]) else "hex")
+    kind = j.bolt.head_kind if j.bolt else inferred_head(j, t)
+    # a size the catalogue half-knows: say what is missing (the nut of a through joint below)
+    gaps = [g for g in catalog.hardware_gaps(t, kind, with_nut=False)
+            if j.bolt is None or not g.endswith("lengths")]    # a modelled bolt has its own length
+    if gaps:
+        add(Finding("warn", "catalog-gap", f"no {' and no '.join(gaps)} data for {t.designation} in the catalog: "
+                                           f"the checks that need it are skipped"))
     # interference: bolt wider than a clearance hole
     if j.bolt is not None:
         for l in j.layers:
@@ -348,6 +420,9 @@ def add_findings(j: Joint, system: str | None = None) -> None:
     if j.kind == "tapped":
         tl = j.layers[-1]
         need_eng = minimum_engagement(t.d, tl.material_hint)
+        if j.insert is not None:
+            # the screw must engage the insert's thread by the rule of its material, or all of it
+            need_eng = min(need_eng, j.insert.length)
         # j.grip of a tapped joint is measured to the tapped part (gaps included)
         needed = required_length(j.grip, d=t.d, pitch=pitch, tapped=True, tapped_depth=tl.end - tl.start,
                                  tapped_material=tl.material_hint)
@@ -450,8 +525,12 @@ def scan_to_json(result: ScanResult) -> dict:
         })
     hardware = [{"part": h.part, "kind": h.kind, "d": _r(h.d), "length": _r(h.length),
                  "nominal": h.hint.designation if h.hint else None} for h in result.headless]
+    aside = [{"id": a.id, "code": a.code, "reason": a.reason,
+              "axis": {"point": [_r(c) for c in a.joint.point], "direction": [_r(c, 9) for c in a.joint.direction]},
+              "hole_diameter": _r(a.joint.hole_diameter), "parts": a.parts} for a in result.set_aside]
     return {"joints": joints, "hardware": hardware,
-            "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in result.findings]}
+            "findings": [{"severity": f.severity, "code": f.code, "message": f.message} for f in result.findings],
+            "set_aside": aside}
 
 
 def scan_table(result: ScanResult) -> str:
@@ -469,6 +548,9 @@ def scan_table(result: ScanResult) -> str:
         lines.append(f"{j.id:<4} {j.kind:<8} {size:<16} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
         for f in j.findings:
             lines.append(f"{'':<4} {f.severity:<5} {f.code:<18} {f.message}")
+    if result.set_aside:
+        lines.append(f"set aside (no joint; a [[fasteners]] rule naming the id and a size brings one in): "
+                     + ", ".join(f"{a.id} ({a.code})" for a in result.set_aside))
     if result.unmatched_hardware:
         lines.append("hardware in no joint: " + ", ".join(result.unmatched_hardware))
     for h in result.headless:

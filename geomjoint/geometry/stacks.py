@@ -17,6 +17,18 @@ first layer.  A counterbore seat starts (or, on the nut side, ends) its layer; a
 countersunk head is referred to the plate surface, as ISO 10642 lengths are.  A
 modelled bolt (head to tip) and nut bound the stack: coaxial holes beyond them are
 not part of the joint.
+
+Where the thread is: a modelled screw that cannot pass a hole whose bore is a thread size of
+the screw (its tap drill, basic minor or nominal diameter; in a plastic part, or for a screw
+named thread-forming, a bore from THREAD_FORMING_MIN_RATIO d up) is threaded into that part,
+which ends the joint as its tapped layer (:func:`thread_bore`).  A sleeve whose outer
+cylinder fills another part's hole and whose bore holds the thread is an *insert*: the
+tapped layer is the insert, its host is recorded (`InsertHost`) for the pull-out check.
+
+Stacks that are no joint (:func:`set_aside_reason`): with no fastener modelled, a stack
+holding a part that is no fastener (a pin, shaft, bushing or tube: a cylinder filling the
+hole, or so named) or whose bores match no clearance hole and no tap drill of any catalogue
+size.  They are returned apart (`SetAside`, ids H01, H02 ...) so a job can still bring one in.
 """
 from __future__ import annotations
 
@@ -27,8 +39,18 @@ import numpy as np
 from scipy.spatial import cKDTree
 from OCP.TopoDS import TopoDS_Shape
 
-from geomjoint.geometry.hardware import Bolt, Nut, Washer
-from geomjoint.geometry.holes import LINEAR_TOL, Hole, axis_frame, canonical_direction
+from geomjoint.catalog.hole_parts import FORMING_KIND, hole_part_kind
+from geomjoint.geometry.hardware import SIZE_TOL, Bolt, Nut, Washer
+from geomjoint.geometry.holes import (
+    LINEAR_TOL,
+    MIN_WRAP,
+    Hole,
+    SolidFaces,
+    _merge_sections,
+    axis_frame,
+    canonical_direction,
+    group_by_axis,
+)
 
 #: axes within this angle count as parallel for grouping, rad (0.5 deg)
 STACK_ANGLE_TOL = math.radians(0.5)
@@ -38,6 +60,25 @@ GAP_TOL = 1e-3
 THREAD_MATCH_TOL = 0.05
 #: holes larger than this are bores, not fastener holes, mm (ISO 273 coarse for M64 is 70 mm)
 MAX_FASTENER_HOLE = 80.0
+#: a thread-forming screw's pilot hole in a plastic part is about 0.8 d; a bore from this share
+#: of the screw's diameter up is taken as formed by the screw (common practice: design guides
+#: for screws into thermoplastics give 0.7-0.9 d, from memory)
+THREAD_FORMING_MIN_RATIO = 0.7
+#: a cylinder "fills" a hole when the diameters differ by less than this plus FILL_GAP_RATIO d:
+#: a located or press fit (H7/g6 .. H7/p6 differ by hundredths), well inside the smallest
+#: clearance fit of a bolt (ISO 273 fine is 0.1 mm over d at M1.6, 6 % over d at M3), mm
+FILL_GAP = 0.05
+FILL_GAP_RATIO = 0.005
+#: a part named as no fastener (pin, shaft, tube ...) fills a hole when its cylinder is at least
+#: this share of the hole's diameter (a loose tube in a bore)
+NAMED_FILL_MIN_RATIO = 0.5
+#: an insert sits in its host's hole: it may stand proud of the host's face by this much at most
+#: (heat-set inserts are set flush or a little below, common practice), mm
+INSERT_PROUD_MAX = 0.5
+#: materials (catalogue names) of a light alloy host, in which a screw often sits in an insert
+LIGHT_ALLOYS = ("aluminium", "cast aluminium")
+#: prefix of the ids of stacks set aside (not joints)
+SET_ASIDE_PREFIX = "H"
 
 
 @dataclass
@@ -77,6 +118,36 @@ class Gap:
 
 
 @dataclass
+class Plug:
+    """The outer cylinder of a part that is no recognised fastener: what may fill a hole (a pin,
+    a shaft, a tube, the outside of an insert), mm, model coordinates."""
+
+    part: str
+    ref: np.ndarray
+    direction: np.ndarray      # canonical
+    diameter: float
+    t0: float
+    t1: float
+    kind: str | None = None    # what the part's name says (catalog.hole_parts): "insert", "pin" ...
+    material_hint: str | None = None
+    solid: TopoDS_Shape | None = field(default=None, repr=False, compare=False)
+
+
+@dataclass
+class InsertHost:
+    """The part an insert sits in (the insert itself is the joint's tapped layer), mm."""
+
+    part: str                  # the host part
+    insert: str                # the insert part
+    outer_diameter: float      # the insert's outer cylinder (the host's bore), mm
+    length: float              # the insert's length along the axis, mm
+    kind: str                  # "insert" | "wire insert": from the name, or "insert" from the shape
+    how: str                   # "name" | "shape": how it was recognised
+    host_hint: str | None = None
+    insert_hint: str | None = None
+
+
+@dataclass
 class Joint:
     """A bolted joint found in the model (mm, model coordinates)."""
 
@@ -99,6 +170,9 @@ class Joint:
     tapped_depth: float | None = None  # depth of the tapped hole, mm
     shortest_length: float | None = None  # shortest standard bolt length that fits, mm
     findings: list[Finding] = field(default_factory=list)
+    thread_method: str | None = None   # tapped joints: "tapped" | "insert" | "thread-forming"
+    insert: InsertHost | None = None   # the host of the insert that is the tapped layer
+    threaded_bore: str | None = None   # how the tapped bore matched: "tap drill" | "minor" | "nominal" | ...
 
     @property
     def bolt_length(self) -> float | None:
@@ -118,6 +192,21 @@ class Joint:
 
 
 @dataclass
+class SetAside:
+    """A coaxial hole stack that is not a joint, with why (mm). ``joint`` is the stack built as a
+    joint, so a job that names its size can still bring it in."""
+
+    id: str
+    code: str                  # the finding code: "not-a-bolt-hole" | "holds-a-part"
+    reason: str                # one line: why it is no joint
+    joint: Joint
+
+    @property
+    def parts(self) -> list[str]:
+        return [l.part for l in self.joint.layers]
+
+
+@dataclass
 class _Item:
     kind: str                  # "hole" | "washer" | "nut" | "bolt"
     part: str
@@ -131,7 +220,48 @@ class _Item:
     solid: TopoDS_Shape | None = None
 
 
-def _items(holes: list[Hole], hints: dict[str, str | None], bolts, nuts, washers) -> list[_Item]:
+def find_plugs(part: str, faces: SolidFaces, kind: str | None = None, material_hint: str | None = None,
+               solid: TopoDS_Shape | None = None) -> list[Plug]:
+    """The whole outer cylinders of a part (split faces merged), each a `Plug` that may fill a hole."""
+    outer = [p for p in faces.patches if not p.is_hole and p.kind == "cylinder"]
+    plugs = []
+    for group in group_by_axis(outer):
+        for sec, wrap in _merge_sections(group):
+            if sec.kind == "cylinder" and wrap >= MIN_WRAP and 2 * sec.r0 <= MAX_FASTENER_HOLE:
+                plugs.append(Plug(part, group[0].ref, group[0].direction, 2 * sec.r0, sec.t0, sec.t1,
+                                  kind, material_hint, solid))
+    return plugs
+
+
+def fill_tolerance(diameter: float) -> float:
+    """How far a cylinder's diameter may differ from a hole's and still fill it, mm."""
+    return FILL_GAP + FILL_GAP_RATIO * diameter
+
+
+def _fills(plug: Plug, hole: Hole, offset: float) -> bool:
+    """True when the plug sits in a cylinder section of the hole and fills it (or, named as no
+    fastener, sits loosely in it)."""
+    tol = fill_tolerance(plug.diameter)
+    if offset > tol:
+        return False
+    sign = 1.0 if float(np.dot(plug.direction, hole.direction)) > 0 else -1.0
+    shift = float(np.dot(plug.ref - hole.ref, hole.direction))
+    p0, p1 = sorted((shift + sign * plug.t0, shift + sign * plug.t1))
+    from geomjoint.catalog.hole_parts import NON_FASTENER_KINDS
+
+    for sec in hole.sections:
+        if sec.kind != "cylinder" or min(p1, sec.t1) - max(p0, sec.t0) <= GAP_TOL:
+            continue
+        d = 2 * sec.r0
+        if abs(plug.diameter - d) <= tol:
+            return True
+        if plug.kind in NON_FASTENER_KINDS and NAMED_FILL_MIN_RATIO * d <= plug.diameter < d:
+            return True
+    return False
+
+
+def _items(holes: list[Hole], hints: dict[str, str | None], bolts, nuts, washers,
+           plugs: list[Plug] = ()) -> list[_Item]:
     out = []
     for h in holes:
         if h.diameter <= MAX_FASTENER_HOLE:
@@ -148,6 +278,9 @@ def _items(holes: list[Hole], hints: dict[str, str | None], bolts, nuts, washers
         t_b = float(np.dot(b.tip_point - b.ref, d))
         out.append(_Item("bolt", b.part, b.ref, d, b.d / 2, min(t_a, t_b), max(t_a, t_b), b,
                          None, b.solid))
+    for p in plugs:
+        out.append(_Item("plug", p.part, p.ref, p.direction, p.diameter / 2, p.t0, p.t1, p,
+                         p.material_hint, p.solid))
     return out
 
 
@@ -198,6 +331,13 @@ def group_items(items: list[_Item]) -> list[tuple[np.ndarray, list[_Item]]]:
         uf = _UnionFind(len(sub))
         for i, j in tree.query_pairs(2 * rmax):
             a, b = sub[i], sub[j]
+            if "plug" in (a.kind, b.kind):
+                # a plug joins only the hole of another part it sits in and fills
+                plug, other = (a, b) if a.kind == "plug" else (b, a)
+                if (other.kind == "hole" and other.part != plug.part
+                        and _fills(plug.obj, other.obj, float(np.linalg.norm(xy[i] - xy[j])))):
+                    uf.union(i, j)
+                continue
             if np.linalg.norm(xy[i] - xy[j]) >= a.radius + b.radius - LINEAR_TOL:
                 continue                       # circles do not overlap
             axial_gap = max(ax[i, 0], ax[j, 0]) - min(ax[i, 1], ax[j, 1])
@@ -224,6 +364,8 @@ def _s_range(it: _Item, origin: np.ndarray, e: np.ndarray) -> tuple[float, float
 
 def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
     """Order a group of items into a joint, or None when it is not a joint (a lone hole)."""
+    plugs = [it for it in comp if it.kind == "plug"]
+    comp = [it for it in comp if it.kind != "plug"]
     bolts = [it for it in comp if it.kind == "bolt"]
     nuts = [it for it in comp if it.kind == "nut"]
     layer_items = [it for it in comp if it.kind in ("hole", "washer")]
@@ -283,11 +425,41 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         s_b = float(np.dot(bolt.bearing_point - origin, e))
     else:
         s_b = eff[id(layer_items[0])][0]
-    # --- tapped / blind last layer
-    last = layer_items[-1]
+    # --- where the thread is: an insert, a part the screw is threaded into, else the last layer
     kind = "through"
     tapped = False
-    if last.kind == "hole" and len(layer_items) >= 1:
+    thread_method = threaded_bore = None
+    insert: InsertHost | None = None
+    found_insert = _insert_in(layer_items, plugs, bolt)
+    threaded_at = None
+    if found_insert is not None and not nuts:
+        sleeve, host, insert = found_insert
+        # the clamped parts bear on the host's face (or on the insert where it stands proud)
+        eff[id(sleeve)] = (min(eff[id(sleeve)][0], eff[id(host)][0]), eff[id(sleeve)][1])
+        layer_items = [it for it in layer_items if it is not host]
+        threaded_at = layer_items.index(sleeve)
+        thread_method, threaded_bore = "insert", insert.how
+    elif bolt is not None and not nuts:
+        forming = hole_part_kind(bolt.part) == FORMING_KIND
+        for k, it in enumerate(layer_items):
+            if it.kind != "hole" or bolt.d < it.obj.diameter - LINEAR_TOL:
+                continue                       # a washer, or a hole the bolt passes
+            how = thread_bore(it.obj.diameter, bolt.d, it.material_hint, forming)
+            if how is not None:
+                threaded_at = k
+                thread_method = "thread-forming" if how == "thread-forming" else "tapped"
+                threaded_bore = how
+                break
+    beyond: list[str] = []
+    if threaded_at is not None:
+        # the part the screw is threaded into ends the joint: what lies beyond is not clamped
+        beyond = list(dict.fromkeys(it.part for it in layer_items[threaded_at + 1:]))
+        layer_items = layer_items[:threaded_at + 1]
+        tapped, kind = True, "tapped"
+        if bolt is None and len({it.part for it in layer_items}) < 2:
+            return None                        # a threaded hole with nothing clamped on it
+    last = layer_items[-1]
+    if threaded_at is None and last.kind == "hole":
         h = last.obj
         s0, s1 = ranges[id(last)]
         closed_far = (not h.through) and _closed_end_s(h, origin, e) > 0.5 * (s0 + s1)
@@ -301,6 +473,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         if not nuts and (smaller or engaged):
             tapped = True
             kind = "tapped"
+            thread_method = "tapped"
         elif closed_far:
             kind = "blind"
     layers: list[Layer] = []
@@ -313,6 +486,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
             continue
         h = it.obj
         role = "tapped" if (tapped and it is last) else "member"
+        hint = insert.insert_hint if (insert is not None and it is last) else it.material_hint
         cb = h.counterbore[0] if h.counterbore and abs(eff[id(it)][0] - ranges[id(it)][0]) > LINEAR_TOL else None
         cs = None
         if h.countersink is not None:
@@ -320,7 +494,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
             if abs(open_s - ranges[id(it)][0]) < LINEAR_TOL:     # opens towards the head
                 cs = h.countersink[0]
         layers.append(Layer(it.part, role, s0 - s_b, s1 - s_b, h.diameter, h.through,
-                            counterbore=cb, countersink=cs, material_hint=it.material_hint,
+                            counterbore=cb, countersink=cs, material_hint=hint,
                             hole=h, solid=it.solid))
     # --- gaps between consecutive solids (head, layers, nut)
     gaps: list[Gap] = []
@@ -333,6 +507,8 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         n0, n1 = ranges[id(nuts[0])]
         chain.append((nut.part, n0 - s_b, n1 - s_b))
     findings: list[Finding] = []
+    if threaded_at is not None:
+        findings.append(_thread_finding(layers[-1], bolt, thread_method, threaded_bore, insert, beyond))
     for (pa, _, ea), (pb, sb, _) in zip(chain, chain[1:]):
         g = sb - ea
         if g > GAP_TOL:
@@ -369,7 +545,8 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
     washers = [it.obj for it in layer_items if it.kind == "washer"]
     j = Joint(id="", kind=kind, point=tuple(float(x) for x in p0), direction=tuple(float(x) for x in e),
               hole_diameter=hole_d, grip=grip, layers=layers, gaps=gaps, bolt=bolt, nut=nut,
-              washers=washers, tapped_depth=tapped_depth, findings=findings)
+              washers=washers, tapped_depth=tapped_depth, findings=findings,
+              thread_method=thread_method if tapped else None, insert=insert, threaded_bore=threaded_bore)
     j.misalignment = max((math.dist(a.position, b.position) for a in layers for b in layers), default=0.0)
     if bolt is not None:
         first_w = bool(washers) and layers[0].role == "washer"
@@ -378,6 +555,116 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         last_w = bool(washers) and layers[-1].role == "washer"
         j.nut_bearing_diameter = washers[-1].outer if (last_w and washers) else nut.bearing_diameter
     return j
+
+
+def thread_bore(hole: float, bolt_d: float, material_hint: str | None = None, forming: bool = False) -> str | None:
+    """How a bore of diameter `hole` holds the thread of a screw modelled at `bolt_d` (mm), or None.
+
+    "thread-forming": a screw named so, or any screw in a plastic part (`material_hint`), in a
+    bore from THREAD_FORMING_MIN_RATIO d up to d (the screw forms its own thread);
+    else "tap drill" | "minor" | "nominal": the bore is the tap drill, the basic minor diameter
+    D1 or the nominal diameter of a catalogue thread of that diameter, within THREAD_MATCH_TOL.
+
+    >>> thread_bore(4.04, 4.826), thread_bore(8.5, 10.0), thread_bore(6.0, 10.0)
+    ('tap drill', 'tap drill', None)
+    >>> thread_bore(2.5, 3.0, "PLA"), thread_bore(2.4, 3.0, forming=True)
+    ('thread-forming', 'thread-forming')
+    """
+    from geomjoint import catalog
+
+    if (forming or catalog.creeps_under_preload(material_hint)) and \
+            THREAD_FORMING_MIN_RATIO * bolt_d - LINEAR_TOL <= hole < bolt_d - LINEAR_TOL:
+        return "thread-forming"
+    for t in catalog.thread_sizes():
+        if abs(t.d - bolt_d) > SIZE_TOL * t.d:
+            continue
+        for value, how in ((catalog.tap_drill(t), "tap drill"), (t.D1, "minor"), (t.d, "nominal")):
+            if abs(hole - value) <= THREAD_MATCH_TOL:
+                return how
+    return None
+
+
+def _bore_is_tap_drill(hole: float) -> bool:
+    """True when `hole` is the tap drill or basic minor diameter of some catalogue thread."""
+    from geomjoint import catalog
+
+    return any(how == "tap drill" for _, how in catalog.nominal_from_hole(hole, None, THREAD_MATCH_TOL))
+
+
+def _insert_in(layer_items: list[_Item], plugs: list[_Item], bolt: Bolt | None
+               ) -> tuple[_Item, _Item, InsertHost] | None:
+    """(the insert's hole item, the host's hole item, the host record) when a sleeve of the stack is
+    an insert: its outer cylinder fills another part's hole, its bore holds the thread.
+
+    An insert by its name ("heat set insert", "Helicoil" ...), or by its shape: with a screw
+    modelled, a sleeve the screw cannot pass whose bore is a thread size of the screw (its tap
+    drill, minor or nominal diameter); with none, a sleeve whose bore is a tap drill or minor
+    diameter of some catalogue size.  A sleeve the screw passes is a spacer, not an insert.
+    """
+    from geomjoint.catalog.hole_parts import INSERT_KINDS, INSERT_MATERIALS, NON_FASTENER_KINDS
+
+    holes = [it for it in layer_items if it.kind == "hole"]
+    for p in plugs:
+        sleeve = next((it for it in holes if it.part == p.part), None)
+        if sleeve is None:
+            continue
+        host = next((it for it in holes if it.part != p.part and _fills(p.obj, it.obj, _axis_offset(p, it))), None)
+        if host is None:
+            continue
+        bore = sleeve.obj.diameter
+        named = p.obj.kind in INSERT_KINDS
+        if p.obj.kind in NON_FASTENER_KINDS or not _inside(p, host):
+            continue                           # a tube, pin or bushing; or a sleeve running on beyond its host
+        if bolt is not None:
+            if bolt.d < bore - LINEAR_TOL:
+                continue                       # the screw passes: a spacer sleeve or a bushing
+            shaped = thread_bore(bore, bolt.d) is not None
+        else:
+            shaped = _bore_is_tap_drill(bore)
+        if not (named or shaped):
+            continue
+        s0, s1 = sorted((p.t0, p.t1))
+        return sleeve, host, InsertHost(part=host.part, insert=p.part, outer_diameter=p.obj.diameter,
+                                        length=s1 - s0, kind=p.obj.kind if named else "insert",
+                                        how="name" if named else "shape", host_hint=host.material_hint,
+                                        insert_hint=sleeve.material_hint or INSERT_MATERIALS[p.obj.kind if named else "insert"])
+    return None
+
+
+def _inside(plug: _Item, host: _Item) -> bool:
+    """True when the plug lies along the axis within the host's hole (proud by INSERT_PROUD_MAX at most)."""
+    d = host.direction
+    shift = float(np.dot(plug.ref - host.ref, d))
+    sign = 1.0 if float(np.dot(plug.direction, d)) > 0 else -1.0
+    p0, p1 = sorted((shift + sign * plug.t0, shift + sign * plug.t1))
+    return p0 >= host.t0 - INSERT_PROUD_MAX and p1 <= host.t1 + INSERT_PROUD_MAX
+
+
+def _axis_offset(a: _Item, b: _Item) -> float:
+    """Distance between the (parallel) axes of two items, mm."""
+    q = a.ref - b.ref
+    q = q - float(np.dot(q, b.direction)) * b.direction
+    return float(np.linalg.norm(q))
+
+
+def _thread_finding(layer: Layer, bolt: Bolt | None, method: str, bore: str | None,
+                    insert: InsertHost | None, beyond: list[str]) -> Finding:
+    """The info finding that says where the thread of a tapped joint is, and why."""
+    if method == "insert":
+        what = (f"{layer.part} is an insert ({'by its name' if insert.how == 'name' else 'by its shape'}: a sleeve "
+                f"{insert.outer_diameter:.2f} mm in {insert.part}, bore {layer.hole_diameter:.2f} mm): "
+                f"the internal thread of the joint, no nut")
+    elif method == "thread-forming":
+        screw = f"{bolt.part} ({bolt.d:.2f} mm)" if bolt else "the screw"
+        what = (f"{screw} forms its thread in the {layer.hole_diameter:.2f} mm hole of {layer.part} "
+                f"(thread-forming into {layer.material_hint or 'the part'})")
+    else:
+        screw = f"{bolt.part} ({bolt.d:.2f} mm)" if bolt else "the screw"
+        what = (f"{screw} is threaded into the {layer.hole_diameter:.2f} mm hole of {layer.part} "
+                f"(the {bore} diameter of its thread): a tapped joint, not interference")
+    if beyond:
+        what += f"; {', '.join(beyond)} beyond it is not clamped by this screw"
+    return Finding("info", "thread-in-hole", what)
 
 
 def _threaded_size(diameter: float, clearance: float) -> bool:
@@ -435,17 +722,93 @@ def _orientation(d, origin, layer_items, nuts) -> np.ndarray:
 
 
 def find_joints(holes: list[Hole], bolts: list[Bolt], nuts: list[Nut], washers: list[Washer],
-                hints: dict[str, str | None] | None = None) -> list[Joint]:
+                hints: dict[str, str | None] | None = None, plugs: list[Plug] = ()) -> list[Joint]:
     """Group holes and hardware into joints, ordered and numbered by position."""
-    items = _items(holes, hints or {}, bolts, nuts, washers)
+    return find_stacks(holes, bolts, nuts, washers, hints, plugs)[0]
+
+
+def find_stacks(holes: list[Hole], bolts: list[Bolt], nuts: list[Nut], washers: list[Washer],
+                hints: dict[str, str | None] | None = None, plugs: list[Plug] = ()
+                ) -> tuple[list[Joint], list[SetAside]]:
+    """The joints (J01, J02 ...) and the coaxial stacks that are no joint (H01, H02 ...), each
+    ordered and numbered by position."""
+    items = _items(holes, hints or {}, bolts, nuts, washers, plugs)
     if not items:
-        return []
-    joints = []
-    for d, comp in group_items(items):
-        j = build_joint(d, comp)
-        if j is not None:
-            joints.append(j)
-    joints.sort(key=lambda j: tuple(round(c, 3) + 0.0 for c in j.point))
+        return [], []
+    joints: list[Joint] = []
+    aside: list[SetAside] = []
+    for d, group in group_items(items):
+        for comp in _per_bolt(group):
+            j = build_joint(d, comp)
+            if j is None:
+                continue
+            why = set_aside_reason(j, [it.obj for it in comp if it.kind == "plug"])
+            if why is None:
+                joints.append(j)
+            else:
+                aside.append(SetAside("", why[0], why[1], j))
+    key = lambda j: tuple(round(c, 3) + 0.0 for c in j.point)   # noqa: E731
+    joints.sort(key=key)
     for k, j in enumerate(joints, 1):
         j.id = f"J{k:02d}"
-    return joints
+    aside.sort(key=lambda a: key(a.joint))
+    for k, a in enumerate(aside, 1):
+        a.id = a.joint.id = f"{SET_ASIDE_PREFIX}{k:02d}"
+    return joints, aside
+
+
+def _per_bolt(group: list[_Item]) -> list[list[_Item]]:
+    """One group per modelled bolt: screws from both ends of one bore (a shaft tapped at each
+    end) are two joints.  Each keeps the holes (build_joint bounds them by its bolt) and the
+    nuts on its own shank."""
+    bolts = [it for it in group if it.kind == "bolt"]
+    if len(bolts) < 2:
+        return [group]
+    out = []
+    for b in bolts:
+        bolt: Bolt = b.obj
+        e = np.asarray(bolt.direction, dtype=float)
+        s_bear = float(np.dot(bolt.bearing_point, e))
+        keep = [b]
+        for it in group:
+            if it.kind == "bolt":
+                continue
+            if it.kind == "nut":
+                a, c = sorted(float(np.dot(it.ref + t * it.direction, e)) for t in (it.t0, it.t1))
+                if c <= s_bear + GAP_TOL or a >= s_bear + bolt.length - GAP_TOL:
+                    continue                   # on another bolt's shank
+            keep.append(it)
+        out.append(keep)
+    return out
+
+
+def set_aside_reason(j: Joint, plugs: list[Plug]) -> tuple[str, str] | None:
+    """(finding code, why) when a stack with no fastener modelled is no joint, else None.
+
+    "holds-a-part": a part that is no fastener fills a hole of the stack (a pin, shaft,
+    bushing or tube: a cylinder filling the hole, or a part so named); "not-a-bolt-hole": no bore
+    of the stack is a clearance hole (ISO 273 fine to coarse, ASME B18.2.8 close to loose) or a
+    tap drill (or minor diameter) of any catalogue size within THREAD_MATCH_TOL.
+    """
+    from geomjoint import catalog
+
+    if j.bolt is not None or j.nut is not None or j.washers:
+        return None
+    inserts = {j.insert.insert} if j.insert else set()
+    held = [p for p in plugs if p.part not in inserts]
+    if held:
+        p = max(held, key=lambda p: p.diameter)
+        what = p.kind if p.kind else "a cylinder with no head"
+        hosts = ", ".join(dict.fromkeys(l.part for l in j.layers if l.part != p.part))
+        return "holds-a-part", (f"{p.part} ({what}, {p.diameter:.2f} mm) fills the hole of {hosts}: "
+                                "a pin, shaft, bushing or tube, not a fastener; not a joint")
+    bores = sorted({round(l.hole_diameter, 4) for l in j.layers})
+    fits = ("fine", "medium", "coarse", "tap drill")
+    for b in bores:
+        if any(how in fits for _, how in catalog.nominal_from_hole(b, None, THREAD_MATCH_TOL)):
+            return None
+    sizes = ", ".join(f"{b:.2f}" for b in bores)
+    return "not-a-bolt-hole", (f"coaxial holes of {', '.join(dict.fromkeys(l.part for l in j.layers))} "
+                               f"({sizes} mm) with no fastener modelled match no clearance hole (ISO 273 / "
+                               f"ASME B18.2.8) and no tap drill of any catalogue size: a bore, seat or vent, "
+                               f"not a joint")

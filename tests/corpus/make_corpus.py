@@ -43,8 +43,9 @@ PLATE = (40.0, 40.0, 10.0)   # invented demo plate, mm
 
 
 # ---------------------------------------------------------------- writing STEP
-def write_step(shapes, path: Path) -> None:
-    """Write named cadquery shapes / workplanes (or a ready cadquery Assembly) as AP214, in mm."""
+def write_step(shapes, path: Path, unit: str = "MM") -> None:
+    """Write named cadquery shapes / workplanes (or a ready cadquery Assembly) as AP214, in mm
+    (or the STEP writer's `unit`: "M" writes the file in metres, as some CAD systems do)."""
     import cadquery as cq
     from cadquery.occ_impl.assembly import toCAF
     from OCP.Interface import Interface_Static
@@ -60,10 +61,11 @@ def write_step(shapes, path: Path) -> None:
     _, doc = toCAF(assy)
     writer = STEPCAFControl_Writer()
     writer.SetNameMode(True)
-    Interface_Static.SetCVal_s("write.step.unit", "MM")
+    Interface_Static.SetCVal_s("write.step.unit", unit)
     Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)   # no 2-D curves: smaller files
     writer.Transfer(doc, STEPControl_AsIs)
     writer.Write(str(path))
+    Interface_Static.SetCVal_s("write.step.unit", "MM")
     _fix_timestamp(path)
 
 
@@ -920,6 +922,125 @@ def hardware_model(path: Path, kind: str) -> dict:
         raise ValueError(kind)
     write_step(a, path)
     return expect
+
+
+# ---------------------------------------------------------------- real-export quirks (holes and threads)
+#: #10-32 UNF: basic major diameter 0.190 in (ASME B1.1, from memory); its tap drill the #21 drill,
+#: 0.159 in (Machinery's Handbook tap drill table, from memory); ASME B18.2.8 normal clearance
+#: 0.201 in (from memory); ASME B18.3 button head A 0.361 in, H 0.101 in (from memory)
+IN = 25.4
+NO10_D, NO10_TAP_DRILL, NO10_CLEARANCE = 0.190 * IN, 0.159 * IN, 0.201 * IN
+NO10_BUTTON = (0.361 * IN, 0.101 * IN)
+
+
+def quirk_inch_tapped_in_metres(path: Path, named: bool = True) -> dict:
+    """An intake roller's 1/2 in hex shaft, 1 1/2 in long, with a #21-drill (4.04 mm) bore end to
+    end, held between two 1/4 in aluminium side plates by a #10-32 x 1/2 button-head screw at each
+    end, modelled at the nominal 0.190 in; written in metres with inch names, as one CAD system
+    writes such a model.  ``named=False`` gives the screws names that say no size."""
+    import cadquery as cq
+
+    t_plate, length = 0.25 * IN, 1.5 * IN
+    a = cq.Assembly(name="intake roller")
+    shaft = (cq.Workplane("XY").polygon(6, 0.5 * IN / math.cos(math.radians(30))).extrude(length)
+             .faces(">Z").workplane().hole(NO10_TAP_DRILL))
+    a.add(shaft, name="hex shaft 1/2 in")
+    for name, z0 in (("roller plate left", length), ("roller plate right", -t_plate)):
+        a.add(plate([(0.0, 0.0)], z0, dia=NO10_CLEARANCE, size=(1.5 * IN, 1.5 * IN, t_plate)), name=name)
+    screw = _socket_screw(NO10_D, 0.5 * IN, *NO10_BUTTON)
+    names = ("#10-32 x 1/2 BHCS", "#10-32 x 1/2 BHCS#2") if named else ("button screw A", "button screw B")
+    a.add(screw, name=names[0], loc=cq.Location(cq.Vector(0, 0, length + t_plate)))
+    a.add(screw, name=names[1], loc=cq.Location(cq.Vector(0, 0, -t_plate), cq.Vector(1, 0, 0), 180))
+    write_step(a, path, unit="M")
+    return {"screws": names, "engagement": 0.5 * IN - t_plate}
+
+
+#: a ground shaft in a 20 mm bore, a 5 mm dowel in 5 mm holes (5.0 mm is also the M6 tap drill:
+#: the pin, not the diameter, decides), a PTFE tube of 4 mm outside in a 4 mm bore and a 47 mm
+#: bearing seat (a 6204 bearing's outside diameter, ISO 15, from memory) beside two M6 socket
+#: screws in 6.6 mm holes (ISO 273 medium, from memory) into 5.0 mm tapped holes
+SHAFT_D, DOWEL_D, TUBE_D, SEAT_D = 20.0, 5.0, 4.0, 47.0
+M6_SOCKET = (10.0, 6.0)          # ISO 4762 M6: dk 10, k 6 (from memory)
+
+
+def quirk_bores_beside_bolts(path: Path) -> dict:
+    """A pump bearing housing (invented): a 10 mm steel cover on a 20 mm housing, two M6x20 socket
+    screws, a drive shaft through both, a locating dowel (a plain cylinder named by no word), a
+    PTFE tube and a bearing seat with nothing in it."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="bearing housing")
+    screws = [(-30.0, 0.0), (30.0, 0.0)]
+    cover = (cq.Workplane("XY").box(90, 60, 10, centered=(True, True, False)).translate((0, 0, 20))
+             .faces(">Z").workplane().pushPoints(screws).hole(6.6)
+             .faces(">Z").workplane().pushPoints([(0.0, 0.0)]).hole(SHAFT_D)
+             .faces(">Z").workplane().pushPoints([(0.0, 20.0)]).hole(DOWEL_D)
+             .faces(">Z").workplane().pushPoints([(15.0, -20.0)]).hole(TUBE_D))
+    housing = (cq.Workplane("XY").box(90, 60, 20, centered=(True, True, False))
+               .faces(">Z").workplane().pushPoints(screws).hole(5.0, 15.0)
+               .faces(">Z").workplane().pushPoints([(0.0, 0.0)]).hole(SHAFT_D)
+               .faces(">Z").workplane().pushPoints([(0.0, 20.0)]).hole(DOWEL_D, 12.0)
+               .faces(">Z").workplane().pushPoints([(15.0, -20.0)]).hole(TUBE_D))
+    a.add(cover, name="cover_steel")
+    a.add(housing, name="housing_steel")
+    seat_cover = (cq.Workplane("XY").box(60, 60, 8, centered=(True, True, False)).translate((0, 0, -8))
+                  .faces(">Z").workplane().hole(SEAT_D))
+    seat_ring = cq.Workplane("XY").box(60, 60, 8, centered=(True, True, False)).translate((0, 0, -16)) \
+        .faces(">Z").workplane().hole(SEAT_D)
+    a.add(seat_cover.translate((150, 0, 0)), name="seat_flange_steel")
+    a.add(seat_ring.translate((150, 0, 0)), name="seat_ring_steel")
+    a.add(cq.Workplane("XY").circle(SHAFT_D / 2).extrude(60).translate((0, 0, -15)), name="drive shaft")
+    a.add(cq.Workplane("XY").circle(DOWEL_D / 2).extrude(16).translate((0, 20, 14)), name="locator")
+    a.add(cq.Workplane("XY").circle(TUBE_D / 2).circle(1.0).extrude(50).translate((15, -20, -10)),
+          name="PTFE tube 4x2")
+    for i, (x, y) in enumerate(screws, 1):
+        a.add(_socket_screw(6.0, 20.0, *M6_SOCKET), name=f"cap screw {i}", loc=cq.Location(cq.Vector(x, y, 30)))
+    write_step(a, path)
+    return {"screws": 2, "held": {"drive shaft", "locator", "PTFE tube 4x2"}, "seat": SEAT_D}
+
+
+#: an M3 heat-set insert for plastics: 4.0 mm outside, 5.7 mm long (a common maker's short M3
+#: insert, from memory); ISO 273 medium clearance of M3 3.4 mm; ISO 4762 M3 dk 5.5, k 3 (from memory)
+INSERT_M3 = (4.0, 5.7)
+M3_SOCKET = (5.5, 3.0)
+
+
+def quirk_heat_set_insert(path: Path, insert_name: str = "M3 heat set insert", bore: float = 2.5,
+                          screw_length: float = 8.0, host: str = "boss_PLA") -> dict:
+    """A 3 mm aluminium cover on a 3-D printed PLA boss that holds an M3 heat-set insert (a
+    brass sleeve, ``bore`` inside) flush with its face, an M3 socket screw through the cover
+    into the insert (invented demo)."""
+    import cadquery as cq
+
+    od, length = INSERT_M3
+    a = cq.Assembly(name="sensor bracket")
+    a.add(cq.Workplane("XY").box(20, 20, 3, centered=(True, True, False)).translate((0, 0, 10))
+          .faces(">Z").workplane().hole(3.4), name="cover_alu")
+    a.add(cq.Workplane("XY").box(20, 20, 10, centered=(True, True, False)).faces(">Z").workplane().hole(od, 7.0),
+          name=host)
+    a.add(cq.Workplane("XY").circle(od / 2).circle(bore / 2).extrude(length).translate((0, 0, 10 - length)),
+          name=insert_name)
+    if screw_length:
+        a.add(_socket_screw(3.0, screw_length, *M3_SOCKET), name="socket screw M3x8" if screw_length == 8 else
+              f"socket screw M3x{screw_length:g}", loc=cq.Location(cq.Vector(0, 0, 13)))
+    write_step(a, path)
+    return {"insert": insert_name, "host": host, "engagement": screw_length - 3.0}
+
+
+def quirk_thread_forming_screw(path: Path, name: str = "thread-forming screw 3x10", pilot: float = 2.4) -> dict:
+    """A 2 mm steel lid screwed into a PA6 housing's boss by a screw for plastics modelled at its
+    3 mm nominal, in a pilot hole of ``pilot`` (0.8 d, as design guides for such screws advise,
+    from memory), blind 12 mm deep (invented demo)."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="junction box")
+    a.add(cq.Workplane("XY").box(20, 20, 2, centered=(True, True, False)).translate((0, 0, 15))
+          .faces(">Z").workplane().hole(3.4), name="lid_steel")
+    a.add(cq.Workplane("XY").box(20, 20, 15, centered=(True, True, False)).faces(">Z").workplane().hole(pilot, 12.0),
+          name="housing_PA6")
+    a.add(_socket_screw(3.0, 10.0, *M3_SOCKET), name=name, loc=cq.Location(cq.Vector(0, 0, 17)))
+    write_step(a, path)
+    return {"engagement": 8.0}
 
 
 def main() -> None:

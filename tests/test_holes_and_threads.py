@@ -1,0 +1,198 @@
+"""Where the thread of a joint is, and holes that are no bolt holes, reproduced with the corpus
+builders (tests/corpus/make_corpus.py, "real-export quirks (holes and threads)"): a screw at its
+nominal diameter in a tap-drill hole, a model in metres with inch names, a bore, a shaft, a dowel
+and a tube beside real screws, a size the catalogue half-knows."""
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+import cadquery as cq
+import pytest
+
+from conftest import validate_result
+from geomjoint.cli import main
+from geomjoint.geometry.scan import scan_model, scan_to_json
+
+sys.path.insert(0, str(Path(__file__).resolve().parent / "corpus"))
+import make_corpus as mc  # noqa: E402
+
+
+def codes(joint) -> list[str]:
+    return [f.code for f in joint.findings]
+
+
+def check(tmp_path: Path, model: Path, materials: str, extra: str = "", load: str = "1 kN") -> tuple[int, dict]:
+    job = tmp_path / f"{model.stem}.toml"
+    job.write_text(f'model = "{model.name}"\n{extra}\n[materials]\n{materials}\n\n'
+                   f'[[load]]\njoints = "*"\naxial = {{ max = "{load}" }}\n')
+    out = tmp_path / f"{model.stem}-out"
+    code = main(["check", str(job), "--out", str(out), "--workers", "1"])
+    doc = json.loads((out / "results.json").read_text()) if (out / "results.json").exists() else {}
+    return code, doc
+
+
+# ----------------------------------------------------------------------------- tap drills
+
+@pytest.fixture(scope="module")
+def roller(tmp_path_factory):
+    path = tmp_path_factory.mktemp("roller") / "roller.step"
+    facts = mc.quirk_inch_tapped_in_metres(path)
+    return path, facts
+
+
+def test_no10_32_at_nominal_in_its_tap_drill_hole_is_a_tapped_joint(roller):
+    path, facts = roller
+    scan = scan_model(path)
+    assert scan.model.file_unit == "m"                      # written in metres
+    assert len(scan.joints) == 2                            # one screw at each end of the shaft
+    for j in scan.joints:
+        assert j.kind == "tapped" and j.nominal == "#10-32 UNF", j.id
+        assert [l.role for l in j.layers] == ["member", "tapped"] and j.layers[-1].part == "hex shaft 1/2 in"
+        # the #21 tap drill of #10-32, 0.159 in (Machinery's Handbook, from memory)
+        assert j.layers[-1].hole_diameter == pytest.approx(mc.NO10_TAP_DRILL, abs=1e-6)
+        assert "interference" not in codes(j) and "thread-in-hole" in codes(j)
+        assert not [f for f in j.findings if f.severity == "fail"]
+        assert j.thread_method == "tapped" and j.threaded_bore == "tap drill"
+    assert {j.bolt.part for j in scan.joints} == set(facts["screws"])
+
+
+def test_no10_32_check_does_not_stop_on_the_tap_drill_hole(roller, tmp_path):
+    path, _ = roller
+    model = tmp_path / path.name
+    model.write_bytes(path.read_bytes())
+    code, doc = check(tmp_path, model, '"roller plate*" = "aluminium"\n"hex shaft*" = "steel"',
+                      extra='[defaults]\ngrade = "10.9"\npreload = "50%"', load="0.5 kN")
+    assert code in (0, 1) and doc, "check must write its results"
+    validate_result(doc)
+    assert not doc.get("not_analysed")                       # no "hole diameter ... smaller than the bolt"
+    assert len(doc["joints"]) == 2
+    for j in doc["joints"]:
+        assert j["fastener"]["designation"] == "#10-32 UNF"
+        names = [c["name"] for c in j["checks"]]
+        assert "stripping" in names
+        strip = next(c for c in j["checks"] if c["name"] == "stripping")
+        assert "tapped steel" in strip["note"] and "nut" not in strip["note"]
+
+
+def test_screw_without_a_size_in_its_name_takes_the_pitch_of_its_bore(tmp_path):
+    path = tmp_path / "roller_unnamed.step"
+    mc.quirk_inch_tapped_in_metres(path, named=False)
+    # 4.04 mm is the tap drill of #10-32 (#21 drill), not of #10-24 (#25, 3.80 mm): from memory
+    assert {j.nominal for j in scan_model(path).joints} == {"#10-32 UNF"}
+
+
+def test_a_tap_drill_hole_with_no_screw_is_a_tapped_hole_of_that_size(tmp_path):
+    path = tmp_path / "no10.step"
+    # ASME B18.2.8 #10 normal clearance 0.201 in over the #21 drill's 4.04 mm blind hole (from memory)
+    mc.quirk_small_metric(path, clearance=mc.NO10_CLEARANCE, tapped=mc.NO10_TAP_DRILL)
+    [j] = scan_model(path).joints
+    assert (j.kind, j.nominal, j.bolt) == ("tapped", "#10-32 UNF", None)
+    m3 = tmp_path / "m3.step"
+    mc.quirk_small_metric(m3, clearance=3.4, tapped=2.5)     # ISO 273 medium M3, tap drill d - P = 2.5
+    [j] = scan_model(m3).joints
+    assert (j.kind, j.nominal) == ("tapped", "M3")
+
+
+def test_a_screw_that_cannot_pass_a_hole_of_no_thread_size_is_still_interference(tmp_path):
+    path = tmp_path / "tight.step"
+    # an M6 screw over a 4.5 mm hole: neither the M6 tap drill 5.0 (d - P) nor D1 4.917 (ISO 724)
+    mc.quirk_small_metric(path, clearance=6.6, tapped=None, screw=(6.0, 16.0, 10.0, 6.0))
+    text = path.read_text()
+    assert "CYLINDRICAL_SURFACE" in text
+    [j] = scan_model(path).joints
+    assert j.kind == "through" and "thread-in-hole" not in codes(j)
+
+
+def test_a_size_the_catalogue_half_knows_in_a_tapped_joint_is_a_finding(tmp_path):
+    """A modelled M7 socket screw (ISO 261 second choice: no ISO 4762 row in the catalog) into
+    its 6.0 mm tap drill (d - P), beside an M6 screw: the M7 joint says what is missing and is
+    not analysed; the M6 one is checked."""
+    path = tmp_path / "m7.step"
+    a = cq.Assembly(name="m7 tapped")
+    a.add(cq.Workplane("XY").box(60, 30, 8, centered=(True, True, False)).translate((0, 0, 20))
+          .faces(">Z").workplane().pushPoints([(-15.0, 0.0)]).hole(7.6)
+          .faces(">Z").workplane().pushPoints([(15.0, 0.0)]).hole(6.6), name="cover")
+    a.add(cq.Workplane("XY").box(60, 30, 20, centered=(True, True, False))
+          .faces(">Z").workplane().pushPoints([(-15.0, 0.0)]).hole(6.0, 16.0)
+          .faces(">Z").workplane().pushPoints([(15.0, 0.0)]).hole(5.0, 16.0), name="base")
+    a.add(mc._socket_screw(7.0, 20.0, 11.0, 7.0), name="socket screw M7x20", loc=cq.Location(cq.Vector(-15, 0, 28)))
+    a.add(mc._socket_screw(6.0, 20.0, *mc.M6_SOCKET), name="socket screw M6x20", loc=cq.Location(cq.Vector(15, 0, 28)))
+    mc.write_step(a, path)
+    m7, m6 = sorted(scan_model(path).joints, key=lambda j: j.nominal != "M7")
+    assert (m7.nominal, m7.kind, m6.nominal, m6.kind) == ("M7", "tapped", "M6", "tapped")
+    gap = [f for f in m7.findings if f.code == "catalog-gap"]
+    assert gap and "no socket head data for M7" in gap[0].message and gap[0].severity == "warn"
+    assert not any("nut" in f.message for f in gap)          # a tapped joint needs no nut
+    code, doc = check(tmp_path, path, '"*" = "steel"')
+    assert code == 1
+    validate_result(doc)
+    [skipped] = doc["not_analysed"]
+    assert skipped["id"] == m7.id and "M7" in skipped["reason"]
+    assert [j["id"] for j in doc["joints"]] == [m6.id]
+
+
+# ----------------------------------------------------------------------------- holes that are no bolt holes
+
+@pytest.fixture(scope="module")
+def housing(tmp_path_factory):
+    path = tmp_path_factory.mktemp("housing") / "housing.step"
+    return path, mc.quirk_bores_beside_bolts(path)
+
+
+def test_bores_pins_shafts_and_tubes_are_set_aside_once_each(housing, capsys):
+    path, facts = housing
+    scan = scan_model(path)
+    assert len(scan.joints) == facts["screws"] and all(j.bolt is not None for j in scan.joints)
+    by_code: dict[str, list] = {}
+    for a in scan.set_aside:
+        by_code.setdefault(a.code, []).append(a)
+    held = {a.reason.split(" (")[0] for a in by_code["holds-a-part"]}
+    assert held == facts["held"]                          # the shaft, the dowel (by shape) and the tube
+    [seat] = by_code["not-a-bolt-hole"]
+    assert seat.joint.hole_diameter == pytest.approx(facts["seat"])
+    # each reported once, as an info finding naming its id
+    ids = [a.id for a in scan.set_aside]
+    assert sorted(ids) == ["H01", "H02", "H03", "H04"]
+    for a in scan.set_aside:
+        mine = [f for f in scan.findings if f.message.startswith(f"{a.id}:")]
+        assert [(f.severity, f.code) for f in mine] == [("info", a.code)]
+    doc = scan_to_json(scan)
+    assert [s["id"] for s in doc["set_aside"]] == ids
+    assert main(["scan", str(path)]) == 0
+    assert "holds-a-part" in capsys.readouterr().out
+
+
+def test_the_dowel_decides_not_its_diameter(housing):
+    # 5.0 mm is the M6 tap drill (d - P, ISO 2306): without the pin it would be a joint
+    path, _ = housing
+    [dowel] = [a for a in scan_model(path).set_aside if a.reason.startswith("locator")]
+    assert dowel.code == "holds-a-part" and "cylinder with no head" in dowel.reason
+
+
+def test_check_runs_the_screws_and_brings_in_a_named_hole(housing, tmp_path):
+    path, _ = housing
+    model = tmp_path / path.name
+    model.write_bytes(path.read_bytes())
+    code, doc = check(tmp_path, model, '"*steel" = "steel"')
+    assert code == 0 and len(doc["joints"]) == 2 and not doc.get("not_analysed")
+    # [[fasteners]] naming a set-aside id and a size brings that stack in as a joint
+    [seat] = [a for a in scan_model(model).set_aside if a.code == "not-a-bolt-hole"]
+    code, doc = check(tmp_path, model, '"*steel" = "steel"',
+                      extra=f'[[fasteners]]\njoints = "{seat.id}"\nfastener = "M42"\ngrade = "8.8"\n')
+    ids = [j["id"] for j in doc["joints"]] + [j["id"] for j in doc.get("not_analysed", [])]
+    assert seat.id in ids and len(ids) == 3
+    validate_result(doc)
+
+
+def test_an_exclusion_of_a_set_aside_hole_counts_and_one_of_nothing_is_exit_2(housing, tmp_path, capsys):
+    path, _ = housing
+    model = tmp_path / path.name
+    model.write_bytes(path.read_bytes())
+    code, doc = check(tmp_path, model, '"*steel" = "steel"', extra='exclude = ["H0*", "J01"]')
+    assert code == 0 and [j["id"] for j in doc["joints"]] == ["J02"]
+    capsys.readouterr()
+    code, _ = check(tmp_path, model, '"*steel" = "steel"', extra='exclude = ["K7"]')
+    err = capsys.readouterr().err.strip()
+    assert code == 2 and len(err.splitlines()) == 1 and "'K7'" in err and "exclude" in err
