@@ -381,8 +381,11 @@ def _false_claims(scan, row: dict) -> None:
                 continue         # two faces of one part (a U-bracket's legs) may well stand apart
             span = gap_span(j, a, b, g.size)
             if span is not None and _distance_near_axis(solids[a], solids[b], j, span) <= TOUCH_TOL:
-                bolt_side = j.bolt is not None and j.bolt.part in (a, b)
-                claims.append({"kind": KIND_SHAPE if bolt_side else KIND_HOLES, "where": f"{j.id} ({a} / {b})",
+                # a head whose bearing face was misread is the recogniser's; a head that does sit
+                # on the part (its bearing face on the part's surface) is the stack's
+                misread = j.bolt is not None and a == j.bolt.part and \
+                    _point_distance(j.bolt.bearing_point, solids[b]) > TOUCH_TOL
+                claims.append({"kind": KIND_SHAPE if misread else KIND_HOLES, "where": f"{j.id} ({a} / {b})",
                                "what": f"gap of {g.size:.3f} mm reported between solids that touch"})
         codes = {f.code for f in j.findings}
         if j.bolt is not None and "interference" in codes:
@@ -447,6 +450,17 @@ def _distance_near_axis(a, b, joint, span: tuple[float, float]) -> float:
             return float("inf")
         pieces.append(common.Shape())
     dist = BRepExtrema_DistShapeShape(*pieces)
+    return dist.Value() if dist.IsDone() else float("inf")
+
+
+def _point_distance(point, solid) -> float:
+    """Distance from a point to a solid, mm."""
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeVertex
+    from OCP.BRepExtrema import BRepExtrema_DistShapeShape
+    from OCP.gp import gp_Pnt
+
+    vertex = BRepBuilderAPI_MakeVertex(gp_Pnt(*map(float, point))).Vertex()
+    dist = BRepExtrema_DistShapeShape(vertex, solid)
     return dist.Value() if dist.IsDone() else float("inf")
 
 
