@@ -278,6 +278,11 @@ def cone_angle_of(s: dict[str, Any], where: str) -> float:
     return cone_angle
 
 
+#: a hole is narrower than its bolt only by more than this, mm: a hole modelled line to line
+#: with the bolt (5.0 mm for M5) reads back from a STEP file as 4.999999999999984 mm
+HOLE_FIT_TOL = 1e-3
+
+
 def hole_diameter_of(s: dict[str, Any], geometry: dict[str, float], thread, tapped: bool,
                      where: str) -> tuple[float, str]:
     """(hole diameter, its source): the job's, else the model's, else the catalogue clearance hole."""
@@ -287,7 +292,7 @@ def hole_diameter_of(s: dict[str, Any], geometry: dict[str, float], thread, tapp
         hole, hole_source = catalog.clearance_hole(thread, fit), SOURCE_CATALOGUE
     if "hole_diameter" in s:
         hole, hole_source = _length(s["hole_diameter"], f"{where}.hole_diameter"), SOURCE_JOB
-    if hole < thread.d and not tapped:
+    if hole < thread.d - HOLE_FIT_TOL and not tapped:
         raise InputError(f"hole diameter {hole:g} mm is smaller than the bolt ({thread.d:g} mm)",
                          where=f"{where}.hole_diameter")
     return hole, hole_source

@@ -80,6 +80,34 @@ def test_bearing_faces_are_judged_against_the_part_they_press_on():
     assert bearing_cover_findings(layers(("a", "member", 11.0), ("b", "tapped", 8.5)), sunk) == []
 
 
+# ----------------------------------------------------------------------------- a hole line to line with its bolt
+
+def test_a_hole_line_to_line_with_its_bolt_is_analysed(tmp_path, capsys):
+    model = tmp_path / "gear_flange.step"
+    mc.quirk_line_to_line(model)
+    assert mc.LINE_TO_LINE_RADIUS in model.read_text()        # the export's float noise is in the file
+    code, out = _starter_check(model, capsys)
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    assert code in (0, 1) and not doc.get("not_analysed")
+    [joint] = doc["joints"]
+    assert joint["fastener"]["designation"] == "M5" and joint["hole"]["diameter"] == pytest.approx(5.0, abs=1e-9)
+    # a hole of the bolt's own size is no ISO 273 clearance (M5: fine 5.3, medium 5.5, coarse 5.8)
+    assert any(f["code"] == "hole-not-standard" for f in joint["findings"])
+
+
+def test_a_hole_narrower_than_the_bolt_is_still_refused():
+    from geomjoint import catalog
+    from geomjoint.errors import InputError
+    from geomjoint.resolve import hole_diameter_of
+
+    m5 = catalog.thread("M5")
+    hole, source = hole_diameter_of({"hole_fit": "medium"}, {"hole_diameter": 5.0 - 1.6e-14}, m5, False, "j.toml: joint J01")
+    assert hole == pytest.approx(5.0) and source == "model"
+    with pytest.raises(InputError, match="smaller than the bolt"):
+        hole_diameter_of({"hole_fit": "medium"}, {"hole_diameter": 4.9}, m5, False, "j.toml: joint J01")
+
+
 # ----------------------------------------------------------------------------- the reader's remarks reach the outputs
 
 def test_reader_remarks_reach_results_json_and_both_reports(tmp_path, capsys):

@@ -610,6 +610,34 @@ def quirk_wide_hole_over_small(path: Path) -> None:
     write_step(a, path)
 
 
+#: an M5 hole modelled line to line with the screw, as one writer reads it back: 5 mm less
+#: 1.6e-14 (the float noise of its export, seen in a real file)
+LINE_TO_LINE_RADIUS = "2.499999999999992"
+
+
+def quirk_line_to_line(path: Path) -> None:
+    """A DIN 912 M5x20 screw through two 6 mm plates with 5.0 mm holes (the screw's own
+    diameter, no clearance) into a hex nut, every radius of 2.5 mm written as 2.499999999999992
+    (met in a real export: the check then refused the joint, "hole diameter 5 mm is smaller
+    than the bolt (5 mm)")."""
+    import math
+    import re
+
+    import cadquery as cq
+
+    a = cq.Assembly(name="gear_flange")
+    top = _plates(a, 5.0, (6.0, 6.0), (30.0, 30.0), ("gear_plate", "adapter_plate"))
+    a.add(_socket_screw(5.0, 20.0, 8.5, 5.0), name="cylinder_screw_M5x20-DIN912",
+          loc=cq.Location(cq.Vector(0, 0, top)))
+    nut = (cq.Workplane("XY").polygon(6, 8.0 / math.cos(math.radians(30))).extrude(4.7)
+           .faces(">Z").workplane().hole(5.0))
+    a.add(nut, name="nut_M5-DIN934", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    write_step(a, path)
+    text = path.read_text()
+    text = re.sub(r"((?:CYLINDRICAL_SURFACE|CIRCLE)\('[^']*',#\d+,)2\.5\)", rf"\g<1>{LINE_TO_LINE_RADIUS})", text)
+    path.write_text(text)
+
+
 def quirk_unit_spelling(path: Path, style: str) -> None:
     """The bolted pair with its millimetre unit spelled as other writers spell it.
 
