@@ -35,7 +35,7 @@ from geomjoint.mechanics.joint import (
     StiffnessComparison,
 )
 from geomjoint.mechanics.members import WILEMAN_TAPPED_BIAS
-from geomjoint.mechanics.stripping import engagement_of, stripping_check
+from geomjoint.mechanics.stripping import engagement_of, insert_pullout_check, stripping_check
 from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
 from geomjoint.progress import Progress
 from geomjoint.resolve import ModelJoint, UnanalysedJoint, not_analysed, resolve_model_joints, typed_joint_specs
@@ -262,6 +262,8 @@ def assess_joint(spec: JointSpec, methods: MemberMethods | None = None) -> Joint
     if result.fit_bias is not None:
         result.findings.append(fit_bias_finding(result.fit_bias))
     result.checks.append(stripping_check(spec))
+    if spec.insert is not None:
+        result.checks.append(insert_pullout_check(spec, result.bolt_force))
     if spec.shear > 0 and spec.method != "vdi":
         result.checks.append(slip_check(spec, result.preload, result.joint_constant))
     if spec.require_load and not spec.loaded:

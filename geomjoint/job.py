@@ -47,7 +47,7 @@ FRICTION_KEYS = {"thread", "head", "interface"}
 TEMPERATURE_KEYS = {"assembly", "service"}
 BEARING_FACE_KEYS = {"head", "nut"}       # bearing_diameter = { head = "...", nut = "..." }
 REQUIRED_KEYS = {"yield", "load", "separation", "fatigue", "assembly_preload",
-                 "working_stress", "bearing_pressure", "slip", "stripping"}
+                 "working_stress", "bearing_pressure", "slip", "stripping", "insert_pullout"}
 INLINE_MATERIAL_KEYS = {"E", "poisson", "yield", "tensile", "limiting_pressure",
                         "thermal_expansion", "name"}
 FASTENER_RULE_KEYS = JOINT_SETTING_KEYS | {"joints"}

@@ -58,6 +58,7 @@ from geomjoint.mechanics.joint import (
     STIFFNESS_METHODS,
     FastenerSpec,
     FatigueSpec,
+    InsertSpec,
     JointSpec,
     LayerSpec,
     ROOM_TEMPERATURE,
@@ -522,12 +523,16 @@ def choose_fastener(job: Job, joint, settings: dict, findings: list[dict]) -> st
                      f"set fastener in [defaults] or [[fasteners]]", where=job.where("fastener"))
 
 
-def _layer_material(job: Job, part: str, role: str, aliases: tuple[str, ...] = ()) -> Any:
+def _layer_material(job: Job, part: str, role: str, aliases: tuple[str, ...] = (), default: str | None = None) -> Any:
+    """The job's material for a layer's part; a washer's is steel and an insert's `default` (brass,
+    or stainless steel for a wire insert) when no [materials] glob names it."""
     try:
         return material_for_part(job, part, aliases)
     except InputError:
         if role == "washer":
             return WASHER_MATERIAL
+        if default is not None:
+            return default
         raise
 
 
@@ -535,11 +540,36 @@ def _model_layers(job: Job, joint, aliases: dict[str, tuple[str, ...]] | None = 
     """The scanned layers with the materials the job gives their parts (a [materials] glob
     matches a part's readable name or the file's instance / product name, ``aliases``)."""
     layers = []
+    insert = getattr(joint, "insert", None)
     for layer in joint.layers:
-        fields = material_layer_fields(_layer_material(job, layer.part, layer.role, (aliases or {}).get(layer.part, ())),
+        default = _insert_material(insert) if insert is not None and layer.part == insert.insert else None
+        fields = material_layer_fields(_layer_material(job, layer.part, layer.role, (aliases or {}).get(layer.part, ()),
+                                                       default),
                                        f"{job.path.name}: [materials] (part {layer.part!r})")
         layers.append(LayerSpec(thickness=layer.thickness, role=layer.role, part=layer.part, **fields))
     return layers
+
+
+def _insert_material(insert) -> str:
+    """An insert's material when the job names none: what its name says, else brass (a wire insert
+    stainless steel), catalog.hole_parts.INSERT_MATERIALS."""
+    from geomjoint.catalog.hole_parts import INSERT_MATERIALS
+
+    hint = insert.insert_hint
+    return hint if hint else INSERT_MATERIALS.get(insert.kind, INSERT_MATERIALS["insert"])
+
+
+def insert_spec(job: Job, joint, aliases: dict[str, tuple[str, ...]] | None = None) -> InsertSpec | None:
+    """The insert of a model joint and its host, with the host's material from the job."""
+    insert = getattr(joint, "insert", None)
+    if insert is None:
+        return None
+    host = insert.part
+    fields = material_layer_fields(material_for_part(job, host, (aliases or {}).get(host, ())),
+                                   f"{job.path.name}: [materials] (part {host!r})")
+    return InsertSpec(part=insert.insert, host=host, host_material=fields["material"],
+                      host_tensile=fields.get("tensile_strength"), outer_diameter=insert.outer_diameter,
+                      length=insert.length, kind=insert.kind)
 
 
 def _model_geometry(joint) -> dict[str, float]:
@@ -584,6 +614,9 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
     spec = build_spec(job, joint.id, settings, _model_layers(job, joint, aliases), tapped=joint.tapped,
                       load=_model_load(job, joint.id, group_loads, where), where=where,
                       geometry=_model_geometry(joint), notes=notes)
+    if joint.tapped:
+        spec = replace(spec, thread_method=getattr(joint, "thread_method", None) or "tapped",
+                       insert=insert_spec(job, joint, aliases))
     findings += bearing_cover_findings(joint.layers, spec)
     return ModelJoint(joint, spec, findings)
 

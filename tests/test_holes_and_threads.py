@@ -196,3 +196,81 @@ def test_an_exclusion_of_a_set_aside_hole_counts_and_one_of_nothing_is_exit_2(ho
     code, _ = check(tmp_path, model, '"*steel" = "steel"', extra='exclude = ["K7"]')
     err = capsys.readouterr().err.strip()
     assert code == 2 and len(err.splitlines()) == 1 and "'K7'" in err and "exclude" in err
+
+
+# ----------------------------------------------------------------------------- inserts and thread-forming screws
+
+INSERT_JOB = '"cover_alu" = "aluminium"\n"boss_PLA" = "PLA"'
+
+
+def test_a_screw_into_a_heat_set_insert_is_tapped_in_the_insert_with_no_nut(tmp_path):
+    path = tmp_path / "bracket.step"
+    facts = mc.quirk_heat_set_insert(path)
+    [j] = scan_model(path).joints
+    assert j.kind == "tapped" and j.nut is None and j.nominal == "M3"
+    assert [l.part for l in j.layers] == ["cover_alu", facts["insert"]] and j.layers[-1].role == "tapped"
+    assert j.thread_method == "insert" and j.insert.part == facts["host"]
+    # a common M3 heat-set insert 4.0 x 5.7 mm (from memory), as built
+    assert (j.insert.outer_diameter, j.insert.length) == pytest.approx(mc.INSERT_M3)
+    assert not any("nut assumed" in f.message or "inside the nut" in f.message for f in j.findings)
+    assert not [f for f in j.findings if f.severity == "fail"]
+
+
+def test_insert_check_strips_in_the_insert_and_pulls_out_of_the_plastic(tmp_path):
+    path = tmp_path / "bracket.step"
+    mc.quirk_heat_set_insert(path)
+    code, doc = check(tmp_path, path, INSERT_JOB, extra='[defaults]\ngrade = "8.8"\npreload = "500 N"', load="0.3 kN")
+    validate_result(doc)
+    [j] = doc["joints"]
+    checks = {c["name"]: c for c in j["checks"]}
+    strip = checks["stripping"]
+    assert "insert" in strip["note"] and "copper alloy" in strip["note"] and "nut" not in strip["note"]
+    pull = checks["insert pull-out"]
+    # pi * 4.0 * 5.7 * 0.6 R_m(PLA) over the largest bolt force (common practice formula); PLA R_m in the catalogue
+    from geomjoint import catalog
+    expected = 3.141592653589793 * 4.0 * 5.7 * 0.6 * catalog.material("PLA").tensile_strength
+    bolt_force = float(pull["note"].split("largest bolt force ")[1].split(" N")[0])
+    assert pull["value"] == pytest.approx(expected / bolt_force, rel=2e-3)
+    assert "common practice" in pull["note"] and pull["required"] == 1.0
+    text = json.dumps(doc)
+    assert "nut assumed" not in text and "inside the nut" not in text and "head and nut" not in text
+    # a preload the screw holds (12.9: proof 970 MPa x 5.03 mm^2 = 4.9 kN, ISO 898-1) but that rips the
+    # insert out fails the pull-out alone, and no remedy offers a nut's washer
+    code, doc = check(tmp_path, path, INSERT_JOB, extra='[defaults]\ngrade = "12.9"\npreload = "2.9 kN"', load="0.3 kN")
+    [j] = doc["joints"]
+    failing = [c["name"] for c in j["checks"] if not c["ok"]]
+    assert code == 1 and failing == ["insert pull-out"]
+    assert "head and nut" not in json.dumps(j.get("remedies", []))
+
+
+def test_an_insert_by_its_shape_and_an_insert_with_no_screw(tmp_path):
+    sleeve = tmp_path / "sleeve.step"
+    mc.quirk_heat_set_insert(sleeve, insert_name="sleeve", bore=3.0)    # bore at the M3 nominal
+    [j] = scan_model(sleeve).joints
+    assert (j.thread_method, j.insert.how, j.layers[-1].part) == ("insert", "shape", "sleeve")
+    bare = tmp_path / "bare.step"
+    mc.quirk_heat_set_insert(bare, screw_length=0)
+    [j] = scan_model(bare).joints
+    # no screw modelled: the insert's 2.5 mm bore (M3 tap drill, d - P) is the tapped hole, M3 from the 3.4 clearance
+    assert (j.kind, j.nominal, j.thread_method, j.bolt) == ("tapped", "M3", "insert", None)
+
+
+def test_a_thread_forming_screw_in_a_plastic_boss(tmp_path):
+    path = tmp_path / "box.step"
+    facts = mc.quirk_thread_forming_screw(path)
+    [j] = scan_model(path).joints
+    assert (j.kind, j.thread_method, j.layers[-1].part, j.nominal) == ("tapped", "thread-forming", "housing_PA6", "M3")
+    assert "interference" not in codes(j)
+    code, doc = check(tmp_path, path, '"lid_steel" = "steel"\n"housing_PA6" = "PA6"',
+                      extra='[defaults]\ngrade = "8.8"\npreload = "300 N"', load="0.2 kN")
+    validate_result(doc)
+    [r] = doc["joints"]
+    strip = next(c for c in r["checks"] if c["name"] == "stripping")
+    assert "thread formed by the screw in PA6" in strip["note"] and f"L_e = {facts['engagement']:.1f} mm" in strip["note"]
+    # the same screw by its name, in a part whose material the name does not say
+    named = tmp_path / "named.step"
+    mc.quirk_thread_forming_screw(named, name="ISO 7049 tapping screw 3x10")
+    text = named.read_text().replace("housing_PA6", "housing")
+    named.write_text(text)
+    [j] = scan_model(named).joints
+    assert (j.kind, j.thread_method) == ("tapped", "thread-forming")

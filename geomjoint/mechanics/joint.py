@@ -42,6 +42,20 @@ class LayerSpec:
 
 
 @dataclass(frozen=True)
+class InsertSpec:
+    """A threaded or heat-set insert that holds the screw's thread (the tapped layer is the
+    insert), and the part it sits in, mm and MPa."""
+
+    part: str                       # the insert
+    host: str                       # the part it sits in
+    host_material: str
+    host_tensile: float | None      # R_m of the host, MPa (None: not known, pull-out not checked)
+    outer_diameter: float           # D_o of the insert, mm
+    length: float                   # L of the insert in its host, mm
+    kind: str = "insert"            # "insert" | "wire insert"
+
+
+@dataclass(frozen=True)
 class FastenerSpec:
     """The bolt or cap screw, resolved to numbers."""
 
@@ -146,6 +160,8 @@ class JointSpec:
     hole_source: str = "catalogue"
     loaded: bool = True              # False: no load of the job reaches the joint (no service load)
     require_load: bool = False       # the job's require_loads: an unloaded joint fails
+    thread_method: str = "tapped"    # a tapped joint's internal thread: "tapped" | "insert" | "thread-forming"
+    insert: InsertSpec | None = None  # the insert that is the tapped layer, and its host
 
     @property
     def grip(self) -> float:

@@ -359,7 +359,10 @@ def stripping_check(spec: JointSpec) -> Check:
         if R_int is None:
             return Check("stripping", None, required, True,
                          f"not checked: no tensile strength for tapped material {layer.material!r}")
-        where = f"tapped {layer.material}"
+        where = {"insert": f"the insert {layer.part or ''} ({layer.material})".replace("  ", " "),
+                 "thread-forming": f"a thread formed by the screw in {layer.material} (the screw's own thread "
+                                   f"form taken as ISO/UN; the part's shear strength 0.6 R_m)"}.get(
+            spec.thread_method, f"tapped {layer.material}")
     else:
         R_int = f.tensile
         where = "nut of the matching class"
@@ -368,3 +371,71 @@ def stripping_check(spec: JointSpec) -> Check:
     note = (f"L_e = {L_e:.1f} mm ({origin}) in {where}; minimum {r.minimum_engagement:.1f} mm "
             f"({r.minimum_engagement / f.d:.2f} d, {r.governing} thread governs; {r.limits.tolerance})")
     return Check("stripping", r.margin, required, ok, note)
+
+
+# --------------------------------------------------------------------------------------
+# inserts
+# --------------------------------------------------------------------------------------
+
+def insert_pullout_force(outer_diameter: float, length: float, host_shear: float) -> float:
+    """Load that pulls an insert out of its host by shearing the host over the insert's outer
+    cylinder, N.
+
+        F_po = pi D_o L tau_host
+
+    The shear-out estimate of common practice for threaded and heat-set inserts (the host's
+    material shears over the insert's outside; knurls, undercuts and a thread outside the
+    insert are not counted).  The insert maker's published pull-out loads govern where known.
+
+    Parameters
+    ----------
+    outer_diameter : float
+        D_o, outer diameter of the insert (its host's bore), mm.
+    length : float
+        L, length of the insert in its host, mm.
+    host_shear : float
+        tau_host, shear strength of the host material, MPa (e.g. `shear_strength` of its R_m).
+
+    Examples
+    --------
+    An M3 heat-set insert, D_o = 4.0 mm, L = 5.7 mm, in PLA with R_m = 50 MPa
+    (tau = 0.6 R_m = 30 MPa): F = pi * 4.0 * 5.7 * 30 = 2149 N.
+
+    >>> round(insert_pullout_force(4.0, 5.7, shear_strength(50.0)))
+    2149
+    """
+    if outer_diameter <= 0 or length <= 0 or host_shear <= 0:
+        raise InputError(f"insert outer diameter, length and host shear strength must be positive, "
+                         f"got {outer_diameter}, {length}, {host_shear}")
+    return math.pi * outer_diameter * length * host_shear
+
+
+#: the note of every pull-out check: how it is computed and what governs (common practice)
+INSERT_PULLOUT_METHOD = ("F_po = pi D_o L tau_host, tau_host = 0.6 R_m (common practice: shear of the host "
+                         "over the insert's outer cylinder; the insert maker's pull-out data govern)")
+
+
+def insert_pullout_check(spec: JointSpec, bolt_force: float) -> Check:
+    """The `insert pull-out` check of a joint whose thread is an insert: the load that shears the
+    host over the insert (:func:`insert_pullout_force`) against the largest bolt force in service,
+    N / N, required 1.0 (or ``spec.required["insert_pullout"]``).
+
+    >>> from types import SimpleNamespace
+    >>> from geomjoint.mechanics.joint import InsertSpec
+    >>> ins = InsertSpec("insert", "boss", "PLA", 50.0, 4.0, 5.7)
+    >>> c = insert_pullout_check(SimpleNamespace(insert=ins, required={}), bolt_force=1000.0)
+    >>> round(c.value, 2), c.ok       # 2149 N / 1000 N
+    (2.15, True)
+    """
+    ins = spec.insert
+    required = spec.required.get("insert_pullout", 1.0)
+    if ins.host_tensile is None:
+        return Check("insert pull-out", None, required, True,
+                     f"not checked: no tensile strength for the host material {ins.host_material!r}")
+    force = insert_pullout_force(ins.outer_diameter, ins.length, shear_strength(ins.host_tensile))
+    note = (f"{ins.part} ({ins.outer_diameter:.2f} x {ins.length:.2f} mm) in {ins.host} ({ins.host_material}): "
+            f"pull-out {force:.0f} N against the largest bolt force {bolt_force:.0f} N; {INSERT_PULLOUT_METHOD}")
+    if bolt_force <= 0:
+        return Check("insert pull-out", None, required, True, note)
+    value = force / bolt_force
+    return Check("insert pull-out", value, required, value >= required, note)
