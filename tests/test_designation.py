@@ -72,7 +72,7 @@ def test_the_standard_decides_over_words_and_is_named_as_written():
     assert d.standard == "ISO 4017" and d.named_standard == "DIN 933" and d.kind == "hex"
 
 
-@pytest.mark.parametrize("name", ["frame_flange", "Hotend mount", "NEMA17 motor", "625pillow", "bearing 608ZZ",
+@pytest.mark.parametrize("name", ["frame_flange", "Hotend mount", "NEMA17 motor", "625pillow",
                                   "plate 3-20", "Part1", "01_00_00-shredder_unit"])
 def test_names_that_say_nothing_of_a_fastener(name):
     assert parse_designation(name) is None
@@ -100,3 +100,10 @@ def test_every_head_kind_of_the_standards_is_a_catalogue_head_kind():
             assert catalog.head_kind(r["kind"]) in catalog.HEAD_KINDS + ("pan slotted",), r["standard"]
     with pytest.raises(InputError, match="ISO 898"):
         product_standard("ISO 898")
+
+
+@pytest.mark.parametrize("name", ["bearing 608ZZ", "deep groove ball bearing _13", "lead screw T8x8",
+                                  "heat set insert M3x5.7", "02_01_01-extruder screw", "spacer M5"])
+def test_names_that_say_the_part_is_no_fastener(name):
+    # ring- and bolt-shaped parts that are no fasteners (common practice): the recogniser leaves them
+    assert parse_designation(name).family == "other"

@@ -190,3 +190,26 @@ def test_a_shank_modelled_at_the_minor_diameter_takes_its_size_from_the_name(tmp
     [joint] = scan_model(path).joints
     assert joint.nominal == "M12" and "modelled-diameter" in _codes(joint)
     assert "name-mismatch" not in _codes(joint)
+
+
+def _single_part(tmp_path, shape, name):
+    path = tmp_path / "one.step"
+    a = cq.Assembly(name="one")
+    a.add(shape, name=name)
+    mc.write_step(a, path)
+    return scan_model(path)
+
+
+@pytest.mark.parametrize("name, washer", [("ring_17", False), ("washer_17", True), ("ball bearing ring", False)])
+def test_a_thick_ring_is_a_washer_only_when_named_so(tmp_path, name, washer):
+    # 6.4 / 12 / 2.5: h/d1 = 0.39, above ISO 7089's 0.14-0.25 (from memory): a spacer unless named a washer
+    scan = _single_part(tmp_path, cq.Workplane("XY").circle(6.0).circle(3.2).extrude(2.5), name)
+    assert bool(scan.washers) == washer
+
+
+@pytest.mark.parametrize("name, bolt", [("Part23", False), ("shaft screw", True)])
+def test_a_stepped_shaft_like_no_catalogue_head_is_a_bolt_only_when_named_so(tmp_path, name, bolt):
+    # a 25 mm shank under a 55 x 40 mm collar: no ISO 4762 / ASME B18.3 head of 1 in is near it
+    shaft = cq.Workplane("XY").circle(27.5).extrude(40.0).union(cq.Workplane("XY").circle(12.5).extrude(-60.0))
+    scan = _single_part(tmp_path, shaft, name)
+    assert bool(scan.bolts) == bolt

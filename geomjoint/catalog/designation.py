@@ -33,8 +33,8 @@ from geomjoint.errors import InputError
 
 #: decimals an inch length keeps in mm (3/4 in is 19.05 mm, not 19.049999999999997)
 LENGTH_DIGITS = 6
-#: families of fasteners a designation can name
-FAMILIES = ("bolt", "nut", "washer", "set screw", "stud")
+#: families of fasteners a designation can name ("other": the name says the part is no fastener)
+FAMILIES = ("bolt", "nut", "washer", "set screw", "stud", "other")
 
 
 @dataclass(frozen=True)

@@ -57,6 +57,11 @@ from geomjoint.geometry.holes import (
 NUT_MAX_HEIGHT_RATIO = 1.5        # nut height / bore diameter
 WASHER_MAX_THICKNESS_RATIO = 0.5  # washer thickness / inner diameter
 MIN_HEAD_WIDTH_RATIO = 1.3        # head (or nut / washer) width / shank (bore) diameter
+#: a ring without a washer's name is a washer only with a washer's proportions: ISO 7089 h/d1
+#: is 0.14-0.25 (DIN 127 spring washers about 0.26), ISO 7089 / ISO 7092 d2/d1 is 1.7-2.2
+#: (from memory); thicker or narrower rings are spacers, bearing rings, seals
+UNNAMED_WASHER_MAX_THICKNESS_RATIO = 0.3
+UNNAMED_WASHER_MIN_OD_RATIO = 1.5
 #: upper bounds that keep round covers, flanges and collars out (common practice: ISO 7093
 #: large washers have d2 ~ 3 d, hex heads and nuts s ~ 1.5-1.8 d, flange heads ~ 2.2 d)
 WASHER_MAX_OD_RATIO = 4.0         # washer outer / inner diameter
@@ -414,10 +419,16 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None,
     if solid is not None and sum(1 for _ in topology.faces(solid)) > MAX_HARDWARE_FACES:
         return None
     desig = _designation(label or part)
+    if desig is not None and desig.family == "other":
+        return None                       # a bearing ring, a spacer, a lead screw: named as no fastener
     hint = _hint_of(desig)
     through = [h for h in holes if h.through]
     if len(through) == 1 and all(_same_axis(h, through[0]) for h in holes):
         return _nut_or_washer(part, faces, through[0], solid, desig, hint)
+    if not holes and solid is not None and desig is not None and desig.family == "nut":
+        bore = _drawn_bore(solid, faces)             # a bore drawn as B-spline faces
+        if bore is not None:
+            return _nut_or_washer(part, faces, bore, solid, desig, hint)
     if through or solid is None or n_faces == 0:
         return None
     outer = _merged_outer(faces.patches)
@@ -456,6 +467,30 @@ def _partial_cylinder_axis(patches: list[SurfacePatch]) -> tuple[np.ndarray, np.
         if best is None or weight > best[0]:
             best = (weight, group[0].ref, group[0].direction)
     return (best[1], best[2]) if best else None
+
+
+def _drawn_bore(solid, faces: SolidFaces) -> Hole | None:
+    """The through bore of a named nut whose bore is not a cylinder (B-spline faces): on the
+    principal axis of largest moment (the axis of a flat part), the non-planar faces all at one
+    radius over the whole height."""
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(solid, props)
+    if props.Mass() <= 0:
+        return None
+    pp = props.PrincipalProperties()
+    axes = [pp.FirstAxisOfInertia(), pp.SecondAxisOfInertia(), pp.ThirdAxisOfInertia()]
+    k = int(np.argmax(pp.Moments()))
+    d = canonical_direction(_vec(axes[k]))
+    ref = axis_reference(_vec(props.CentreOfMass()), d)
+    o = _Outline.of(_faces_of(solid), ref, d)
+    inner = [f for f in o.faces if f.kind == "other" and len(f.points)]
+    if not inner:
+        return None
+    t, r = _tr(np.vstack([f.points for f in inner]), ref, d)
+    a0, a1 = float(o.t.min()), float(o.t.max())
+    if np.ptp(r) > 0.02 * r.mean() or t.min() > a0 + 10 * LINEAR_TOL or t.max() < a1 - 10 * LINEAR_TOL:
+        return None
+    return Hole(part="", ref=ref, direction=d, t0=a0, t1=a1, diameter=2 * float(r.mean()), sections=[])
 
 
 def _same_axis(a: Hole, b: Hole) -> bool:
@@ -528,6 +563,8 @@ def _headless_or_bolt(part, o: _Outline, shank_secs, solid, desig, hint):
         return Bolt(part, o.ref, direction, 2 * r_nom, length, kind, k, af, bd,
                     o.ref + t_bear * o.d, hint, solid, desig)
     kind = _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top)
+    if kind is None:
+        return None
     bd = 2 * bearing[1] if bearing is not None else 2 * R
     return Bolt(part, o.ref, direction, 2 * r_nom, length, kind, k, 2 * R, min(bd, 2 * R),
                 o.ref + t_bear * o.d, hint, solid, desig)
@@ -642,7 +679,7 @@ def _thread_of(d_model: float, desig):
     return thread_for_diameter(d_model)
 
 
-def _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top) -> str:
+def _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top) -> str | None:
     """The kind of a round head: the catalogue kind of the size whose d_k and k it is nearest,
     among those its shape allows (a flat top with a high cylindrical side: socket or cheese;
     else button or pan); the product name's kind breaks a tie."""
@@ -681,6 +718,8 @@ def _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top) -> str:
             return best
     if named is not None:
         return named
+    if desig is None or desig.family != "bolt":
+        return None          # a round-headed part like no catalogue head, not named a screw: a shaft, a tool
     if k >= SOCKET_MIN_HEIGHT_RATIO * 2 * r_nom:
         return "socket"
     return "cheese" if flat else "button"
@@ -741,6 +780,9 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
             t_sq = _thread_by_bore(h.diameter) if af is not None else None
             if t_sq is None or af > SQUARE_NUT_MAX_WIDTH_RATIO * t_sq.d or R > PRISM_CORNER_TOL * af / math.sqrt(2):
                 af = None
+        if af is None and desig is not None and desig.family == "nut":
+            af = _rectangle_width(o, hf, height)     # a named nut drawn as a rectangular block
+            kind = "square"
     else:
         af = _hex_width(faces, h.ref, h.direction)
         kind = "hex"
@@ -758,10 +800,39 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
             if named_lock or (t is not None and height > LOCK_NUT_MIN_HEIGHT_RATIO * t.d):
                 kind = "lock"
         return Nut(part, h.ref, h.direction, h.diameter, af, height, a0, a1, bearing, hint, solid, kind, desig)
-    if ring and height <= WASHER_MAX_THICKNESS_RATIO * h.diameter:
+    named_washer = desig is not None and desig.family == "washer"
+    max_t = WASHER_MAX_THICKNESS_RATIO if named_washer else UNNAMED_WASHER_MAX_THICKNESS_RATIO
+    min_od = MIN_HEAD_WIDTH_RATIO if named_washer else UNNAMED_WASHER_MIN_OD_RATIO
+    if ring and height <= max_t * h.diameter:
         od = 2 * max(p.r0 for p in ring)
-        if MIN_HEAD_WIDTH_RATIO * h.diameter <= od <= WASHER_MAX_OD_RATIO * h.diameter:
+        if min_od * h.diameter <= od <= WASHER_MAX_OD_RATIO * h.diameter:
             return Washer(part, h.ref, h.direction, h.diameter, od, height, a0, a1, hint, solid, desig)
+    return None
+
+
+def _rectangle_width(o: _Outline, hf, height: float) -> float | None:
+    """The smaller width of a rectangular prism around the axis (two pairs of opposite outward
+    planes parallel to it, at right angles), or None."""
+    flats = []
+    for f, ft, fr in hf:
+        if f.kind != "plane" or abs(float(np.dot(f.normal, o.d))) > ANGLE_TOL * 10:
+            continue
+        if np.ptp(ft) < PRISM_MIN_HEIGHT_SHARE * height:
+            continue
+        p = f.points.mean(axis=0)
+        rel = (p - o.ref) - np.dot(p - o.ref, o.d) * o.d
+        dist = float(np.dot(rel, f.normal))
+        if dist > 0:
+            flats.append((f.normal, dist))
+    widths = []
+    for i, (n1, d1) in enumerate(flats):
+        for n2, d2 in flats[i + 1:]:
+            if float(np.dot(n1, n2)) < -1 + 1e-6:
+                widths.append((n1, d1 + d2))
+    for i, (n1, w1) in enumerate(widths):
+        for n2, w2 in widths[i + 1:]:
+            if abs(float(np.dot(n1, n2))) < 1e-6:
+                return min(w1, w2)
     return None
 
 
