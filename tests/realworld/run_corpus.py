@@ -383,8 +383,10 @@ def _false_claims(scan, row: dict) -> None:
             if span is not None and _distance_near_axis(solids[a], solids[b], j, span) <= TOUCH_TOL:
                 # a head whose bearing face was misread is the recogniser's; a head that does sit
                 # on the part (its bearing face on the part's surface) is the stack's
-                misread = j.bolt is not None and a == j.bolt.part and \
-                    _point_distance(j.bolt.bearing_point, solids[b]) > TOUCH_TOL
+                # (the bearing point is on the axis: on the part's surface it is a hole radius away)
+                below = next((l for l in j.layers if l.part == b), None)
+                misread = j.bolt is not None and a == j.bolt.part and below is not None and \
+                    _point_distance(j.bolt.bearing_point, solids[b]) > below.hole_diameter / 2 + TOUCH_TOL
                 claims.append({"kind": KIND_SHAPE if misread else KIND_HOLES, "where": f"{j.id} ({a} / {b})",
                                "what": f"gap of {g.size:.3f} mm reported between solids that touch"})
         codes = {f.code for f in j.findings}
