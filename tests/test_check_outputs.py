@@ -105,3 +105,36 @@ def test_glb_instances_show_each_piece_as_tessellated_alone(bed):
     for kind in ("bolt", "nut", "washer"):
         assert 1 <= len(kinds[kind]) <= len(verdicts), kind
     assert len(exported["meshes"]) < len([n for n in exported["nodes"] if "mesh" in n])
+
+
+def test_delabella_mesh_of_a_plate_with_holes_matches_the_default_algorithm(bed):
+    """The GLB's meshes (Delabella) hold what OCCT's default algorithm (Watson) gives: the same
+    boundary points, a closed surface, the B-rep volume."""
+    import trimesh
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_Copy
+    from OCP.BRep import BRep_Tool
+    from OCP.BRepMesh import BRepMesh_IncrementalMesh
+    from OCP.TopLoc import TopLoc_Location
+
+    from geomjoint.geometry import topology
+
+    from geomjoint.geometry.glb import TESSELLATION_ANGLE, tessellate
+    from geomjoint.geometry.markup import volume
+    from geomjoint.geometry.model import load_model
+
+    model = load_model(str(bed.with_name("bed.step")))
+    plate = model.part("lower_plate_steel").solid
+    tol = 0.05
+    v, f = tessellate(plate, tol)
+    other = BRepBuilderAPI_Copy(plate).Shape()
+    BRepMesh_IncrementalMesh(other, tol, False, TESSELLATION_ANGLE, True)   # Watson
+    nodes, triangles = [], 0
+    for face in topology.faces(other):
+        poly = BRep_Tool.Triangulation_s(face, TopLoc_Location())
+        nodes += [(p.X(), p.Y(), p.Z()) for p in (poly.Node(i) for i in range(1, poly.NbNodes() + 1))]
+        triangles += poly.NbTriangles()
+    assert (len(v), len(f)) == (len(nodes), triangles)
+    assert np.allclose(np.unique(np.round(v, 6), axis=0), np.unique(np.round(nodes, 6), axis=0))
+    mesh = trimesh.Trimesh(v, f, process=True)
+    assert mesh.is_watertight
+    assert mesh.volume == pytest.approx(volume(plate), rel=1e-3)
