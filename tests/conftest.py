@@ -40,7 +40,7 @@ CAD_TEST_MODULES = frozenset({
     "test_geometry_model", "test_geometry_scan", "test_geometry_stacks", "test_markup",
     "test_outputs_agree", "test_pipeline", "test_properties", "test_methods", "test_required_length",
     "test_comparison", "test_not_analysed", "test_hardware_shapes",
-    "test_check_outputs",
+    "test_check_outputs", "test_scan_instances",
     "test_realworld_reading", "test_realworld_checks", "test_holes_and_threads",
 })
 #: test modules that drive chromium or node

@@ -7,6 +7,7 @@ the analysis adds, the complete list is geomjoint.findings.FINDING_CODES).
 """
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 from typing import Any
@@ -19,6 +20,8 @@ from geomjoint.geometry.hardware import (
     Headless,
     Nut,
     Washer,
+    _designation,   # the one parse of a product name recognition uses
+    _hint_of,
     recognise,
     stud_bolts,
     thread_fits_diameter,
@@ -28,6 +31,7 @@ from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.catalog.hole_parts import hole_part_kind
 from geomjoint.geometry.stacks import THREAD_MATCH_TOL, Finding, Joint, Plug, SetAside, find_plugs, find_stacks
+from geomjoint.geometry.placed import Placement, definition, movable, moved_hardware, moved_holes
 from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
 
 #: every finding code a scan can give, with what it means
@@ -105,14 +109,74 @@ def _label(part) -> str:
     return " ".join(n for n in dict.fromkeys((part.product, part.name)) if n)
 
 
+def _designation_key(desig) -> tuple | None:
+    """What recognition reads of a designation: all of it but the text it was read from (two
+    placements "bolt_M10x40_1" and "bolt_M10x40_2" of one definition are recognised alike)."""
+    if desig is None:
+        return None
+    return dataclasses.astuple(dataclasses.replace(desig, text=""))
+
+
+class _Readings:
+    """Holes and hardware of each distinct shape definition, read once and moved to each of its
+    placements (:mod:`geomjoint.geometry.placed`); a placement that is no rigid motion, or a
+    record with a field the move does not know, is read on the placed solid itself."""
+
+    def __init__(self) -> None:
+        self.definitions: dict[int, list[tuple[object, int]]] = {}
+        self.readings: dict[tuple, tuple[list, object]] = {}
+
+    def _number(self, bare) -> int:
+        bucket = self.definitions.setdefault(hash(bare), [])
+        for other, k in bucket:
+            if other.IsPartner(bare):
+                return k
+        k = sum(len(b) for b in self.definitions.values())
+        bucket.append((bare, k))
+        return k
+
+    def of(self, part) -> tuple[list, object, list]:
+        """(holes, hardware record or None, plugs) of a placed part (no holes or plugs for a
+        piece of hardware: the scan drops them)."""
+        label = _label(part)
+        names = (part.name, getattr(part, "product", None), getattr(part, "instance", None))
+        kind = hole_part_kind(*names)
+        placement = Placement.of(part.solid)
+        if placement is None:
+            return _read(part.solid, part.name, label, kind, part.material_hint)
+        desig = _designation(label)
+        bare = definition(part.solid)
+        key = (self._number(bare), _designation_key(desig))
+        if key not in self.readings:
+            self.readings[key] = _read(bare, part.name, label, None, None)
+        holes, hw, plugs = self.readings[key]
+        if not all(movable(r) for r in ([hw] if hw is not None else plugs)):
+            return _read(part.solid, part.name, label, kind, part.material_hint)
+        if hw is not None:
+            return [], moved_hardware(hw, placement, part=part.name, solid=part.solid, hint=_hint_of(desig),
+                                      designation=desig), []
+        return (moved_holes(holes, placement, part.name, part.solid), None,
+                [moved_hardware(p, placement, part=part.name, kind=kind, material_hint=part.material_hint,
+                                solid=part.solid) for p in plugs])
+
+
+def _read(solid, name: str, label: str, kind: str | None, material_hint: str | None) -> tuple[list, object, list]:
+    """Holes, hardware and plugs of a solid read directly (see :meth:`_Readings.of`)."""
+    faces = analyse_faces(solid)
+    part_holes = find_holes(solid, name, faces)
+    hw = recognise(name, faces, part_holes, solid, label=label)
+    if hw is not None:
+        return [], hw, []
+    return part_holes, None, find_plugs(name, faces, kind, material_hint, solid)
+
+
 def _scan(model: Model) -> ScanResult:
     holes, bolts, nuts, washers, headless = [], [], [], [], []
     plugs: list[Plug] = []
     hints = {}
+    readings = _Readings()
     for part in model.parts:
-        faces = analyse_faces(part.solid)
-        part_holes = find_holes(part.solid, part.name, faces)
-        hw = recognise(part.name, faces, part_holes, part.solid, label=_label(part))
+        part_holes, hw, part_plugs = readings.of(part)
         hints[part.name] = part.material_hint
         if isinstance(hw, Bolt):
             bolts.append(hw)
@@ -124,8 +188,7 @@ def _scan(model: Model) -> ScanResult:
             headless.append(hw)          # a set screw in its threaded hole is no clamping joint
         else:
             holes.extend(part_holes)
-            names = (part.name, getattr(part, "product", None), getattr(part, "instance", None))
-            plugs.extend(find_plugs(part.name, faces, hole_part_kind(*names), part.material_hint, part.solid))
+            plugs.extend(part_plugs)
     # a stud with a nut on it is a bolt whose head is the nut
     studs, head_nuts = stud_bolts(headless, nuts)
     bolts += studs
