@@ -213,3 +213,21 @@ def test_a_stepped_shaft_like_no_catalogue_head_is_a_bolt_only_when_named_so(tmp
     shaft = cq.Workplane("XY").circle(27.5).extrude(40.0).union(cq.Workplane("XY").circle(12.5).extrude(-60.0))
     scan = _single_part(tmp_path, shaft, name)
     assert bool(scan.bolts) == bolt
+
+
+def test_inch_button_heads_and_a_square_nut_in_a_model_written_in_metres(tmp_path):
+    """The issue's intake rollers: #10-32 x 1/2 BHCS at the nominal diameter, one in a 4.04 mm
+    tap-drill hole, one with a square nut; the file in metres, the names in inches."""
+    path = tmp_path / "intake.step"
+    expect = mc.inch_robot_model(path)
+    scan = scan_model(path)
+    assert scan.model.file_unit == "m"
+    assert len(scan.joints) == 2
+    for joint in scan.joints:
+        assert joint.bolt.head_kind == expect["head"] and joint.nominal == expect["nominal"]
+        assert joint.bolt.length == pytest.approx(expect["length"], abs=1e-3)   # 1/2 in
+        assert "name-mismatch" not in _codes(joint) and "interference" not in _codes(joint)
+    tapped, through = sorted(scan.joints, key=lambda j: j.kind == "through")
+    assert tapped.kind == "tapped"
+    assert through.nut.part == expect["nut"] and through.nut.kind == "square"
+    assert through.nut.width == pytest.approx(0.375 * 25.4)     # ASME B18.6.3 #10 square nut F = 3/8 in

@@ -92,9 +92,11 @@ FLANGE_OVER_CORNERS = 1.05
 #: ISO 4032 style 1 m/d is 0.8-0.9 and ISO 4033 style 2 about 1.0, ISO 7040 (non-metallic
 #: insert) about 1.2-1.3 and ISO 7042 (all-metal) about 1.1-1.2 (from memory)
 LOCK_NUT_MIN_HEIGHT_RATIO = 1.05
-#: square nuts are at most this wide in nominal diameters (DIN 557 / DIN 562 s ~ 1.6-1.8 d;
-#: ASME B18.2.2 square nuts 1.5-1.6 D; from memory; a 2 d square plate with a tapped hole is a plate)
-SQUARE_NUT_MAX_WIDTH_RATIO = 1.9
+#: square nuts are at most SQUARE_NUT_MAX_WIDTH_RATIO d + SQUARE_NUT_WIDTH_ALLOWANCE wide: DIN 557
+#: / DIN 562 s = 1.5-1.8 d, ASME B18.2.2 square nuts 1.5 D, the numbered machine screw square nuts of
+#: ASME B18.6.3 up to 2.3 D at #6 (from memory); a wider square plate with a tapped hole is a plate
+SQUARE_NUT_MAX_WIDTH_RATIO = 1.5
+SQUARE_NUT_WIDTH_ALLOWANCE = 3.0
 #: the flats of a nut's prism run over at least this share of its height (chamfers cut the rest)
 PRISM_MIN_HEIGHT_SHARE = 0.5
 #: a square nut's outline reaches no further than its corners (times this, for rounding)
@@ -778,7 +780,8 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
             # a square plate with one hole is no nut: a square nut has a thread's bore and
             # the proportions of DIN 557 / DIN 562
             t_sq = _thread_by_bore(h.diameter) if af is not None else None
-            if t_sq is None or af > SQUARE_NUT_MAX_WIDTH_RATIO * t_sq.d or R > PRISM_CORNER_TOL * af / math.sqrt(2):
+            if (t_sq is None or af > SQUARE_NUT_MAX_WIDTH_RATIO * t_sq.d + SQUARE_NUT_WIDTH_ALLOWANCE
+                    or R > PRISM_CORNER_TOL * af / math.sqrt(2)):
                 af = None
         if af is None and desig is not None and desig.family == "nut":
             af = _rectangle_width(o, hf, height)     # a named nut drawn as a rectangular block

@@ -745,7 +745,9 @@ def button_screw(d: float, length: float, dk: float, k: float, key: float):
     head = (cq.Workplane("XZ").moveTo(0, 0).lineTo(dk / 2, 0).lineTo(dk / 2, rim)
             .threePointArc((0.3 * dk, 0.85 * k), (0, k)).close().revolve(360.0, (0, 0, 0), (0, 1, 0)))
     head = head.cut(_hex_socket(key, 0.6 * k, k + 0.01))
-    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+    screw = head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+    # a socket wider than the dome's flat cuts a sliver off its crown: keep the screw
+    return cq.Workplane("XY").add(max(screw.solids().vals(), key=lambda v: v.Volume()))
 
 
 def pan_screw(d: float, length: float, dk: float, k: float):
@@ -1069,6 +1071,37 @@ def quirk_thread_forming_screw(path: Path, name: str = "thread-forming screw 3x1
     a.add(_socket_screw(3.0, 10.0, *M3_SOCKET), name=name, loc=cq.Location(cq.Vector(0, 0, 17)))
     write_step(a, path)
     return {"engagement": 8.0}
+
+
+def inch_robot_model(path: Path) -> dict:
+    """A robot intake's roller plate screwed to a hex shaft block by a #10-32 x 1/2 button head
+    screw modelled at the nominal diameter in the block's 4.04 mm tap-drill hole (the #10-32 tap
+    drill, 0.159 in), and a bracket of two 1/8 in plates held by the same screw and a #10-32 square
+    nut; written in metres, with the inch designations as product names.  Returns what the scan
+    should read (ASME B18.3 #10 button head A 0.361 in, H 0.101 in, socket 1/8 in; ASME B18.6.3 #10
+    square machine screw nut F 3/8 in, H 1/8 in; from memory)."""
+    import cadquery as cq
+
+    inch = 25.4
+    d = 0.190 * inch                         # #10 basic major diameter (ASME B1.1)
+    clear = 0.201 * inch                     # #10 close-fit clearance (ASME B18.2.8, from memory)
+    t = 0.125 * inch
+    a = cq.Assembly(name="intake_roller")
+    a.add(cq.Workplane("XY").box(25, 20, t, centered=(True, True, False)).faces(">Z").workplane().hole(clear)
+          .translate((0, 0, 0.5 * inch)), name="roller plate")
+    a.add(cq.Workplane("XY").box(25, 20, 0.5 * inch, centered=(True, True, False)).faces(">Z").workplane()
+          .hole(0.159 * inch), name="hex shaft block")
+    screw = button_screw(d, 0.5 * inch, 0.361 * inch, 0.101 * inch, 0.125 * inch)
+    a.add(screw, name="#10-32 x 1/2 BHCS", loc=cq.Location(cq.Vector(0, 0, 0.5 * inch + t)))
+    y = 40.0
+    for name, z in (("bracket upper", t), ("bracket lower", 0.0)):
+        a.add(cq.Workplane("XY").box(25, 20, t, centered=(True, True, False)).faces(">Z").workplane().hole(clear)
+              .translate((0, y, z)), name=name)
+    a.add(screw, name="#10-32 x 1/2 BHCS bracket", loc=cq.Location(cq.Vector(0, y, 2 * t)))
+    a.add(square_nut(d, 0.375 * inch, 0.125 * inch), name="#10-32 square nut",
+          loc=cq.Location(cq.Vector(0, y, 0.0), cq.Vector(1, 0, 0), 180))
+    write_step(a, path, unit="M")
+    return {"nominal": "#10-32 UNF", "length": 0.5 * inch, "head": "button", "nut": "#10-32 square nut"}
 
 
 def main() -> None:
