@@ -231,3 +231,31 @@ def test_inch_button_heads_and_a_square_nut_in_a_model_written_in_metres(tmp_pat
     assert tapped.kind == "tapped"
     assert through.nut.part == expect["nut"] and through.nut.kind == "square"
     assert through.nut.width == pytest.approx(0.375 * 25.4)     # ASME B18.6.3 #10 square nut F = 3/8 in
+
+
+def test_a_nut_named_for_another_size_is_a_warning(tmp_path):
+    path = tmp_path / "nut_named_m10.step"
+    a = cq.Assembly(name="nut_named")
+    top = mc._plates(a, 13.5, (12.0, 12.0), (60.0, 60.0))
+    a.add(mc.hex_bolt_as_library(12.0, 40.0, 18.0, 7.5, 16.8), name="ISO 4017 M12x40", loc=cq.Location(cq.Vector(0, 0, top)))
+    a.add(mc.chamfered_hex_nut(12.0, 18.0, 10.8), name="ISO 4032 M10",
+          loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    said = [f.message for f in joint.findings if f.code == "name-mismatch"]
+    assert said == ["ISO 4032 M10: name says a M10 nut but the joint is M12"]
+
+
+def test_a_named_head_kind_the_catalogue_lacks_at_that_size_is_a_catalogue_gap(tmp_path):
+    """M2 button head screws exist (as catalogue parts) but ISO 7380-1 starts at M3: the dome is
+    read as the nearest kind the catalogue has, and the finding says why, not that the name is wrong."""
+    path = tmp_path / "m2_button.step"
+    a = cq.Assembly(name="m2")
+    top = mc._plates(a, 2.4, (2.0, 2.0), (20.0, 20.0))
+    a.add(mc.button_screw(2.0, 6.0, 3.8, 1.1, 1.3), name="M2x6 BHCS", loc=cq.Location(cq.Vector(0, 0, top)))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.bolt.head_kind in ("pan", "pan slotted", "cheese")
+    assert "name-mismatch" not in _codes(joint)
+    [gap] = [f for f in joint.findings if f.code == "catalog-gap" and "button" in f.message]
+    assert "BHCS" in gap.message and "M2" in gap.message

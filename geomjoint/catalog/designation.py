@@ -61,6 +61,7 @@ class Designation:
     thread: str | None = None          # catalogue designation: "M12", "#10-32 UNF"
     d: float | None = None             # nominal diameter, mm
     length: float | None = None        # nominal length, mm
+    said: str | None = None            # the words the family and kind were read from ("DIN 912", "BHCS")
 
     @property
     def size(self) -> str:
@@ -214,7 +215,7 @@ def _size_by_washer_hole(d1: float) -> tuple[str, float] | None:
     return None
 
 
-def _family_by_words(text: str) -> tuple[str | None, str | None]:
+def _family_by_words(text: str) -> tuple[str | None, str | None, str | None]:
     """(family, kind) by the words of a name: the longest phrase matched wins ("button head
     cap screw" is a button head, "hex cap screw" a hex head); a bare "screw" or "bolt" only
     when nothing more telling is there."""
@@ -224,8 +225,8 @@ def _family_by_words(text: str) -> tuple[str | None, str | None]:
             generic = fam == "bolt" and knd is None
             key = (generic, -len(m.group(0)), order)
             if best is None or key < best[0]:
-                best = (key, fam, knd)
-    return (best[1], best[2]) if best else (None, None)
+                best = (key, fam, knd, m.group(0).strip())
+    return (best[1], best[2], best[3]) if best else (None, None, None)
 
 
 def parse_designation(name: str | None) -> Designation | None:
@@ -255,11 +256,11 @@ def parse_designation(name: str | None) -> Designation | None:
             continue
         named, std_end = _canon(f"{m.group(1)} {m.group(2)}"), m.end()
         break
-    family = kind = None
+    family = kind = said = None
     if std is not None:
-        family, kind = std.family, std.kind
+        family, kind, said = std.family, std.kind, named
     else:
-        family, kind = _family_by_words(text)
+        family, kind, said = _family_by_words(text)
     # a standard's own number must not read as a size ("ISO 7089 12"): sizes after it
     sized = _metric(text) or _inch(text)
     tdes = d = length = None
@@ -274,7 +275,7 @@ def parse_designation(name: str | None) -> Designation | None:
     if std is None and family is None and tdes is None:
         return None
     return Designation(text=name, family=family, kind=kind, standard=std.name if std else None,
-                       named_standard=named, thread=tdes, d=d, length=length)
+                       named_standard=named, thread=tdes, d=d, length=length, said=said)
 
 
 def size_of(t_designation: str) -> str:

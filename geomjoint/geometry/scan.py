@@ -294,6 +294,26 @@ NAME_LENGTH_TOL = 0.6
 _SAME_HEAD = {"pan slotted": "pan", "heavy hex": "hex"}
 
 
+def _hardware_size_findings(j: Joint, t) -> None:
+    """A nut's or washer's name stating another size than the joint's: one warn finding each."""
+    for part, hint in [(j.nut.part, j.nut.hint)] if j.nut is not None else []:
+        _size_disagrees(j, part, hint, t, "nut")
+    for w in j.washers:
+        _size_disagrees(j, w.part, w.hint, t, "washer")
+
+
+def _size_disagrees(j: Joint, part: str, hint, t, what: str) -> None:
+    if hint is None:
+        return
+    try:
+        said = catalog.thread(hint.designation)
+    except InputError:
+        return
+    if catalog.size_label(said) != catalog.size_label(t):
+        j.findings.append(Finding("warn", "name-mismatch",
+                                  f"{part}: name says a {hint.designation} {what} but the joint is {t.designation}"))
+
+
 def _designation_findings(j: Joint, t) -> None:
     """The bolt's name against its shape: length and head kind (the size in _resolve_nominal);
     each disagreement one warn finding stating both."""
@@ -308,9 +328,21 @@ def _designation_findings(j: Joint, t) -> None:
                                   f"{b.part}: name says {said} but the modelled length is {b.length:.2f} mm ({what})"))
     if desig.family == "bolt" and desig.kind and \
             _SAME_HEAD.get(desig.kind, desig.kind) != _SAME_HEAD.get(b.head_kind, b.head_kind):
-        j.findings.append(Finding("warn", "name-mismatch",
-                                  f"{b.part}: name says a {desig.kind} head ({desig.named_standard or desig.text}) "
-                                  f"but the shape is a {b.head_kind} head"))
+        try:
+            if t is not None:
+                catalog.head(t, desig.kind)
+            gap = None
+        except InputError as exc:
+            gap = str(exc)
+        if gap:
+            # the name's kind may well be right: the catalogue cannot dimension it at this size
+            j.findings.append(Finding("warn", "catalog-gap",
+                                      f"{b.part}: name says a {desig.kind} head ({desig.said}), but {gap}; "
+                                      f"read as the nearest kind it has, {b.head_kind}"))
+        else:
+            j.findings.append(Finding("warn", "name-mismatch",
+                                      f"{b.part}: name says a {desig.kind} head ({desig.said}) "
+                                      f"but the shape is a {b.head_kind} head"))
     elif desig.family in ("nut", "washer", "set screw", "stud"):
         j.findings.append(Finding("warn", "name-mismatch",
                                   f"{b.part}: name says a {desig.family} but the shape is a {b.head_kind}-head bolt"))
@@ -388,6 +420,8 @@ def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
         j.nominal_source = "job"
     t = thread if thread is not None else _resolve_nominal(j, system)
     j.nominal = t.designation if t else None
+    if t is not None:
+        _hardware_size_findings(j, t)
     if j.bolt is not None:
         _designation_findings(j, t)
         if j.bolt.nut_head:
