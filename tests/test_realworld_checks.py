@@ -215,3 +215,19 @@ def test_the_runner_finds_a_gap_the_model_contradicts(tmp_path):
     rc._false_claims(scan, row)
     [claim] = row["false_claims"]
     assert "gap of 7.500 mm" in claim["what"] and washer in claim["where"]
+
+
+def test_a_head_drawn_into_the_gap_is_told_from_a_recess_under_it():
+    import cadquery as cq
+    from types import SimpleNamespace as NS
+
+    joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=13.5, bolt=NS(d=12.0))
+    span = (0.0, 7.5)
+    # the hex head lies in the span (its bearing face read at its top, issue 15 item 8): the recogniser's
+    head_in_gap = cq.Workplane("XY").polygon(6, 20.8).extrude(7.5).union(
+        cq.Workplane("XY").circle(6.0).extrude(40.0)).val().wrapped
+    assert rc._volume_around_shank(head_in_gap, joint, span) > 100.0
+    # only the shank crosses the span (the head above it, on a part's recess): the stack's
+    shank_only = cq.Workplane("XY").circle(6.0).extrude(40.0).union(
+        cq.Workplane("XY").polygon(6, 20.8).extrude(-7.5)).val().wrapped
+    assert rc._volume_around_shank(shank_only, joint, span) < rc.HEAD_IN_GAP_VOLUME

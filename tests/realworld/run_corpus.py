@@ -381,12 +381,10 @@ def _false_claims(scan, row: dict) -> None:
                 continue         # two faces of one part (a U-bracket's legs) may well stand apart
             span = gap_span(j, a, b, g.size)
             if span is not None and _distance_near_axis(solids[a], solids[b], j, span) <= TOUCH_TOL:
-                # a head whose bearing face was misread is the recogniser's; a head that does sit
-                # on the part (its bearing face on the part's surface) is the stack's
-                # (the bearing point is on the axis: on the part's surface it is a hole radius away)
-                below = next((l for l in j.layers if l.part == b), None)
-                misread = j.bolt is not None and a == j.bolt.part and below is not None and \
-                    _point_distance(j.bolt.bearing_point, solids[b]) > below.hole_diameter / 2 + TOUCH_TOL
+                # a head drawn into the gap (its bearing face read too high) is the recogniser's;
+                # a head on a part whose recess the stack took for a gap is the stack's
+                misread = j.bolt is not None and a == j.bolt.part and \
+                    _volume_around_shank(solids[a], j, span) > HEAD_IN_GAP_VOLUME
                 claims.append({"kind": KIND_SHAPE if misread else KIND_HOLES, "where": f"{j.id} ({a} / {b})",
                                "what": f"gap of {g.size:.3f} mm reported between solids that touch"})
         codes = {f.code for f in j.findings}
@@ -455,15 +453,32 @@ def _distance_near_axis(a, b, joint, span: tuple[float, float]) -> float:
     return dist.Value() if dist.IsDone() else float("inf")
 
 
-def _point_distance(point, solid) -> float:
-    """Distance from a point to a solid, mm."""
-    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeVertex
-    from OCP.BRepExtrema import BRepExtrema_DistShapeShape
-    from OCP.gp import gp_Pnt
+#: a bolt with more than this much material around its shank inside a gap has its head
+#: drawn there, mm^3 (a head is hundreds of mm^3; a chamfer's sliver or a rounding, less)
+HEAD_IN_GAP_VOLUME = 0.5
 
-    vertex = BRepBuilderAPI_MakeVertex(gp_Pnt(*map(float, point))).Vertex()
-    dist = BRepExtrema_DistShapeShape(vertex, solid)
-    return dist.Value() if dist.IsDone() else float("inf")
+
+def _volume_around_shank(bolt_solid, joint, span: tuple[float, float]) -> float:
+    """Volume of the bolt's material in the gap's span, outside its shank and within the
+    bearing zone, mm^3 (the head, when its bearing face was read too high)."""
+    import numpy as np
+    from OCP.BRepAlgoAPI import BRepAlgoAPI_Common, BRepAlgoAPI_Cut
+    from OCP.BRepGProp import BRepGProp
+    from OCP.BRepPrimAPI import BRepPrimAPI_MakeCylinder
+    from OCP.GProp import GProp_GProps
+    from OCP.gp import gp_Ax2, gp_Dir, gp_Pnt
+
+    e = np.asarray(joint.direction, dtype=float)
+    z0, z1 = span[0] + SPAN_MARGIN, span[1] - SPAN_MARGIN
+    if z1 <= z0:
+        return 0.0
+    axis = gp_Ax2(gp_Pnt(*(np.asarray(joint.point, dtype=float) + e * z0)), gp_Dir(*e))
+    outer = BRepPrimAPI_MakeCylinder(axis, BEARING_ZONE_HOLES * joint.hole_diameter, z1 - z0).Shape()
+    shank = BRepPrimAPI_MakeCylinder(axis, joint.bolt.d / 2 + SPAN_MARGIN, z1 - z0).Shape()
+    ring = BRepAlgoAPI_Cut(outer, shank).Shape()
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(BRepAlgoAPI_Common(bolt_solid, ring).Shape(), props)
+    return props.Mass()
 
 
 def _bolt_end_inside(bolt, scan, solids) -> str | None:
