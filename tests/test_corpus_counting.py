@@ -143,6 +143,7 @@ def test_totals_and_machine_scale_models():
     assert (t["read"], t["models"], t["checked_models"]) == (1, 3, 1)
     assert (t["fasteners"], t["recognised"], t["stated"], t["stated_ok"]) == (4, 3, 2, 1)
     assert (t["machine_scale"], t["machine_systems"]) == (2, 2)   # the absent file does not count
+    assert t["seconds"] == 0       # the synthetic rows carry no time
     text = rc.table(rows, entries)
     assert "fasteners recognised 3/4 (75 %)" in text and "read as named 1/2 (50 %)" in text
 

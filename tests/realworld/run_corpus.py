@@ -599,6 +599,7 @@ def totals(rows: list[dict], entries: list[dict] | None = None) -> dict:
     tot["joints"] = sum(r.get("joints") or 0 for r in rows)
     tot["checked_joints"] = sum(r.get("checked") or 0 for r in rows)
     tot["not_analysed"] = sum(r.get("not_analysed_count") or 0 for r in rows)
+    tot["seconds"] = round(sum(r.get("seconds") or 0 for r in rows), 1)
     present = {r["file"] for r in rows if r.get("read") != "absent"}
     machines = [e for e in (entries or []) if e.get("machine_scale") and e["local"] in present]
     tot["machine_scale"] = len(machines)
@@ -623,7 +624,8 @@ def table(rows: list[dict], entries: list[dict] | None = None) -> str:
                f"({_pct(t['stated_ok'], t['stated'])}); check exit 0/1 on {t['checked_models']}/{t['models']} models; "
                f"joints checked {t['checked_joints']}/{t['joints']} ({t['not_analysed']} not analysed); "
                f"false claims {t['false']}; shape-only hardware {t['shape_only']}; "
-               f"machine-scale models {t['machine_scale']} from {t['machine_systems']} CAD systems")
+               f"machine-scale models {t['machine_scale']} from {t['machine_systems']} CAD systems; "
+               f"{t['seconds']:g} s in all")
     notes = [f"  {r['file']}: {r['note']}" for r in rows if r.get("note")]
     if notes:
         out += ["notes:"] + notes
