@@ -133,7 +133,7 @@ def test_a_refused_file_is_one_failure_of_reading():
 
 
 def test_totals_and_machine_scale_models():
-    rows = [_row(file="a.step"), _row(file="b.step", read="exit 2", joints=None, fasteners=0, recognised=0,
+    rows = [_row(file="a.step", seconds=12.5), _row(file="b.step", read="exit 2", joints=None, fasteners=0, recognised=0,
                                       stated=0, stated_ok=0, checked=None, check_exit=None),
             {"file": "c.step", "read": "absent"}]
     entries = [{"local": "a.step", "machine_scale": True, "cad_system": "SolidWorks 2016"},
@@ -143,7 +143,7 @@ def test_totals_and_machine_scale_models():
     assert (t["read"], t["models"], t["checked_models"]) == (1, 3, 1)
     assert (t["fasteners"], t["recognised"], t["stated"], t["stated_ok"]) == (4, 3, 2, 1)
     assert (t["machine_scale"], t["machine_systems"]) == (2, 2)   # the absent file does not count
-    assert t["seconds"] == 0       # the synthetic rows carry no time
+    assert t["seconds"] == 12.5    # the time of the whole run (rows without a time add none)
     text = rc.table(rows, entries)
     assert "fasteners recognised 3/4 (75 %)" in text and "read as named 1/2 (50 %)" in text
 
