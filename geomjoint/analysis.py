@@ -35,6 +35,7 @@ from geomjoint.mechanics.joint import (
     StiffnessComparison,
 )
 from geomjoint.mechanics.members import WILEMAN_TAPPED_BIAS
+from geomjoint.mechanics import stackup as limits_stackup
 from geomjoint.mechanics.stripping import engagement_of, insert_pullout_check, stripping_check
 from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
 from geomjoint.progress import Progress
@@ -268,6 +269,12 @@ def assess_joint(spec: JointSpec, methods: MemberMethods | None = None) -> Joint
         result.checks.append(slip_check(spec, result.preload, result.joint_constant))
     if spec.require_load and not spec.loaded:
         result.checks.append(service_load_check(spec))
+    result.stackup = limits_stackup.stackup(spec)
+    if result.stackup is not None:
+        result.checks.append(limits_stackup.stackup_check(result.stackup))
+        position = limits_stackup.position_check(result.stackup)
+        if position is not None:
+            result.checks.append(position)
     return result
 
 

@@ -34,10 +34,10 @@ JOINT_SETTING_KEYS = {
     "endurance", "Se", "fully_threaded", "required", "bearing_diameter", "hole_diameter",
     "outside_diameter", "head", "clamp_required", "roughness", "load_introduction", "method",
     "rolled_after_heat_treatment", "length", "thread_length", "hole_fit", "fe_bearing",
-    "compare_stiffness",
+    "compare_stiffness", "thickness_tolerance", "position_tolerance", "stackup_method",
 }
 TOP_KEYS = {"model", "defaults", "materials", "default_material", "joint", "load", "group",
-            "fasteners", "units", "title", "exclude", "require_loads"}
+            "fasteners", "units", "title", "exclude", "require_loads", "tolerances", "positions"}
 JOINT_KEYS = JOINT_SETTING_KEYS | {"id", "layers", "tapped", "load", "engagement", "nut"}
 LAYER_KEYS = {"material", "thickness", "part", "role"}
 LOAD_KEYS = {"joints", "axial", "shear"}
@@ -133,6 +133,8 @@ class Job:
     raw: dict[str, Any] = field(default_factory=dict)
     exclude: tuple[str, ...] = ()        # joint ids / globs not to analyse
     require_loads: bool = False          # a joint that no load reaches fails (CI: no silent fatigue pass)
+    tolerances: dict[str, Any] = field(default_factory=dict)   # [tolerances]: part glob -> thickness tolerance
+    positions: dict[str, Any] = field(default_factory=dict)    # [positions]: part glob -> position tolerance
 
     def where(self, key: str) -> str:
         return f"{self.path.name}: {key}"
@@ -243,15 +245,20 @@ def parse_job(source: str | dict[str, Any], path: str | Path = "job.toml") -> Jo
         raise InputError("expected a string", where=f"{name}: title")
     if "default_material" in raw and not isinstance(raw["default_material"], (str, dict)):
         raise InputError("expected a material name or an inline table", where=f"{name}: default_material")
+    for table in ("tolerances", "positions"):
+        if not isinstance(raw.get(table, {}), dict):
+            raise InputError("expected a table of part-name globs", where=f"{name}: [{table}]")
     job = Job(path=path, model=model, defaults=defaults, materials=materials,
               default_material=raw.get("default_material"), joints=joints, loads=loads,
               groups=groups, fastener_rules=fastener_rules, units=units,
               title=str(raw.get("title", "")), raw=raw, exclude=_exclude(raw.get("exclude", []), f"{name}: exclude"),
-              require_loads=_bool(raw.get("require_loads", False), f"{name}: require_loads"))
+              require_loads=_bool(raw.get("require_loads", False), f"{name}: require_loads"),
+              tolerances=dict(raw.get("tolerances", {})), positions=dict(raw.get("positions", {})))
     # Resolve every typed-in joint now, so all bad input is reported before any work starts
     # (resolve reads the job with this module's readers: imported here, not at the top)
-    from geomjoint.resolve import typed_joint_specs
+    from geomjoint.resolve import check_tolerance_tables, typed_joint_specs
 
+    check_tolerance_tables(job)
     typed_joint_specs(job)
     return job
 
@@ -369,6 +376,19 @@ def part_matches(part: str, pattern: str) -> bool:
     return fnmatch.fnmatchcase(part, pattern) or fnmatch.fnmatchcase(part.lower(), pattern.lower())
 
 
+def entry_for_part(table: dict[str, Any], part: str | None, aliases: tuple[str, ...] = ()) -> tuple[str, Any] | None:
+    """(glob, value) of the last entry of a part-glob table ([materials], [tolerances], [positions])
+    that matches ``part`` or one of its ``aliases``; None when none does (or the part has no name)."""
+    if not part:
+        return None
+    found = None
+    names = (part, *aliases)
+    for pattern, value in table.items():
+        if any(part_matches(n, pattern) for n in names):
+            found = (pattern, value)
+    return found
+
+
 def material_for_part(job: Job, part: str, aliases: tuple[str, ...] = ()) -> Any:
     """The material entry whose glob matches ``part`` or one of its ``aliases`` (the file's
     instance and product names); the last matching glob wins."""
@@ -454,9 +474,11 @@ def check_rules_match(job: Job, joint_ids: list[str], parts: list[tuple[str | No
         if not any(_matches(j, pattern) for j in ids):
             raise _matches_nothing(pattern, ids, "joint", f"{name}: exclude")
     names = sorted({n for part in parts for n in part if n})
-    for pattern in job.materials:
-        if not any(part_matches(n, pattern) for n in names):
-            raise _matches_nothing(pattern, names, "part", f"{name}: [materials]")
+    for table, patterns in (("materials", job.materials), ("tolerances", job.tolerances),
+                            ("positions", job.positions)):
+        for pattern in patterns:
+            if not any(part_matches(n, pattern) for n in names):
+                raise _matches_nothing(pattern, names, "part", f"{name}: [{table}]")
 
 
 # ----------------------------------------------------------------------------- settings

@@ -8,6 +8,7 @@ that pass are returned.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 from typing import Callable, Iterator
 
@@ -15,6 +16,8 @@ from geomjoint import catalog
 from geomjoint.errors import InputError
 from geomjoint.mechanics.bolt import required_length
 from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec, Remedy
+from geomjoint.mechanics.stackup import POSITION_CHECK, STACKUP_CHECK
+from geomjoint.resolve import refit_stackup
 
 #: the property-class ladders a remedy climbs (ISO 898-1; SAE J429)
 GRADE_LADDERS = (("4.6", "5.6", "8.8", "10.9", "12.9"), ("SAE 2", "SAE 5", "SAE 8"))
@@ -33,13 +36,19 @@ MAX_REMEDIES = 3
 #: how many larger sizes to try
 MAX_SIZE_STEPS = 3
 
+#: the rule label of a layer that takes an ISO 2768-1 general class (resolve.ThicknessRule.label)
+GENERAL_PREFIX = "ISO 2768-1 "
+
+#: a position tolerance a remedy offers is rounded down to 1/POSITION_STEPS mm (0.01 mm, as drawings give it)
+POSITION_STEPS = 100
+
 #: checks that a remedy cannot fix by changing the bolt (the stack-up itself is wrong)
 GEOMETRY_CHECKS = ("stack-up",)
 
 
 @dataclass(frozen=True)
 class Candidate:
-    kind: str        # "length" | "preload" | "grade" | "washer" | "size": one remedy of each kind at most
+    kind: str        # "length" | "class" | "position" | "preload" | "grade" | "washer" | "size": one of each kind at most
     change: str
     spec: JointSpec
 
@@ -92,9 +101,12 @@ def _length_candidates(spec: JointSpec, result: JointResult) -> Iterator[Candida
     failing = {c.name for c in result.checks if not c.ok}
     if "length" in failing and not f.fully_threaded:
         yield Candidate("length", "fully threaded screw of the same length", replace(spec, fastener=replace(f, fully_threaded=True)))
-    if not failing & {"length", "stripping"}:
+    if not failing & {"length", "stripping", STACKUP_CHECK}:
         return
-    if spec.tapped and f.length - spec.clamped_thickness > spec.layers[-1].thickness:
+    governing = result.stackup.governing() if result.stackup is not None else None
+    bottoming = governing is not None and governing.name in ("bottom_clearance", "thread_in_grip") \
+        and STACKUP_CHECK in failing and not failing & {"length", "stripping"}
+    if bottoming or (spec.tapped and f.length - spec.clamped_thickness > spec.layers[-1].thickness):
         # bottoming in the blind hole: the longest standard length that fits is the least change
         for length in sorted(catalog.standard_lengths(thread, f.head), reverse=True):
             if length < f.length and length - spec.clamped_thickness <= spec.layers[-1].thickness:
@@ -107,6 +119,37 @@ def _length_candidates(spec: JointSpec, result: JointResult) -> Iterator[Candida
                 break  # would bottom in the tapped hole
             yield Candidate("length", f"bolt length {f.length:g} -> {length:g} mm",
                             replace(spec, fastener=replace(f, length=length), engagement=None))
+
+
+def _tolerance_candidates(spec: JointSpec, result: JointResult) -> Iterator[Candidate]:
+    """A finer ISO 2768-1 class for the parts that take the general class, and, when the hole
+    pattern fails, the position tolerance the holes afford (both changes to the drawing)."""
+    st = spec.stackup
+    failing = {c.name for c in result.checks if not c.ok}
+    if st is None:
+        return
+    if STACKUP_CHECK in failing:
+        general = [i for i, rule in enumerate(st.thickness_rule) if rule.startswith(GENERAL_PREFIX)]
+        current = {st.thickness_rule[i][len(GENERAL_PREFIX):] for i in general}
+        if len(current) == 1:
+            now = current.pop()
+            for finer in catalog.GENERAL_CLASSES[:catalog.GENERAL_CLASSES.index(now)][::-1]:
+                thickness = list(st.thickness)
+                rules = list(st.thickness_rule)
+                for i in general:
+                    thickness[i] = catalog.general_tolerance(finer, spec.layers[i].thickness)
+                    rules[i] = GENERAL_PREFIX + finer
+                yield Candidate("class", f"thickness tolerance ISO 2768-1 {now} -> {finer} for "
+                                f"{', '.join(spec.layers[i].part or f'layer {i + 1}' for i in general)}",
+                                replace(spec, stackup=replace(st, thickness=tuple(thickness), thickness_rule=tuple(rules))))
+    position = result.stackup.position if result.stackup is not None else None
+    if POSITION_CHECK in failing and position is not None and position.affordable > 0:
+        # the zone the holes afford, rounded down to the 0.01 mm a drawing gives
+        afford = math.floor(position.affordable * POSITION_STEPS) / POSITION_STEPS
+        given = [p for p in st.positions if p is not None]
+        positions = tuple(None if p is None else min(p, afford) for p in st.positions)
+        yield Candidate("position", f"position tolerance {max(given):g} -> {afford:g} mm",
+                        replace(spec, stackup=replace(st, positions=positions)))
 
 
 def _washer_candidates(spec: JointSpec) -> Iterator[Candidate]:
@@ -177,7 +220,8 @@ def candidates(spec: JointSpec, result: JointResult, hole_limit: float | None = 
     A family that cannot be built for this joint (no standard length, no washer in the
     catalogue for the size) simply offers nothing: a remedy search never stops a run.
     """
-    families = (lambda: _length_candidates(spec, result), lambda: _preload_candidates(spec),
+    families = (lambda: _length_candidates(spec, result), lambda: _tolerance_candidates(spec, result),
+                lambda: _preload_candidates(spec),
                 lambda: _grade_candidates(spec), lambda: _washer_candidates(spec),
                 lambda: _size_candidates(spec, hole_limit))
     for family in families:
@@ -201,7 +245,7 @@ def find_remedies(spec: JointSpec, result: JointResult, evaluate: Callable[[Join
         if candidate.kind in kinds_found:
             continue  # the least change of each kind is the one worth suggesting
         try:
-            trial = evaluate(candidate.spec)
+            trial = evaluate(refit_stackup(spec, candidate.spec))
         except (InputError, ValueError):
             continue
         if trial.verdict in target:

@@ -45,6 +45,7 @@ from geomjoint.job import (  # the job file's value readers (one home for how a 
     _length,
     _number,
     _typed_layers,
+    entry_for_part,
     is_excluded,
     joint_load,
     load_rules_cover,
@@ -53,8 +54,10 @@ from geomjoint.job import (  # the job file's value readers (one home for how a 
     settings_for,
 )
 from geomjoint.mechanics.bolt import required_length
+from geomjoint.catalog.types import Deviation
 from geomjoint.mechanics.joint import (
     CRITERIA,
+    STACKUP_METHODS,
     STIFFNESS_METHODS,
     FastenerSpec,
     FatigueSpec,
@@ -63,8 +66,10 @@ from geomjoint.mechanics.joint import (
     LayerSpec,
     ROOM_TEMPERATURE,
     PreloadSpec,
+    StackupSpec,
     VdiSpec,
 )
+from geomjoint.mechanics.stackup import stackup, stackup_check
 from geomjoint.mechanics.vdi import ROUGHNESS_BANDS, ROUGHNESS_CLASSES, roughness_class
 from geomjoint.units import parse_percent, parse_quantity
 
@@ -381,6 +386,7 @@ def build_spec(
     geometry: dict[str, float] | None = None,
     notes: tuple[str, ...] = (),
     own_load: bool = False,
+    aliases: dict[str, tuple[str, ...]] | None = None,
 ) -> JointSpec:
     """Everything but the layers and load → JointSpec. Shared by typed-in and model joints.
 
@@ -413,7 +419,8 @@ def build_spec(
     loaded = own_load or load_rules_cover(job, joint_id) or any(v > 0 for v in load)
     if not loaded:
         notes.append(NO_SERVICE_LOAD_NOTE)
-    return JointSpec(
+    chosen = "length" not in s and geometry.get("length") is None
+    spec = JointSpec(
         id=joint_id, fastener=replace(fastener.spec, length=length), layers=tuple(layers),
         bearing_diameter=bearing, hole_diameter=hole, far_bearing_diameter=far, tapped=tapped,
         bearing_source=bearing_source, far_bearing_source=far_source, hole_source=hole_source,
@@ -423,7 +430,252 @@ def build_spec(
         preload=preload, load_min=lo, load_max=hi, shear=shear, fatigue=fatigue, vdi=vdi,
         engagement=engagement, nut_height=nut_height, gaps=geometry.get("gaps", 0.0),
         required=_required(s, where), notes=tuple(notes), loaded=loaded, require_load=job.require_loads,
+        stackup=stackup_spec(job, s, layers, fastener, length, nut_height, geometry, aliases or {}, where),
     )
+    return length_for_limits(spec) if chosen and length is not None else spec
+
+
+# ----------------------------------------------------------------------------- tolerances
+
+#: the default general tolerance class of part thicknesses (issue 14 contract: ISO 2768-1 m)
+DEFAULT_THICKNESS_TOLERANCE = "m"
+#: signs that open a symmetric tolerance ("±0.2 mm", "+/-0.2 mm", "+-0.2 mm")
+PLUS_MINUS = ("±", "+/-", "+-")
+#: the word that asks for a projected tolerance zone in a position tolerance ("0.2 mm projected")
+PROJECTED = "projected"
+#: a modelled washer or nut within this of its standard's limits is taken as that standard's, mm
+HARDWARE_MATCH_TOL = 0.05
+#: how many standard lengths past the nominal choice the sizing tries for one that passes at the limits
+LIMIT_SIZING_STEPS = 6
+
+
+@dataclass(frozen=True)
+class ThicknessRule:
+    """A thickness tolerance as the job writes it: an ISO 2768-1 class, a plate class, or deviations."""
+
+    kind: str                        # "class" | "plate" | "value"
+    label: str                       # "ISO 2768-1 m", "EN 10029 A", "+0.2/-0.1 mm"
+    tolerance_class: str = ""        # the ISO 2768-1 letter, or the plate class letter
+    lower: float = 0.0
+    upper: float = 0.0
+
+
+def _unit_of(text: str) -> str:
+    """The unit word at the end of ``text`` ("mm" of "-0.1 mm"), "" when it has none."""
+    tail = text.rstrip()
+    i = len(tail)
+    while i > 0 and (tail[i - 1].isalpha() or tail[i - 1] in "µ\""):
+        i -= 1
+    return tail[i:]
+
+
+def thickness_rule(value: Any, where: str) -> ThicknessRule:
+    """``thickness_tolerance`` / a [tolerances] value → :class:`ThicknessRule`.
+
+    An ISO 2768-1 class letter ("f", "m", "c", "v"), a plate standard and class ("EN 10029 A",
+    "EN 10029 class B"), a symmetric value ("±0.2 mm", "+/-0.2 mm") or two deviations
+    ("+0.2/-0.1 mm"; the unit may follow each).
+    """
+    if not isinstance(value, str) or not value.strip():
+        raise InputError(f"expected an ISO 2768-1 class (f, m, c, v), a plate class such as \"EN 10029 A\", "
+                         f"or a tolerance such as \"±0.2 mm\" or \"+0.2/-0.1 mm\", got {value!r}", where=where)
+    text = value.strip()
+    if text.lower() in catalog.GENERAL_CLASSES:
+        return ThicknessRule("class", f"ISO 2768-1 {text.lower()}", text.lower())
+    words = text.replace("class", " ").split()
+    for standard, plate_class in catalog.PLATE_CLASSES:
+        if " ".join(words[:-1]).upper() == standard.upper() and words[-1].upper() == plate_class:
+            return ThicknessRule("plate", f"{standard} {plate_class}", plate_class)
+    for pm in PLUS_MINUS:
+        if text.startswith(pm):
+            half = parse_quantity(text[len(pm):].strip(), "length", where=where)
+            if half < 0:
+                raise InputError(f"a ± tolerance is a magnitude, got {value!r}", where=where)
+            return ThicknessRule("value", f"±{half:g} mm", lower=-half, upper=half)
+    if "/" in text:
+        first, second = (part.strip() for part in text.split("/", 1))
+        unit = _unit_of(second)
+        if not _unit_of(first) and unit:
+            first = f"{first} {unit}"
+        a = parse_quantity(first, "length", where=where)
+        b = parse_quantity(second, "length", where=where)
+        lower, upper = min(a, b), max(a, b)
+        return ThicknessRule("value", f"{upper:+g}/{lower:+g} mm", lower=lower, upper=upper)
+    choices = ", ".join(catalog.GENERAL_CLASSES)
+    raise InputError(f"{value!r} is not an ISO 2768-1 class ({choices}), a plate class "
+                     f"({', '.join(f'{s} {c}' for s, c in catalog.PLATE_CLASSES)}) nor a tolerance such as "
+                     f"\"±0.2 mm\" or \"+0.2/-0.1 mm\"{did_you_mean(text, catalog.GENERAL_CLASSES)}", where=where)
+
+
+def thickness_deviation(rule: ThicknessRule, thickness: float, where: str) -> Deviation:
+    """The deviation a rule gives a layer of ``thickness`` mm (a table lookup for the classes)."""
+    try:
+        if rule.kind == "class":
+            return catalog.general_tolerance(rule.tolerance_class, thickness)
+        if rule.kind == "plate":
+            standard = rule.label.rsplit(" ", 1)[0]
+            return catalog.plate_tolerance(standard, rule.tolerance_class, thickness)
+    except InputError as exc:
+        raise InputError(str(exc), where=where) from None
+    return Deviation(rule.lower, rule.upper, f"job: {rule.label}")
+
+
+def position_value(value: Any, where: str) -> tuple[float, bool]:
+    """``position_tolerance`` / a [positions] value → (diameter of the zone mm, projected zone asked)."""
+    if not isinstance(value, str):
+        raise InputError(f"expected the diameter of the position tolerance zone, e.g. \"0.2 mm\" "
+                         f"(\"0.2 mm {PROJECTED}\" for a projected zone), got {value!r}", where=where)
+    text = value.strip()
+    projected = text.lower().endswith(PROJECTED)
+    if projected:
+        text = text[: -len(PROJECTED)].strip()
+    diameter = parse_quantity(text, "length", where=where)
+    if diameter < 0:
+        raise InputError(f"a position tolerance is the diameter of its zone and must not be negative, got {value!r}",
+                         where=where)
+    return diameter, projected
+
+
+def check_tolerance_tables(job: Job) -> None:
+    """Every value of [tolerances] and [positions] reads (bad input stops the run before any work)."""
+    for pattern, value in job.tolerances.items():
+        thickness_rule(value, f"{job.path.name}: [tolerances] ({pattern!r})")
+    for pattern, value in job.positions.items():
+        position_value(value, f"{job.path.name}: [positions] ({pattern!r})")
+
+
+def _layer_tolerance(job: Job, s: dict[str, Any], layer: LayerSpec, thread, aliases: tuple[str, ...],
+                     where: str) -> tuple[Deviation, str]:
+    """(deviation, rule label) of one layer: the job's [tolerances] glob for its part, else a
+    washer's standard (ISO 7089 / ASME B18.21.1) where its thickness is the standard's, else
+    the joint's ``thickness_tolerance`` (ISO 2768-1 m unless set)."""
+    entry = entry_for_part(job.tolerances, layer.part, aliases)
+    if entry is not None:
+        rule = thickness_rule(entry[1], f"{job.path.name}: [tolerances] ({entry[0]!r})")
+        return thickness_deviation(rule, layer.thickness, f"{job.path.name}: [tolerances] ({entry[0]!r})"), rule.label
+    if layer.role == "washer":
+        limits = catalog.washer_thickness_limits(thread)
+        if limits is not None and limits[1] - HARDWARE_MATCH_TOL <= layer.thickness <= limits[2] + HARDWARE_MATCH_TOL:
+            _, h_min, h_max, source = limits
+            return Deviation(h_min - layer.thickness, h_max - layer.thickness, source), "washer standard"
+    key = f"{where}.thickness_tolerance"
+    rule = thickness_rule(s.get("thickness_tolerance", DEFAULT_THICKNESS_TOLERANCE), key)
+    return thickness_deviation(rule, layer.thickness, key), rule.label
+
+
+def _nut_tolerance(thread, nut_height: float | None) -> Deviation | None:
+    """The nut height's deviation: the standard's m_min..m_max where the nut is the standard's."""
+    if nut_height is None:
+        return None
+    limits = catalog.nut_height_limits(thread)
+    if limits is None or not limits[0] - HARDWARE_MATCH_TOL <= nut_height <= limits[1] + HARDWARE_MATCH_TOL:
+        return Deviation(0.0, 0.0, "no height limits for this nut in the catalogue: taken at nominal")
+    m_min, m_max, source = limits
+    return Deviation(m_min - nut_height, m_max - nut_height, source)
+
+
+def length_tolerance(thread, length: float, head: str) -> Deviation:
+    """The bolt length's deviation by its standard (ISO 4759-1 / ASME B18.2.1), else none (nominal)."""
+    found = catalog.bolt_length_tolerance(thread, length, head)
+    return found or Deviation(0.0, 0.0, "no length tolerance for this size in the catalogue: taken at nominal")
+
+
+def stackup_spec(job: Job, s: dict[str, Any], layers: list[LayerSpec], fastener: ResolvedFastener,
+                 length: float | None, nut_height: float | None, geometry: dict[str, Any],
+                 aliases: dict[str, tuple[str, ...]], where: str) -> StackupSpec:
+    """The stack's tolerances: every layer's thickness, the bolt length, the nut height, the
+    holes' position tolerances ([positions] glob, else ``position_tolerance``, else none)."""
+    thread = fastener.thread
+    thickness, rules = [], []
+    for layer in layers:
+        dev, label = _layer_tolerance(job, s, layer, thread, aliases.get(layer.part or "", ()), where)
+        thickness.append(dev)
+        rules.append(label)
+    method = _choice(s.get("stackup_method", STACKUP_METHODS[0]), STACKUP_METHODS, f"{where}.stackup_method")
+    default_position = (position_value(s["position_tolerance"], f"{where}.position_tolerance")
+                        if "position_tolerance" in s else None)
+    positions, projected = [], False
+    for layer in layers:
+        entry = entry_for_part(job.positions, layer.part, aliases.get(layer.part or "", ()))
+        value = position_value(entry[1], f"{job.path.name}: [positions] ({entry[0]!r})") if entry else default_position
+        if layer.role == "washer" or value is None:
+            positions.append(None)   # a washer floats on the bolt: no hole pattern of its own
+            continue
+        positions.append(value[0])
+        projected = projected or value[1]
+    return StackupSpec(
+        thickness=tuple(thickness), thickness_rule=tuple(rules),
+        length=length_tolerance(thread, length, fastener.spec.head) if length else Deviation(0.0, 0.0, "no length"),
+        nut_height=_nut_tolerance(thread, nut_height), method=method, positions=tuple(positions),
+        projected=projected, holes=tuple(geometry.get("layer_holes", ())),
+        offsets=tuple(geometry.get("layer_offsets", ())))
+
+
+def with_length(spec: JointSpec, length: float) -> JointSpec:
+    """The spec with another bolt length (and that length's tolerance)."""
+    thread = catalog.thread(spec.fastener.designation)
+    st = spec.stackup
+    if st is not None:
+        st = replace(st, length=length_tolerance(thread, length, spec.fastener.head))
+    return replace(spec, fastener=replace(spec.fastener, length=length), stackup=st, engagement=None)
+
+
+def refit_stackup(old: JointSpec, new: JointSpec) -> JointSpec:
+    """``new`` (a remedy's change of ``old``: a washer added, another size or length) with its
+    stack's tolerances brought along: a layer kept keeps its tolerance, an added washer takes its
+    standard's (else none), the bolt length and the nut height take their standards' again.
+    ``new.stackup`` is ``old``'s as the remedy changed it (still one entry per layer of ``old``)."""
+    st = new.stackup
+    if st is None:
+        return new
+    thread = catalog.thread(new.fastener.designation)
+    kept = {id(layer): i for i, layer in enumerate(old.layers)}
+    thickness, rules, positions = [], [], []
+    for layer in new.layers:
+        i = kept.get(id(layer))
+        if i is not None:
+            thickness.append(st.thickness[i])
+            rules.append(st.thickness_rule[i])
+            positions.append(st.positions[i] if st.positions else None)
+            continue
+        limits = catalog.washer_thickness_limits(thread) if layer.role == "washer" else None
+        if limits is not None:
+            thickness.append(Deviation(limits[1] - layer.thickness, limits[2] - layer.thickness, limits[3]))
+        else:
+            thickness.append(Deviation(0.0, 0.0, "added by a remedy: taken at nominal"))
+        rules.append("washer standard")
+        positions.append(None)
+    same = len(new.layers) == len(old.layers)
+    refit = replace(st, thickness=tuple(thickness), thickness_rule=tuple(rules), positions=tuple(positions),
+                    length=length_tolerance(thread, new.fastener.length, new.fastener.head) if new.fastener.length
+                    else st.length, nut_height=_nut_tolerance(thread, new.nut_height),
+                    holes=st.holes if same else (), offsets=st.offsets if same else ())
+    return replace(new, stackup=refit)
+
+
+def passes_at_limits(spec: JointSpec) -> bool:
+    """The stack-up check passes (the length sizing's test; no preload range needed)."""
+    result = stackup(spec, with_preload=False)
+    return result is None or stackup_check(result).ok
+
+
+def length_for_limits(spec: JointSpec) -> JointSpec:
+    """A chosen bolt length that passes at nominal but not at the tolerance limits is stepped up
+    (a tapped joint: only while it does not bottom at nominal) to the first standard length that
+    passes at the limits; the spec as it is when none of the next few does."""
+    if passes_at_limits(spec):
+        return spec
+    f = spec.fastener
+    thread = catalog.thread(f.designation)
+    for length in [x for x in catalog.standard_lengths(thread, f.head) if x > f.length][:LIMIT_SIZING_STEPS]:
+        if spec.tapped and length - spec.clamped_thickness - spec.gaps > spec.layers[-1].thickness:
+            break
+        trial = with_length(spec, length)
+        if passes_at_limits(trial):
+            notes = tuple(n for n in spec.notes if not n.startswith("bolt length "))
+            return replace(trial, notes=notes + (f"bolt length {length:g} mm chosen: shortest standard length that "
+                                                 f"passes at the tolerance limits ({f.length:g} mm passes at nominal only)",))
+    return spec
 
 
 # ----------------------------------------------------------------------------- typed-in joints
@@ -581,6 +833,9 @@ def _model_geometry(joint) -> dict[str, float]:
         "length": joint.bolt_length,
         "nut_height": joint.nut_height,
         "gaps": sum(g.size for g in joint.gaps),
+        # each layer's own hole and the offset of its axis (the position check's clearance)
+        "layer_holes": tuple(layer.hole_diameter for layer in joint.layers),
+        "layer_offsets": tuple(layer.offset for layer in joint.layers),
     }
     return {k: v for k, v in geometry.items() if v is not None}
 
@@ -613,7 +868,7 @@ def model_joint(job: Job, joint, group_loads: dict[str, tuple[float, float, floa
     notes = tuple(f["message"] for f in findings if f["code"] == "no-hardware")
     spec = build_spec(job, joint.id, settings, _model_layers(job, joint, aliases), tapped=joint.tapped,
                       load=_model_load(job, joint.id, group_loads, where), where=where,
-                      geometry=_model_geometry(joint), notes=notes)
+                      geometry=_model_geometry(joint), notes=notes, aliases=aliases)
     if joint.tapped:
         spec = replace(spec, thread_method=getattr(joint, "thread_method", None) or "tapped",
                        insert=insert_spec(job, joint, aliases))

@@ -30,6 +30,7 @@ from geomjoint.geometry.markup import (
     unique_node_name,
     write_marked_step,
 )
+from geomjoint.mechanics.stackup import STACKUP_CHECK
 from geomjoint.outputs import safe_name
 from geomjoint.report.palette import CONE_ALPHA, PART_COLOUR, hex_to_rgb, verdict_rgb
 
@@ -55,10 +56,24 @@ def governing_factor(result) -> float | None:
     return _finite(result.factors.get(result.governing))
 
 
+def fails_only_at_limit(result) -> bool:
+    """The joint passes every check at nominal and fails only at a tolerance limit of its stack."""
+    failing = [c.name for c in result.checks if not c.ok]
+    return (bool(failing) and set(failing) == {STACKUP_CHECK} and result.stackup is not None
+            and result.stackup.fails_at_limit_only)
+
+
 def joint_node_name(result) -> str:
-    """``J07 M10x40 10.9 marginal fatigue 1.12``: id, size x length, grade, verdict, governing, factor."""
+    """``J07 M10x40 10.9 marginal fatigue 1.12``: id, size x length, grade, verdict, governing, factor.
+
+    A joint that fails only at a tolerance limit says so: ``J01 M10x45 8.8 fail at limit protrusion -0.40``
+    (the quantity and its margin at the limit, mm)."""
     f = result.spec.fastener
     size = f.designation + (f"x{f.length:g}" if f.length else "")
+    if fails_only_at_limit(result):
+        words = [result.id, size, f.grade, result.verdict, "at limit", result.stackup.governing().name,
+                 f"{result.stackup.least_margin:.2f}"]
+        return safe_name(" ".join(words))
     words = [result.id, size, f.grade, result.verdict, result.governing]
     factor = governing_factor(result)
     if factor is not None:

@@ -108,6 +108,10 @@ def conveyor_bracket() -> cq.Assembly:
     deliberate faults: the pad at +y stands 0.5 mm off the adapter plate (gap, grip
     34.5 mm), one adapter-plate hole is 1.2 mm off (clearance 11 - 10 = 1 mm in total:
     misaligned), and bolt 3 is M10x35 and ends inside its nut (short).
+    At the tolerance limits (ISO 4759-1 45 +/-0.5, ISO 2768-1 m plates, ISO 7089 washers
+    1.8..2.2, ISO 4032 nut 8.04..8.4) the 2.6 mm past the nut of the sound joints becomes
+    1.1 mm in the worst case, under one pitch: they pass at nominal and fail at a limit
+    (the job samples/conveyor_drive.toml shows it on J01, and judges J03 statistically).
     """
     pts = [(-40, -25), (40, -25), (40, 25), (-40, 25)]
     a = cq.Assembly(name="conveyor_bracket")

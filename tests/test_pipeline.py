@@ -50,17 +50,42 @@ def by_id(results):
 
 def test_sample_model_verdicts(tmp_path, scan):
     # the sample model is built with known faults (samples/make_samples.py): J02 has an offset hole,
-    # J04 a bolt too short for its nut; J01 and J03 are sound
+    # J04 a bolt too short for its nut; J01 and J03 are sound at nominal, but fail at the
+    # worst-case tolerance limits (below); judged statistically they pass
     analysis = analyze_job(load_job(write_job(tmp_path)), scan=scan)
     r = by_id(analysis.results)
     assert set(r) == {"J01", "J02", "J03", "J04"}
-    assert r["J01"].verdict != "fail" and r["J03"].verdict != "fail"
+    for jid in ("J01", "J03"):
+        assert [c.name for c in r[jid].checks if not c.ok] == ["stack-up limits"]
+        assert r[jid].stackup.fails_at_limit_only
+    statistical = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nstackup_method = "statistical"')
+    r_stat = by_id(analyze_job(load_job(write_job(tmp_path, statistical, "stat.toml")), scan=scan).results)
+    assert r_stat["J01"].verdict != "fail" and r_stat["J03"].verdict != "fail"
     assert not next(c for c in r["J02"].checks if c.name == "stack-up").ok
     assert any(f["code"] == "misaligned" for f in r["J02"].findings)
     assert not next(c for c in r["J04"].checks if c.name == "length").ok
     # the remedy for the short bolt is a standard length that passes the re-check
     remedies = r["J04"].remedies
     assert any(m.change.startswith("bolt length 35 ->") and m.verdict in ("pass", "marginal") for m in remedies)
+
+
+def test_sample_joint_fails_at_a_tolerance_limit(tmp_path, scan):
+    """J01: M10x45 over washer 2 + foot 8 + adapter 10 + flange 12 + washer 2 and an 8.4 mm nut leaves
+    2.6 mm past the nut at nominal (one pitch, 1.5 mm, needed).  At the limits (ISO 4759-1 grade A:
+    45 +/-0.5; ISO 2768-1 m: 8 and 10 +/-0.2, 12 +/-0.2; ISO 7089 M10 washers 1.8..2.2; ISO 4032 M10
+    nut 8.04..8.4) the shortest bolt in the thickest stack leaves 44.5 - 35.0 - 8.4 = 1.1 mm: 0.4 short."""
+    r = by_id(analyze_job(load_job(write_job(tmp_path)), scan=scan).results)["J01"]
+    su = r.stackup
+    assert su.protrusion.nominal == pytest.approx(2.6, abs=1e-6)
+    assert su.protrusion.worst_min == pytest.approx(1.1, abs=1e-6)
+    check = next(c for c in r.checks if c.name == "stack-up limits")
+    assert not check.ok and "0.40 mm short" in check.note and "protrusion past the nut" in check.note
+    # the least standard change that passes at the limits: the next length
+    assert r.remedies[0].change == "bolt length 45 -> 50 mm" and r.remedies[0].verdict in ("pass", "marginal")
+    # the marked-up model's name says it fails only at a limit
+    from geomjoint.scene import joint_node_name
+
+    assert joint_node_name(r) == "J01 M10x45 8.8 fail at limit protrusion -0.40"
 
 
 def test_typed_joint_equals_model_joint(tmp_path, scan):

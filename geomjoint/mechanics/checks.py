@@ -39,6 +39,11 @@ DEFAULT_NUT_FACTOR = 0.2
 #: joint "marginal" (our own rule)
 DESIGN_UTILISATION_CHECKS = ("working_stress", "assembly_preload")
 
+#: checks of the stack's geometry at its tolerance limits (mechanics.stackup): a margin in mm,
+#: already taken at the worst corner, so they pass or fail but never make a joint "marginal",
+#: and govern only when they fail (our own rule)
+GEOMETRY_LIMIT_CHECKS = ("stack-up limits", "position")
+
 #: the checks whose values are factors against a required value
 FACTOR_CHECKS = ("yield", "load", "separation", "fatigue")
 
@@ -289,12 +294,14 @@ def rate(checks: list[Check]) -> tuple[str, str]:
     A failed check without a value (length) governs before any ratio.
     """
     def key(c: Check) -> float:
+        if c.name in GEOMETRY_LIMIT_CHECKS and c.ok:
+            return math.inf
         if c.value is None or not c.required:
             return -math.inf if not c.ok else math.inf
         return c.value / c.required
 
     governing = min(checks, key=key)
-    banded = [c for c in checks if c.name not in DESIGN_UTILISATION_CHECKS]
+    banded = [c for c in checks if c.name not in DESIGN_UTILISATION_CHECKS + GEOMETRY_LIMIT_CHECKS]
     smallest = min((key(c) for c in banded), default=math.inf)
     if any(not c.ok for c in checks):
         verdict = "fail"

@@ -11,7 +11,10 @@ from __future__ import annotations
 from dataclasses import dataclass, field, fields
 from typing import TYPE_CHECKING
 
-if TYPE_CHECKING:  # only for the annotation: vdi.py imports this module
+from geomjoint.catalog.types import Deviation
+
+if TYPE_CHECKING:  # only for the annotation: vdi.py and stackup.py import this module
+    from geomjoint.mechanics.stackup import StackupResult
     from geomjoint.mechanics.vdi import VdiResult
 
 #: Young's modulus of bolt steel, MPa (Shigley, 10th ed., Table 8-8: 207 GPa)
@@ -125,6 +128,32 @@ class VdiSpec:
     temperature_service: float = ROOM_TEMPERATURE   # degC
 
 
+#: how the stack-up limits decide a joint (job key ``stackup_method``)
+STACKUP_METHODS = ("worst-case", "statistical")
+
+
+@dataclass(frozen=True)
+class StackupSpec:
+    """The tolerances of a joint's stack, resolved to numbers (mm), for mechanics.stackup.
+
+    ``thickness`` and ``thickness_rule`` run over ``JointSpec.layers`` (a tapped layer's is the
+    depth of its tapped hole); ``positions`` gives each layer's hole position tolerance (the
+    diameter of its zone, None: not toleranced); ``holes`` and ``offsets`` the diameter of each
+    layer's hole and its axis offset from the joint axis where the model measured them (empty:
+    the joint's one hole diameter, no offset).
+    """
+
+    thickness: tuple[Deviation, ...]
+    thickness_rule: tuple[str, ...]         # per layer: "ISO 2768-1 m", "job", "EN 10029 A", "ISO 7089" ...
+    length: Deviation                       # of the bolt length
+    nut_height: Deviation | None = None     # of the nut height (through joints)
+    method: str = "worst-case"              # which limits decide: STACKUP_METHODS
+    positions: tuple[float | None, ...] = ()
+    projected: bool = False                 # the fixed fastener's tolerance zone is projected
+    holes: tuple[float, ...] = ()
+    offsets: tuple[float, ...] = ()
+
+
 @dataclass(frozen=True)
 class JointSpec:
     """One bolted joint as pure numbers."""
@@ -162,6 +191,7 @@ class JointSpec:
     require_load: bool = False       # the job's require_loads: an unloaded joint fails
     thread_method: str = "tapped"    # a tapped joint's internal thread: "tapped" | "insert" | "thread-forming"
     insert: InsertSpec | None = None  # the insert that is the tapped layer, and its host
+    stackup: StackupSpec | None = None  # the stack's tolerances (None: the stack-up is not checked)
 
     @property
     def grip(self) -> float:
@@ -341,6 +371,7 @@ class JointResult:
     remedies: list[Remedy] = field(default_factory=list)
     stiffness_split: StiffnessSplit | None = None  # tapped joints: the member/bolt definition used
     fit_bias: FitBias | None = None  # a method of this joint's stiffness known to read high (reports name it)
+    stackup: StackupResult | None = None  # the stack at its tolerance limits (mechanics.stackup)
 
     @property
     def criterion(self) -> str:

@@ -537,6 +537,54 @@ _FIGURES = (
 )
 
 
+#: a share out of limits below this percentage is shown as "< 0.0001" (one in a million joints)
+SHARE_SHOWN = 1e-4
+
+#: the stack-up table's rows: quantity of mechanics.stackup.StackupResult -> what the row says
+_STACKUP_ROWS = (("grip", "grip"), ("clamp_length", "clamp length"), ("protrusion", "protrusion past the nut"),
+                 ("engagement", "thread engagement"), ("bottom_clearance", "clearance to the hole bottom"),
+                 ("thread_in_grip", "thread in the grip (grip - shank)"))
+
+
+def _stackup(i: int, r: JointResult, u: ReportUnits) -> str:
+    """The stack at its tolerance limits: the chart, the bands (nominal, worst case, RSS), the
+    preload range and the hole pattern's position tolerance."""
+    su = r.stackup
+    if su is None:
+        return ""
+    L = u.len
+    bands = [(label, getattr(su, key)) for key, label in _STACKUP_ROWS if getattr(su, key) is not None]
+    bands += [(f"shank past the shear plane {a} / {b}", p.band) for p in su.shear_planes for a, b in [p.between]]
+    rows = []
+    for label, b in bands:
+        cells = "".join(f'<td class="num">{_e(_fmt(L(v)))}</td>' for v in
+                        (b.nominal, b.worst_min, b.worst_max, b.stat_min, b.stat_max))
+        need = "–" if b.required is None else _fmt(L(b.required))
+        share = ("–" if b.share_out is None else f"< {SHARE_SHOWN:g}" if 100 * b.share_out < SHARE_SHOWN
+                 else f"{100 * b.share_out:.3g}")
+        rows.append(f'<tr><th scope="row">{_e(label)}</th>{cells}<td class="num">{_e(need)}</td>'
+                    f'<td class="num">{_e(share)}</td></tr>')
+    table = ('<table class="stackup"><thead><tr><th>quantity</th><th>nominal</th><th>worst min</th>'
+             '<th>worst max</th><th>RSS min</th><th>RSS max</th><th>least allowed</th><th>% below</th></tr>'
+             f'</thead><tbody>{"".join(rows)}</tbody></table>')
+    extra = []
+    if su.preload is not None:
+        p = su.preload
+        extra.append(f"preload after embedding (f_Z = {L(p.f_Z):.3g} {u.length}): {_fmt(u.f(p.low))} to "
+                     f"{_fmt(u.f(p.high))} {u.force} over the clamp length's limits (nominal {_fmt(u.f(p.preload[0]))})")
+    if su.position is not None:
+        p = su.position
+        extra.append(f"position ({p.case} fastener{', projected zone' if p.projected else ''}): the holes afford "
+                     f"{_fmt(L(p.affordable))} {u.length}" + ("" if p.needed is None else
+                                                            f", the job's tolerances take {_fmt(L(p.needed))}"))
+    svg = plots.stackup_svg(r, u.system, prefix=f"j{i}t-")
+    figure = (f'<figure>{_labelled(svg, f"stack-up chart of {r.id}")}<figcaption>Each element of the stack at its '
+              f'place with its own tolerance band; their sum with its worst-case and RSS bands against the bolt; '
+              f'lengths in {_e(u.length)}. Decided by the {_e(su.method)} limits.</figcaption></figure>') if svg else ""
+    notes = "".join(f"<p class=\"src\">{_e(x)}</p>" for x in extra)
+    return f'<h3>Stack-up at the tolerance limits</h3><div class="figs">{figure}</div>{table}{notes}'
+
+
 def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
     svgs = (plots.section_svg(r, u.system, prefix=f"j{i}s-"), plots.joint_diagram_svg(r, u.system, prefix=f"j{i}d-"),
             plots.fatigue_diagram_svg(r, u.system, prefix=f"j{i}f-"))
@@ -546,7 +594,7 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
             f'<summary><h2>{_e(r.id)} — {_e(_size_shown(r, u))} {_badge(r.verdict)}</h2></summary>'
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
             f'<div class="figs">{fig_html}</div>'
-            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}"
+            f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_stackup(i, r, u)}"
             f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</details></section>")
 
 

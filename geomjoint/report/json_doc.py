@@ -106,6 +106,41 @@ def joint_document(r: JointResult) -> dict[str, Any]:
         doc["vdi"] = vdi_numbers(r.vdi)
     if r.remedies:
         doc["remedies"] = [asdict(m) for m in r.remedies]
+    if r.stackup is not None:
+        doc["stackup"] = stackup_document(r.stackup)
+    return doc
+
+
+def _band(b) -> dict[str, Any]:
+    """One quantity of the stack (mechanics.stackup.Band), mm: the contract's five limits, and
+    its requirement and share out of limits where it is judged."""
+    doc = {"nominal": b.nominal, "worst_min": b.worst_min, "worst_max": b.worst_max,
+           "stat_min": b.stat_min, "stat_max": b.stat_max}
+    if b.required is not None:
+        doc["required"] = b.required
+        doc["share_out"] = _num(b.share_out)
+    return {k: _plain(v) for k, v in doc.items()}
+
+
+def stackup_document(su) -> dict[str, Any]:
+    """The stack at its tolerance limits (mechanics.stackup.StackupResult), mm and N."""
+    doc: dict[str, Any] = {"method": su.method, "grip": _band(su.grip), "clamp_length": _band(su.clamp_length)}
+    for name in ("protrusion", "engagement", "bottom_clearance", "thread_in_grip"):
+        if getattr(su, name) is not None:
+            doc[name] = _band(getattr(su, name))
+    doc["shear_planes"] = [{"between": list(p.between), **_band(p.band)} for p in su.shear_planes]
+    governing = su.governing()
+    doc["governing"] = governing.name if governing is not None else None
+    doc["least_margin"] = _num(su.least_margin)
+    doc["fails_at_limit_only"] = su.fails_at_limit_only
+    if su.preload is not None:
+        keys = ("nominal", "thinnest_clamp", "thickest_clamp")
+        doc["preload"] = {"f_Z": su.preload.f_Z, "embedding_loss": dict(zip(keys, su.preload.loss)),
+                          "preload": dict(zip(keys, su.preload.preload))}
+    if su.position is not None:
+        doc["position"] = _plain(asdict(su.position))
+    doc["elements"] = [{"name": e.name, "nominal": e.nominal, "lower": e.lower, "upper": e.upper,
+                        "sign": e.sign, "source": e.source} for e in su.elements]
     return doc
 
 

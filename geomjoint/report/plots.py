@@ -326,14 +326,14 @@ class Drawing:
             self.labels.setdefault(style, []).append(element)
 
     # -- frame, ticks, labels, legend -------------------------------------------------------
-    def axes(self, xlabel: str, ylabel: str, title: str) -> None:
+    def axes(self, xlabel: str, ylabel: str, title: str, yticks: bool = True) -> None:
         x0, y0, x1, y1 = self.px0, self.py0, self.px0 + self.pw, self.py0 + self.ph
         ticks = []
         for t in nice_ticks(*self.xlim):
             px = self.X(t)
             ticks.append(f"M{_num(px)},{_num(y1)}v4")
             self.text_px(px, y1 + 6 + FONT_TICK, _tick_label(t), anchor="middle", size=FONT_TICK)
-        for t in nice_ticks(*self.ylim):
+        for t in nice_ticks(*self.ylim) if yticks else ():
             py = self.Y(t)
             ticks.append(f"M{_num(x0)},{_num(py)}h-4")
             self.text_px(x0 - 6, py, _tick_label(t), anchor="end", middle=True, size=FONT_TICK)
@@ -725,4 +725,86 @@ def overview_svg(overview, verdicts: dict[str, str], prefix: str = "ov-") -> str
                            f'stroke="#000" stroke-width="0.6"/>')
         dr.note(x, y, f"{jid} {verdict.upper()}", dx=7, dy=5, size=9)
     dr.axes("mm", "mm", "model seen along the bolt axes")
+    return dr.svg()
+
+
+# ----------------------------------------------------------------------------- the stack-up chart
+
+#: fills of the stack-up chart: an element's nominal, its tolerance band, the sum's worst-case and RSS bands
+STACK_FILL = _OTHER_FILL
+STACK_BAND = WINDOW_COLOUR
+STACK_WORST = MEMBER_COLOUR
+STACK_RSS = BOLT_COLOUR
+#: height of a bar in the chart, in rows (a row is one unit of the y axis)
+STACK_BAR = 0.5
+#: room the legend of the stack-up chart takes above the bolt, px (three entries of 13 px and a margin)
+STACK_LEGEND_PX = 52
+
+
+def stackup_svg(result: JointResult, units: str = "SI", prefix: str = "") -> str:
+    """The stack at its tolerance limits: along the bolt axis from the head's bearing face, the bolt
+    (its length and band) on top, then every element of the stack at its place with its own
+    tolerance band at its end, and at the bottom their sum with its worst-case and RSS bands, and
+    the limit the governing quantity needs.  Empty when the joint has no stack-up."""
+    su = result.stackup
+    if su is None or not su.elements:
+        return ""
+    u = report_units(units)
+    L = u.len
+    bolt, stack = su.elements[0], su.elements[1:]
+    rows = len(stack) + 2
+    worst = (sum(d.nominal + d.lower for d in stack), sum(d.nominal + d.upper for d in stack))
+    half = math.sqrt(sum((0.5 * (d.upper - d.lower)) ** 2 for d in stack))
+    mean = sum(d.middle for d in stack)
+    right = max(bolt.nominal + bolt.upper, worst[1]) * 1.12
+    margins = (14, 14, 30, 44)
+    plot_height = HEIGHT - margins[2] - margins[3]
+    headroom = STACK_LEGEND_PX * (rows + 0.5) / (plot_height - STACK_LEGEND_PX)   # rows kept free for the legend
+    dr = Drawing((0.0, L(right)), (0.0, rows + 0.5 + headroom), prefix=prefix, margins=margins)
+
+    def bar(y: float, x0: float, x1: float, fill: str, opacity: float = 1.0, height: float = STACK_BAR) -> None:
+        dr.rect(L(x0), y - height / 2, L(x1), y + height / 2, fill=fill, stroke=None if opacity < 1 else "#000",
+                opacity=opacity)
+
+    y = rows
+    bar(y, 0.0, bolt.nominal, _HARDWARE_FILL)
+    bar(y, bolt.nominal + bolt.lower, bolt.nominal + bolt.upper, STACK_BAND, 0.8, STACK_BAR * 1.4)
+    dr.note(0.0, y + STACK_BAR / 2, f"{bolt.name}  {bolt.lower:+.2f}/{bolt.upper:+.2f}", dx=2, dy=2, size=9)
+    z = 0.0
+    for d in stack:
+        y -= 1
+        bar(y, z, z + d.nominal, _WASHER_FILL if "washer" in d.name or d.name == "nut" else STACK_FILL)
+        if d.upper > d.lower:
+            bar(y, z + d.nominal + d.lower, z + d.nominal + d.upper, STACK_BAND, 0.8, STACK_BAR * 1.4)
+        dr.note(L(z), y + STACK_BAR / 2, f"{d.name}  {d.lower:+.2f}/{d.upper:+.2f}", dx=2, dy=2, size=9)
+        z += d.nominal
+    y -= 1
+    bar(y, 0.0, z, STACK_FILL)
+    bar(y, worst[0], worst[1], STACK_WORST, 0.45, STACK_BAR * 1.6)
+    bar(y, mean - half, mean + half, STACK_RSS, 0.6, STACK_BAR * 1.2)
+    dr.note(0.0, y + STACK_BAR / 2, "sum of the stack", dx=2, dy=3, size=9)
+    g = su.governing()
+    ends = []
+    if su.protrusion is not None and su.protrusion.required is not None:
+        # the bolt must reach past the stack's worst end by the required protrusion
+        ends.append((worst[1] + su.protrusion.required, "needed reach"))
+    if su.engagement is not None and su.engagement.required is not None:
+        clamped = sum(d.nominal + d.upper for d in stack[:-1])
+        ends.append((clamped + su.engagement.required, "needed reach"))
+        ends.append((worst[0], "hole bottom, nearest"))
+    for x, label in ends:
+        dr.line([L(x)] * 2, [0.3, rows + 0.4], colour=LOAD_COLOUR, width=1.2, dash="4 3")
+        reach = label == "needed reach"
+        dr.note(L(x), 0.3, f"{label} {L(x):.4g}", dx=3 if reach else -3, dy=2 if reach else 12,
+                anchor="start" if reach else "end", size=9)
+    dr.line([L(bolt.nominal + bolt.lower)] * 2, [0.3, rows + 0.4], colour=STACK_WORST, width=1.0, dash="2 2")
+    dr.legend += [_Entry("element tolerance band", STACK_BAND, fill=STACK_BAND, alpha=0.8),
+                  _Entry("sum, worst case", STACK_WORST, fill=STACK_WORST, alpha=0.45),
+                  _Entry("sum, RSS (3 sigma)", STACK_RSS, fill=STACK_RSS, alpha=0.6)]
+    margin = su.least_margin
+    title = f"{result.id}: stack-up at the limits"
+    if margin is not None and g is not None:
+        title += f", {g.name.replace('_', ' ')} margin {L(margin):+.3g} {u.length} ({su.method})"
+    dr.axes(f"along the bolt from the head's bearing face [{u.length}]", "", title, yticks=False)
+    dr.draw_legend("upper right")
     return dr.svg()

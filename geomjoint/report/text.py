@@ -59,6 +59,14 @@ def _factor_cells(r: JointResult) -> list[str]:
     return [_fmt(r.factors.get(k)) for k in ("yield", "load", "separation", "fatigue")]
 
 
+def _limit_margin(r: JointResult, per_mm: float, units: str) -> str:
+    """The least margin of the stack at its deciding tolerance limits ("+0.45", "-0.30"; "-" without one)."""
+    margin = r.stackup.least_margin if r.stackup is not None else None
+    if margin is None:
+        return "-"
+    return format(margin * per_mm, "+.3f" if units == "inch" else "+.2f")
+
+
 def result_table(results: list[JointResult], units: str = "SI", excluded: list[str] | None = None,
                  not_analysed: list = (), findings: list[dict] = ()) -> str:
     """The table; ``excluded``: joint ids the job excludes; ``not_analysed``: model joints that could
@@ -66,7 +74,7 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
     reader's remarks), printed above the table."""
     grip_label, per_mm, preload_label, per_newton = TABLE_UNITS[units]
     head = ["joint", "fastener", grip_label, "C", preload_label, "n yield", "n load", "n sep", "n fat",
-            "verdict", "governing"]
+            f"lim margin {grip_label.split()[1]}", "verdict", "governing"]
     rows = []
     for r in results:
         f = r.spec.fastener
@@ -74,7 +82,7 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
         rows.append([
             r.id, f"{size} {f.grade}", _fmt(r.grip * per_mm, ".3f" if units == "inch" else ".1f"),
             _fmt(r.joint_constant, ".3f"), _fmt(r.preload * per_newton, ".2f" if units == "inch" else ".1f"),
-            *_factor_cells(r), r.verdict.upper(), r.governing,
+            *_factor_cells(r), _limit_margin(r, per_mm, units), r.verdict.upper(), r.governing,
         ])
     widths = [max(len(str(x)) for x in col) for col in zip(head, *rows)]
     lines = [f"model: {f['severity']} {f['code']}: {f['message']}" for f in findings]
