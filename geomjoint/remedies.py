@@ -17,7 +17,7 @@ from geomjoint.errors import InputError
 from geomjoint.mechanics.bolt import required_length
 from geomjoint.mechanics.joint import JointResult, JointSpec, LayerSpec, Remedy
 from geomjoint.mechanics.stackup import POSITION_CHECK, STACKUP_CHECK
-from geomjoint.resolve import refit_stackup
+from geomjoint.resolve import length_for_limits, refit_stackup
 
 #: the property-class ladders a remedy climbs (ISO 898-1; SAE J429)
 GRADE_LADDERS = (("4.6", "5.6", "8.8", "10.9", "12.9"), ("SAE 2", "SAE 5", "SAE 8"))
@@ -173,10 +173,13 @@ def _washer_candidates(spec: JointSpec) -> Iterator[Candidate]:
     if length is not None:
         needed = length + (len(layers) - len(spec.layers)) * w.thickness
         length = catalog.shortest_length(thread, needed, spec.fastener.head)
-    yield Candidate("washer", f"{label} ({w.inner:g}/{w.outer:g} x {w.thickness:g} mm)",
-                    replace(spec, layers=layers, bearing_diameter=w.outer, far_bearing_diameter=far,
-                            fastener=replace(spec.fastener, length=length), members_value=None,
-                            member_stiffness=_closed_form(spec), notes=notes))
+    washered = length_for_limits(refit_stackup(spec, replace(
+        spec, layers=layers, bearing_diameter=w.outer, far_bearing_diameter=far,
+        fastener=replace(spec.fastener, length=length), members_value=None,
+        member_stiffness=_closed_form(spec), notes=notes)))
+    longer = (f", bolt length {spec.fastener.length:g} -> {washered.fastener.length:g} mm"
+              if length is not None and washered.fastener.length != spec.fastener.length else "")
+    yield Candidate("washer", f"{label} ({w.inner:g}/{w.outer:g} x {w.thickness:g} mm){longer}", washered)
 
 
 def _closed_form(spec: JointSpec) -> str:
@@ -207,11 +210,14 @@ def _size_candidates(spec: JointSpec, hole_limit: float | None) -> Iterator[Cand
                            yield_strength=g.yield_strength, tensile=g.tensile, length=length)
         bearing = max(head.bearing_diameter, spec.bearing_diameter) if spec.layers[0].role == "washer" else head.bearing_diameter
         where = "" if hole_limit is not None else f", hole {hole:g} mm"
-        yield Candidate("size", f"next size {f.designation} -> {thread.designation}x{length:g}{where}",
-                        replace(spec, fastener=fastener, hole_diameter=hole, bearing_diameter=bearing,
-                                far_bearing_diameter=None if spec.tapped else nut.bearing_diameter,
-                                nut_height=None if spec.tapped else nut.height, members_value=None,
-                                member_stiffness=_closed_form(spec), engagement=None))
+        # the new size's length passes at the tolerance limits, as a length the check chooses does
+        bigger = length_for_limits(refit_stackup(spec, replace(
+            spec, fastener=fastener, hole_diameter=hole, bearing_diameter=bearing,
+            far_bearing_diameter=None if spec.tapped else nut.bearing_diameter,
+            nut_height=None if spec.tapped else nut.height, members_value=None,
+            member_stiffness=_closed_form(spec), engagement=None)))
+        yield Candidate("size", f"next size {f.designation} -> {thread.designation}x{bigger.fastener.length:g}{where}",
+                        bigger)
 
 
 def candidates(spec: JointSpec, result: JointResult, hole_limit: float | None = None) -> Iterator[Candidate]:

@@ -624,14 +624,16 @@ def refit_stackup(old: JointSpec, new: JointSpec) -> JointSpec:
     """``new`` (a remedy's change of ``old``: a washer added, another size or length) with its
     stack's tolerances brought along: a layer kept keeps its tolerance, an added washer takes its
     standard's (else none), the bolt length and the nut height take their standards' again.
-    ``new.stackup`` is ``old``'s as the remedy changed it (still one entry per layer of ``old``)."""
+    ``new.stackup`` is ``old``'s as the remedy changed it (one entry per layer of ``old``), or one
+    refit already (one entry per layer of ``new``: then only the hardware's tolerances are redone)."""
     st = new.stackup
     if st is None:
         return new
     thread = catalog.thread(new.fastener.designation)
     kept = {id(layer): i for i, layer in enumerate(old.layers)}
     thickness, rules, positions = [], [], []
-    for layer in new.layers:
+    aligned = len(st.thickness) == len(new.layers)   # the same layers, or refit already
+    for layer in () if aligned else new.layers:
         i = kept.get(id(layer))
         if i is not None:
             thickness.append(st.thickness[i])
@@ -645,11 +647,13 @@ def refit_stackup(old: JointSpec, new: JointSpec) -> JointSpec:
             thickness.append(Deviation(0.0, 0.0, "added by a remedy: taken at nominal"))
         rules.append("washer standard")
         positions.append(None)
-    same = len(new.layers) == len(old.layers)
+    if aligned:
+        thickness, rules, positions = list(st.thickness), list(st.thickness_rule), list(st.positions)
     refit = replace(st, thickness=tuple(thickness), thickness_rule=tuple(rules), positions=tuple(positions),
                     length=length_tolerance(thread, new.fastener.length, new.fastener.head) if new.fastener.length
                     else st.length, nut_height=_nut_tolerance(thread, new.nut_height),
-                    holes=st.holes if same else (), offsets=st.offsets if same else ())
+                    holes=st.holes if len(st.holes) == len(new.layers) else (),
+                    offsets=st.offsets if len(st.offsets) == len(new.layers) else ())
     return replace(new, stackup=refit)
 
 
