@@ -95,14 +95,29 @@ def test_a_tap_drill_hole_with_no_screw_is_a_tapped_hole_of_that_size(tmp_path):
     assert (j.kind, j.nominal) == ("tapped", "M3")
 
 
-def test_a_screw_that_cannot_pass_a_hole_of_no_thread_size_is_still_interference(tmp_path):
-    path = tmp_path / "tight.step"
-    # an M6 screw over a 4.5 mm hole: neither the M6 tap drill 5.0 (d - P) nor D1 4.917 (ISO 724)
-    mc.quirk_small_metric(path, clearance=6.6, tapped=None, screw=(6.0, 16.0, 10.0, 6.0))
-    text = path.read_text()
-    assert "CYLINDRICAL_SURFACE" in text
+def test_a_line_to_line_clearance_over_a_tap_drill_hole_is_clamped_not_threaded(tmp_path):
+    path = tmp_path / "m5.step"
+    # an M5 screw (ISO 4762 dk 8.5, k 5, from memory) through a 5.0 mm hole (its nominal: modelled
+    # line to line) into the 4.2 mm M5 tap drill (d - P): the thread is in the base, the cover is clamped
+    mc.quirk_small_metric(path, clearance=5.0, tapped=4.2, screw=(5.0, 7.0, 8.5, 5.0))
     [j] = scan_model(path).joints
-    assert j.kind == "through" and "thread-in-hole" not in codes(j)
+    assert [(l.part, l.role) for l in j.layers] == [("cover", "member"), ("base", "tapped")]
+    assert j.threaded_bore == "tap drill" and j.grip == pytest.approx(3.0)
+
+
+def test_a_screw_that_cannot_pass_a_last_hole_of_no_thread_size_is_a_warning(tmp_path):
+    path = tmp_path / "tight.step"
+    # an M6 screw through a 6.6 mm hole (ISO 273 medium) and then a 4.5 mm one: neither the M6 tap
+    # drill 5.0 (d - P) nor D1 4.917 (ISO 724) nor d: taken as tapped (as the scan always has), with a warning
+    a = cq.Assembly(name="tight")
+    a.add(mc.plate([(0.0, 0.0)], 6.0, dia=6.6, size=(20.0, 20.0, 6.0)), name="cover")
+    a.add(mc.plate([(0.0, 0.0)], 0.0, dia=4.5, size=(20.0, 20.0, 6.0)), name="base")
+    a.add(mc._socket_screw(6.0, 16.0, *mc.M6_SOCKET), name="socket screw M6x16", loc=cq.Location(cq.Vector(0, 0, 12)))
+    mc.write_step(a, path)
+    [j] = scan_model(path).joints
+    [warning] = [f for f in j.findings if f.code == "thread-in-hole"]
+    assert warning.severity == "warn" and "4.50 mm" in warning.message and "no tap-drill" in warning.message
+    assert j.kind == "tapped" and j.threaded_bore is None
 
 
 def test_a_size_the_catalogue_half_knows_in_a_tapped_joint_is_a_finding(tmp_path):

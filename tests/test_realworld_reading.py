@@ -258,9 +258,12 @@ def test_no_size_is_inferred_that_no_standard_length_can_finish(tmp_path):
     a.add(mc.plate([(0.0, 0.0)], 30.0, dia=2.0, size=(30.0, 30.0, 30.0)), name="upper_block")
     a.add(mc.plate([(0.0, 0.0)], 0.0, dia=2.0, size=(30.0, 30.0, 30.0)), name="lower_block")
     mc.write_step(a, path)
-    [joint] = scan_model(path).joints
-    assert joint.nominal is None
-    assert [f.severity for f in joint.findings if f.code == "no-hardware"] == ["warn"]
+    scan = scan_model(path)
+    # no joint to stop the check: the stack is set aside, saying why
+    assert scan.joints == []
+    [aside] = scan.set_aside
+    assert aside.code == "not-a-bolt-hole" and "no catalogue fastener can finish" in aside.reason
+    assert aside.joint.nominal is None
 
 
 def test_size_without_nut_data_is_a_finding_not_a_crash(tmp_path):

@@ -30,7 +30,16 @@ from geomjoint.geometry.hardware import (
 from geomjoint.geometry.holes import LINEAR_TOL, analyse_faces, find_holes
 from geomjoint.geometry.model import Model, load_model
 from geomjoint.catalog.hole_parts import hole_part_kind
-from geomjoint.geometry.stacks import THREAD_MATCH_TOL, Finding, Joint, Plug, SetAside, find_plugs, find_stacks
+from geomjoint.geometry.stacks import (
+    THREAD_MATCH_TOL,
+    Finding,
+    Joint,
+    Plug,
+    SetAside,
+    find_plugs,
+    find_stacks,
+    number,
+)
 from geomjoint.geometry.placed import Placement, definition, movable, moved_hardware, moved_holes
 from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
 
@@ -56,7 +65,8 @@ FINDING_CODES = {
     "surface-body": "info (model): surface bodies made solids from their closed shells; warn: ones that do not close, not read",
     "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
     "thread-in-hole": "info: where the thread of a tapped joint is: a screw in a hole of its tap-drill, minor or "
-                      "nominal size, a thread-forming screw in plastic, or an insert (no nut is assumed)",
+                      "nominal size, a thread-forming screw in plastic, or an insert (no nut is assumed); warn: the "
+                      "screw cannot pass a last hole of no thread size, taken as tapped",
     "not-a-bolt-hole": "info (model): coaxial holes with no fastener modelled whose bores match no clearance hole "
                        "and no tap drill of any catalogue size (a shaft bore, bearing seat, nozzle or vent): not a joint",
     "holds-a-part": "info (model): coaxial holes with no fastener modelled holding a part that is no fastener "
@@ -199,6 +209,12 @@ def _scan(model: Model) -> ScanResult:
         model.file_unit or "")
     for j in joints:
         add_findings(j, system)
+    # holes that match a size but no fastener of it can be finished (no standard length reaches,
+    # no hardware data) hold none: set aside too, so the check does not stop on them
+    for j in [j for j in joints if j.nominal is None and j.bolt is None and j.nut is None and not j.washers]:
+        joints.remove(j)
+        aside.append(SetAside("", "not-a-bolt-hole", _unfinished_reason(j), j))
+    number(joints, aside)
     used = {j.bolt.part for j in joints if j.bolt} | {j.nut.part for j in joints if j.nut} | \
         {w.part for j in joints for w in j.washers}
     loose = [h.part for h in (*bolts, *nuts, *washers) if h.part not in used]
@@ -208,6 +224,13 @@ def _scan(model: Model) -> ScanResult:
                       washers=washers, hole_count=len(holes), unmatched_hardware=loose,
                       headless=[h for h in headless if h.part not in stud_parts],
                       findings=findings, set_aside=aside, system=system)
+
+
+def _unfinished_reason(j: Joint) -> str:
+    parts = ", ".join(dict.fromkeys(l.part for l in j.layers))
+    return (f"coaxial holes of {parts} ({j.hole_diameter:.2f} mm, grip {j.grip:.1f} mm) with no fastener modelled "
+            f"match only sizes no catalogue fastener can finish (no head, nut or standard length for the stack): "
+            f"a pin, vent or feature hole, not a joint")
 
 
 def _system_hint(j: Joint, default: str | None = None) -> str | None:

@@ -77,6 +77,9 @@ NAMED_FILL_MIN_RATIO = 0.5
 INSERT_PROUD_MAX = 0.5
 #: materials (catalogue names) of a light alloy host, in which a screw often sits in an insert
 LIGHT_ALLOYS = ("aluminium", "cast aluminium")
+#: a clamped hole wider than this many nominal diameters is no clearance hole of that size (ISO 273
+#: coarse holes are at most 1.25 d, at M1.6; a counterbore is a feature of its own)
+CLEARANCE_MAX_RATIO = 1.5
 #: prefix of the ids of stacks set aside (not joints)
 SET_ASIDE_PREFIX = "H"
 
@@ -441,16 +444,21 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
         thread_method, threaded_bore = "insert", insert.how
     elif bolt is not None and not nuts:
         forming = hole_part_kind(bolt.part) == FORMING_KIND
+        found = []
         for k, it in enumerate(layer_items):
             if it.kind != "hole" or bolt.d < it.obj.diameter - LINEAR_TOL:
                 continue                       # a washer, or a hole the bolt passes
             how = thread_bore(it.obj.diameter, bolt.d, it.material_hint, forming)
             if how is not None:
-                threaded_at = k
-                thread_method = "thread-forming" if how == "thread-forming" else "tapped"
-                threaded_bore = how
-                break
+                found.append((k, how))
+        # a tap-drill, minor or formed bore is the thread; a bore at the nominal diameter may be a
+        # clearance modelled line to line, so of those the last the screw reaches is the thread
+        drilled = [f for f in found if f[1] != "nominal"]
+        if found:
+            threaded_at, threaded_bore = drilled[0] if drilled else found[-1]
+            thread_method = "thread-forming" if threaded_bore == "thread-forming" else "tapped"
     beyond: list[str] = []
+    odd_bore = False
     if threaded_at is not None:
         # the part the screw is threaded into ends the joint: what lies beyond is not clamped
         beyond = list(dict.fromkeys(it.part for it in layer_items[threaded_at + 1:]))
@@ -474,6 +482,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
             tapped = True
             kind = "tapped"
             thread_method = "tapped"
+            odd_bore = engaged
         elif closed_far:
             kind = "blind"
     layers: list[Layer] = []
@@ -509,6 +518,11 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
     findings: list[Finding] = []
     if threaded_at is not None:
         findings.append(_thread_finding(layers[-1], bolt, thread_method, threaded_bore, insert, beyond))
+    elif odd_bore:
+        findings.append(Finding("warn", "thread-in-hole",
+                                f"{bolt.part} ({bolt.d:.2f} mm) cannot pass the {layers[-1].hole_diameter:.2f} mm hole of "
+                                f"{layers[-1].part}, which is no tap-drill, minor or nominal diameter of its thread: "
+                                f"taken as tapped there; check the model"))
     for (pa, _, ea), (pb, sb, _) in zip(chain, chain[1:]):
         g = sb - ea
         if g > GAP_TOL:
@@ -747,6 +761,12 @@ def find_stacks(holes: list[Hole], bolts: list[Bolt], nuts: list[Nut], washers: 
                 joints.append(j)
             else:
                 aside.append(SetAside("", why[0], why[1], j))
+    number(joints, aside)
+    return joints, aside
+
+
+def number(joints: list[Joint], aside: list[SetAside]) -> None:
+    """Order joints and set-aside stacks by position and give them their ids (J01 ..., H01 ...)."""
     key = lambda j: tuple(round(c, 3) + 0.0 for c in j.point)   # noqa: E731
     joints.sort(key=key)
     for k, j in enumerate(joints, 1):
@@ -754,7 +774,6 @@ def find_stacks(holes: list[Hole], bolts: list[Bolt], nuts: list[Nut], washers: 
     aside.sort(key=lambda a: key(a.joint))
     for k, a in enumerate(aside, 1):
         a.id = a.joint.id = f"{SET_ASIDE_PREFIX}{k:02d}"
-    return joints, aside
 
 
 def _per_bolt(group: list[_Item]) -> list[list[_Item]]:
@@ -782,6 +801,25 @@ def _per_bolt(group: list[_Item]) -> list[list[_Item]]:
     return out
 
 
+def fastener_bores(j: Joint) -> bool:
+    """True when the stack's bores could hold a fastener of some catalogue size: its clearance
+    bore (the smallest clamped one) is a clearance hole (ISO 273 fine to coarse, ASME B18.2.8
+    close to loose) or a tap drill of a size, or its tapped bore is the tap drill (or minor
+    diameter) of a size that its clearance bore lets pass by no more than CLEARANCE_MAX_RATIO d."""
+    from geomjoint import catalog
+
+    clear = [l.hole_diameter for l in j.layers if l.role != "tapped"]
+    tapped = [l.hole_diameter for l in j.layers if l.role == "tapped"]
+    fits = ("fine", "medium", "coarse", "tap drill")
+    if clear and any(how in fits for _, how in catalog.nominal_from_hole(min(clear), None, THREAD_MATCH_TOL)):
+        return True
+    for bore in tapped:
+        for t, how in catalog.nominal_from_hole(bore, None, THREAD_MATCH_TOL):
+            if how == "tap drill" and (not clear or t.d - LINEAR_TOL <= min(clear) <= CLEARANCE_MAX_RATIO * t.d):
+                return True
+    return False
+
+
 def set_aside_reason(j: Joint, plugs: list[Plug]) -> tuple[str, str] | None:
     """(finding code, why) when a stack with no fastener modelled is no joint, else None.
 
@@ -802,11 +840,9 @@ def set_aside_reason(j: Joint, plugs: list[Plug]) -> tuple[str, str] | None:
         hosts = ", ".join(dict.fromkeys(l.part for l in j.layers if l.part != p.part))
         return "holds-a-part", (f"{p.part} ({what}, {p.diameter:.2f} mm) fills the hole of {hosts}: "
                                 "a pin, shaft, bushing or tube, not a fastener; not a joint")
+    if fastener_bores(j):
+        return None
     bores = sorted({round(l.hole_diameter, 4) for l in j.layers})
-    fits = ("fine", "medium", "coarse", "tap drill")
-    for b in bores:
-        if any(how in fits for _, how in catalog.nominal_from_hole(b, None, THREAD_MATCH_TOL)):
-            return None
     sizes = ", ".join(f"{b:.2f}" for b in bores)
     return "not-a-bolt-hole", (f"coaxial holes of {', '.join(dict.fromkeys(l.part for l in j.layers))} "
                                f"({sizes} mm) with no fastener modelled match no clearance hole (ISO 273 / "
