@@ -143,14 +143,17 @@ def test_unknown_hole_size_gives_null_nominal_and_valid_json(schema):
     a.add(ms.plate(40, 40, 10, [(0, 0)], 17.3), name="lower")
     a.add(ms.plate(40, 40, 10, [(0, 0)], 17.3, z0=10.0), name="upper")
     res = scan_model(a)
-    (j,) = res.joints
-    # 17.3 mm is no ISO 273 clearance (M16: 17 / 17.5 / 18.5, from memory) and no tap drill
-    assert j.nominal is None
-    assert any(f.code == "no-hardware" and f.severity == "warn" for f in j.findings)
+    # 17.3 mm is no ISO 273 clearance (M16: 17 / 17.5 / 18.5, from memory) and no tap drill:
+    # with no fastener modelled the stack is no joint; it is set aside, saying so once
+    assert res.joints == []
+    (aside,) = res.set_aside
+    j = aside.joint
+    assert aside.code == "not-a-bolt-hole" and j.nominal is None and j.bolt is None
     assert j.grip == pytest.approx(20.0, abs=1e-6)
     doc = scan_to_json(res)
     jsonschema.validate(doc, schema)
-    assert doc["joints"][0]["nominal"] is None and doc["joints"][0]["hardware"]["bolt"] is None
+    assert doc["joints"] == [] and doc["set_aside"][0]["hole_diameter"] == pytest.approx(17.3)
+    assert [f["code"] for f in doc["findings"]] == ["not-a-bolt-hole"]
 
 
 def test_every_finding_code_is_documented(scans):
