@@ -24,7 +24,7 @@ def built(tmp_path_factory):
     out = {}
     folder = tmp_path_factory.mktemp("hardware")
     for kind in ("hex", "socket", "button", "pan", "cheese", "flange", "countersunk", "square nut",
-                 "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell"):
+                 "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell", "helical thread"):
         path = folder / f"{kind.replace(' ', '_')}.step"
         expect = mc.hardware_model(path, kind)
         out[kind] = (path, expect, scan_model(path))
@@ -36,7 +36,7 @@ def _codes(joint):
 
 
 @pytest.mark.parametrize("kind", ["hex", "socket", "button", "pan", "cheese", "flange", "countersunk",
-                                  "square nut", "lock nut", "shell"])
+                                  "square nut", "lock nut", "shell", "helical thread"])
 def test_each_head_kind_is_read_with_its_size_and_length(built, kind):
     _, expect, scan = built[kind]
     [joint] = scan.joints

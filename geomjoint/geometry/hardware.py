@@ -68,6 +68,9 @@ WASHER_MAX_OD_RATIO = 4.0         # washer outer / inner diameter
 MAX_HEAD_WIDTH_RATIO = 3.0        # head or nut width / shank (bore) diameter
 #: cylinders up to this ratio of the narrowest shank cylinder are shank or thread, not head
 SHANK_STEP_RATIO = 1.25
+#: a thread's crest over its core is at most this ratio (d / d3 is 1.37 at M1.6, 1.2-1.3 from M3
+#: up, ISO 724 / ASME B1.1): an outline within it over the shank is the thread, not a collar
+THREAD_CREST_RATIO = 1.4
 #: a shank cylinder is at least this long in diameters (shorter ones are grooves, reliefs)
 SHANK_MIN_LENGTH_RATIO = 0.5
 #: relative tolerance for "same size" when matching a diameter to a thread size
@@ -443,8 +446,8 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None,
             if best is None or total > best[0]:
                 best = (total, group)
         group = best[1]
-        long_enough = [p for p in group if p.t1 - p.t0 >= SHANK_MIN_LENGTH_RATIO * 2 * p.r0]
-        r_small = min(p.r0 for p in (long_enough or group))
+        long_enough = [r for r, length in _runs(group) if length >= SHANK_MIN_LENGTH_RATIO * 2 * r]
+        r_small = min(long_enough) if long_enough else min(p.r0 for p in group)
         shank_secs = [p for p in group if p.r0 <= SHANK_STEP_RATIO * r_small]
         outline = _Outline.of(_faces_of(solid), group[0].ref, group[0].direction)
         found = _headless_or_bolt(part, outline, shank_secs, solid, desig, hint)
@@ -458,6 +461,26 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None,
     if axis is None:
         return None
     return _headless_or_bolt(part, _Outline.of(_faces_of(solid), *axis), None, solid, desig, hint)
+
+
+def _runs(group: list[SurfacePatch]) -> list[tuple[float, float]]:
+    """(radius, length) of each run of coaxial cylinders of one radius that touch end to end:
+    a core cylinder cut into strips by a helical thread is one run."""
+    out = []
+    by_r: dict[float, list[SurfacePatch]] = {}
+    for p in group:
+        by_r.setdefault(round(p.r0, 3), []).append(p)
+    for r, ps in by_r.items():
+        ps = sorted(ps, key=lambda q: q.t0)
+        start, end = ps[0].t0, ps[0].t1
+        for q in ps[1:]:
+            if q.t0 <= end + 10 * LINEAR_TOL:
+                end = max(end, q.t1)
+            else:
+                out.append((ps[0].r0, end - start))
+                start, end = q.t0, q.t1
+        out.append((ps[0].r0, end - start))
+    return out
 
 
 def _partial_cylinder_axis(patches: list[SurfacePatch]) -> tuple[np.ndarray, np.ndarray] | None:
@@ -508,6 +531,13 @@ def _headless_or_bolt(part, o: _Outline, shank_secs, solid, desig, hint):
         s0 = min(p.t0 for p in shank_secs)
         s1 = max(p.t1 for p in shank_secs)
         r_nom = max(p.r0 for p in shank_secs)
+        # a thread drawn over a core at the minor diameter: its crest is the nominal
+        margin = 0.05 * (s1 - s0)
+        inside = (o.t > s0 + margin) & (o.t < s1 - margin)
+        if np.any(inside):
+            crest = float(o.r[inside].max())
+            if r_nom < crest <= THREAD_CREST_RATIO * r_nom:
+                r_nom = crest
     else:
         # no cylinder: the narrow end of the outline is the shank
         s0, s1, r_nom = _shank_from_outline(o, a0, a1)

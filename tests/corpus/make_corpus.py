@@ -737,6 +737,25 @@ def socket_screw_as_library(d: float, length: float, dk: float, k: float, key: f
     return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
 
 
+def threaded_socket_screw(d: float, pitch: float, length: float, dk: float, k: float, key: float):
+    """An ISO 4762 socket screw with its thread drawn, as detailed library models are: a helical
+    thread (a swept profile, crest at d) over a core at the minor diameter, which the helix cuts
+    into strips; the thread runs to the tip (z = -length)."""
+    import cadquery as cq
+
+    r_core = d / 2 - 0.54 * pitch            # about the external minor radius (ISO 724: d3 = d - 1.227 P)
+    helix = cq.Wire.makeHelix(pitch, length, r_core)
+    profile = (cq.Workplane("XZ").polyline([(r_core - 0.01, -0.4 * pitch), (d / 2, -0.06 * pitch),
+                                            (d / 2, 0.06 * pitch), (r_core - 0.01, 0.4 * pitch)])
+               .close().wires().val())
+    thread = cq.Solid.sweep(profile, [], helix, isFrenet=True)
+    shank = (cq.Workplane("XY").circle(r_core).extrude(length + pitch).union(cq.Workplane("XY").add(thread))
+             .translate((0, 0, -length - 0.5 * pitch)))
+    shank = shank.intersect(cq.Workplane("XY").circle(d).extrude(-length))     # the tip cut square
+    head = _revolved([(0, 0), (dk / 2, 0), (dk / 2, k - 0.5), (dk / 2 - 0.5, k), (0, k)]).cut(_hex_socket(key, 0.6 * k, k))
+    return head.union(shank)
+
+
 def button_screw(d: float, length: float, dk: float, k: float, key: float):
     """An ISO 7380-1 button head screw: a low dome over a short rim, a hexagon socket."""
     import cadquery as cq
@@ -855,7 +874,8 @@ def hardware_model(path: Path, kind: str) -> dict:
     "square nut" (ISO 4762 M6x20 with a DIN 557 nut), "lock nut" (ISO 4017 M8x30 with an ISO 7040
     nut), "set screw" (ISO 4026 M4x6 in the tapped hole of a hub on a shaft), "set screw unnamed",
     "stud" (DIN 938 M8 into a tapped block, a plate, an ISO 4032 nut), "shell" (a socket screw
-    exported as a surface body, closed), "open shell" (the same with its top face missing).
+    exported as a surface body, closed), "open shell" (the same with its top face missing),
+    "helical thread" (an unnamed ISO 4762 M6x12 with its thread drawn, into a tapped block).
     """
     import cadquery as cq
 
@@ -938,6 +958,14 @@ def hardware_model(path: Path, kind: str) -> dict:
         a.add(chamfered_hex_nut(8.0, 13.0, 6.8), name="ISO 4032 M8", loc=cq.Location(cq.Vector(0, 0, 30.0)))
         # the nut bears at z = 30; the stud ends at z = 8, 22 mm below it
         expect.update(nominal="M8", length=22.0, joint_kind="tapped", nut="ISO 4032 M8", grip=10.0)
+    elif kind == "helical thread":
+        # ISO 4762 M6x12 (dk 10, k 6, socket 5; P 1) with its thread drawn, into a tapped block (tap drill 5.0)
+        a.add(cq.Workplane("XY").box(30, 30, 5, centered=(True, True, False)).faces(">Z").workplane().hole(6.6)
+              .translate((0, 0, 12)), name="sensor bracket")
+        a.add(cq.Workplane("XY").box(30, 30, 12, centered=(True, True, False)).faces(">Z").workplane().hole(5.0, 11.0),
+              name="frame block")
+        a.add(threaded_socket_screw(6.0, 1.0, 12.0, 10.0, 6.0, 5.0), name="Part7", loc=cq.Location(cq.Vector(0, 0, 17)))
+        expect.update(head="socket", nominal="M6", length=12.0, joint_kind="tapped")
     elif kind in ("shell", "open shell"):
         top = _plates(a, 5.5, (3.0, 3.0))
         solid = socket_screw_as_library(5.0, 12.0, 8.5, 5.0, 4.0).val()
