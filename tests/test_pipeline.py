@@ -88,6 +88,19 @@ def test_sample_joint_fails_at_a_tolerance_limit(tmp_path, scan):
     assert joint_node_name(r) == "J01 M10x45 8.8 fail at limit protrusion -0.40"
 
 
+def test_position_check_takes_the_measured_offset(tmp_path, scan):
+    """With 0.5 mm position tolerance on every hole: J01's 11 mm holes leave H - F = 1.0 for M10 (ASME
+    Y14.5 floating fastener) and pass; J02's adapter hole is modelled 1.2 mm off the axis, which takes
+    2 x 1.2 of the clearance before any tolerance: it fails, naming the part."""
+    job = MODEL_JOB.replace('preload = "75%"', 'preload = "75%"\nposition_tolerance = "0.5 mm"')
+    r = by_id(analyze_job(load_job(write_job(tmp_path, job, "pos.toml")), scan=scan).results)
+    ok = next(c for c in r["J01"].checks if c.name == "position")
+    assert ok.ok and ok.value == pytest.approx(1.0, abs=1e-6) and ok.required == pytest.approx(0.5)
+    bad = next(c for c in r["J02"].checks if c.name == "position")
+    assert not bad.ok and "adapter_plate_alu" in bad.note
+    assert bad.value == pytest.approx(11.0 - 2 * 1.2 - 10.0, abs=1e-6)
+
+
 def test_typed_joint_equals_model_joint(tmp_path, scan):
     """A job typed in by hand for J01 gives the numbers the model path gives."""
     model_result = by_id(analyze_job(load_job(write_job(tmp_path)), scan=scan).results)["J01"]

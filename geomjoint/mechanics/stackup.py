@@ -281,7 +281,7 @@ def position_result(spec: JointSpec) -> PositionResult | None:
         else:
             afford = T.floating_fastener_tolerance(available + F, F)
             needed = t
-        rows.append((available - (needed or 0.0), afford, available, needed, spec.layers[i].part))
+        rows.append((available - (needed or 0.0), afford, available, needed, spec.layers[i].part or f"layer {i + 1}"))
     slack, afford, available, needed, part = min(rows, key=lambda r: (r[0], r[1]))
     affordable = min(r[1] for r in rows)
     ok = (not given) or all(r[3] is None or r[3] <= r[2] + 1e-9 for r in rows)

@@ -363,6 +363,12 @@ JOB_EDITS: list[tuple[str, object, tuple[str, ...]]] = [
     ("bearing_face_key_unknown", ('grade = "8.8"', 'grade = "8.8"\nbearing_diameter = { head = "18 mm", far = "17 mm" }'),
      ("bearing_diameter", "far")),
     ("roughness_beyond_table", ('grade = "8.8"', 'grade = "8.8"\nroughness = "200 um"'), ("roughness", "200")),
+    ("thickness_tolerance_unknown", ('grade = "8.8"', 'grade = "8.8"\nthickness_tolerance = "h7"'),
+     ("thickness_tolerance", "ISO 2768-1")),
+    ("tolerances_match_nothing", BASE.replace('thickness = "16 mm" }', 'thickness = "16 mm", part = "plate" }', 1)
+     + '\n[tolerances]\n"frame*" = "f"\n', ("[tolerances]", "'frame*'", "no part")),
+    ("position_without_unit", ('grade = "8.8"', 'grade = "8.8"\nposition_tolerance = "0.2"'),
+     ("position_tolerance",)),
     ("model_missing", 'model = "nowhere.step"\n' + BASE, ("model", "nowhere.step")),
     ("model_is_folder", 'model = "sub"\n' + BASE, ("model", "folder")),
     ("model_outside_folder", 'model = "../step/plate_pair.step"\n' + BASE, ("model", "outside")),
