@@ -159,7 +159,7 @@ def test_touching_across_the_gap_near_the_axis_is_what_contradicts_it():
     assert rc._distance_near_axis(low, _box(-30, 30, 10, 20), joint, span) < rc.TOUCH_TOL
     # a head reported 7.5 mm above the washer it sits on (a hex head read as countersunk, issue 15
     # item 8): the head's solid reaches down into the span and touches the washer
-    bolt = NS(part="bolt")
+    bolt = NS(part="bolt", d=12.0)
     washer = NS(part="washer", start=7.5, end=10.0)
     head_joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=13.5, layers=[washer],
                     bolt=bolt, nut=None)
@@ -231,3 +231,18 @@ def test_a_head_drawn_into_the_gap_is_told_from_a_recess_under_it():
     shank_only = cq.Workplane("XY").circle(6.0).extrude(40.0).union(
         cq.Workplane("XY").polygon(6, 20.8).extrude(-7.5)).val().wrapped
     assert rc._volume_around_shank(shank_only, joint, span) < rc.HEAD_IN_GAP_VOLUME
+
+
+def test_a_shank_in_its_thread_does_not_touch_across_a_gap():
+    import cadquery as cq
+    from types import SimpleNamespace as NS
+
+    # an M5 socket screw 3 mm above a block tapped 4.2 mm (ISO 261 M5 d - P), its shank
+    # modelled at 5 mm: the shank meets the thread wall at the gap's far end, the head does
+    # not reach the block: the 3 mm gap is real
+    screw = cq.Workplane("XY").circle(4.25).extrude(-5.0).union(
+        cq.Workplane("XY").circle(2.5).extrude(13.0)).val().wrapped
+    block = cq.Workplane("XY").box(20, 20, 10, centered=(True, True, False)).faces(">Z").workplane() \
+        .hole(4.2).translate((0, 0, 3.0)).val().wrapped
+    joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=4.2, bolt=NS(d=5.0))
+    assert rc._distance_near_axis(screw, block, joint, (0.0, 3.0)) == pytest.approx(3.0, abs=1e-6)

@@ -429,20 +429,27 @@ def gap_span(joint, a: str, b: str, size: float) -> tuple[float, float] | None:
 
 
 def _distance_near_axis(a, b, joint, span: tuple[float, float]) -> float:
-    """Distance between solids ``a`` and ``b`` within BEARING_ZONE_HOLES hole diameters of the
-    joint's axis and over the axial ``span`` of the gap, mm (parts that touch far from the
-    joint, or beyond the gap, do not contradict it)."""
+    """Distance between solids ``a`` and ``b`` in the bearing annulus around the joint's axis
+    (outside the shank or hole, within BEARING_ZONE_HOLES hole diameters) over the axial
+    ``span`` of the gap, mm (parts that touch far from the joint, beyond the gap, or where a
+    shank meets a thread, do not contradict it)."""
     import numpy as np
     from OCP.BRepAlgoAPI import BRepAlgoAPI_Common
     from OCP.BRepExtrema import BRepExtrema_DistShapeShape
     from OCP.BRepPrimAPI import BRepPrimAPI_MakeCylinder
     from OCP.gp import gp_Ax2, gp_Dir, gp_Pnt
 
+    from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut
+
     e = np.asarray(joint.direction, dtype=float)
     z0, z1 = span[0] - SPAN_MARGIN, span[1] + SPAN_MARGIN
-    start = np.asarray(joint.point, dtype=float) + e * z0
-    tube = BRepPrimAPI_MakeCylinder(gp_Ax2(gp_Pnt(*start), gp_Dir(*e)), BEARING_ZONE_HOLES * joint.hole_diameter,
-                                    z1 - z0).Shape()
+    axis = gp_Ax2(gp_Pnt(*(np.asarray(joint.point, dtype=float) + e * z0)), gp_Dir(*e))
+    outer = BRepPrimAPI_MakeCylinder(axis, BEARING_ZONE_HOLES * joint.hole_diameter, z1 - z0).Shape()
+    # the bearing annulus only: a shank modelled at its nominal diameter overlaps a tapped
+    # hole's wall at the gap's far end, which says nothing about the faces around it
+    bolt = getattr(joint, "bolt", None)
+    core = (bolt.d if bolt is not None else joint.hole_diameter) / 2 + SPAN_MARGIN
+    tube = BRepAlgoAPI_Cut(outer, BRepPrimAPI_MakeCylinder(axis, core, z1 - z0).Shape()).Shape()
     pieces = []
     for solid in (a, b):
         common = BRepAlgoAPI_Common(solid, tube)
