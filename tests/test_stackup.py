@@ -249,3 +249,28 @@ def test_reports_show_the_stackup():
     page = html_report(results, title="t")
     assert "Stack-up at the tolerance limits" in page and 'aria-label="stack-up chart of A"' in page
     assert "protrusion past the nut" in page
+
+
+def test_remedy_offers_a_finer_general_class():
+    # four 7.825 mm plates under M12x45: 45 - 31.3 - 10.8 = 2.9 mm past the nut at nominal.
+    # ISO 2768-1 m (+/-0.2 each, over 6 up to 30) and the bolt's js15 (+/-0.5): 2.9 - 0.5 - 0.8 = 1.6 < 1.75;
+    # class f (+/-0.1 each): 2.9 - 0.5 - 0.4 = 2.0 >= 1.75 (ISO 2768-1:1989 Table 1, from memory)
+    plates = ",\n".join(f'{{ material = "steel", thickness = "7.825 mm", part = "plate{i}" }}' for i in range(4))
+    text = f"""
+[defaults]
+fastener = "M12"
+grade = "8.8"
+[[joint]]
+id = "P"
+length = "45 mm"
+layers = [ {plates} ]
+load = {{ max = "5 kN" }}
+"""
+    r = _result(parse_job(text), "P")
+    assert r.stackup.protrusion.worst_min == pytest.approx(1.6)
+    changes = [m.change for m in r.remedies]
+    assert changes[0] == "bolt length 45 -> 50 mm"
+    assert "thickness tolerance ISO 2768-1 m -> f for plate0, plate1, plate2, plate3" in changes
+    # per joint: the statistical method on this joint only
+    r = _result(parse_job(text.replace('length = "45 mm"', 'length = "45 mm"\nstackup_method = "statistical"')), "P")
+    assert r.stackup.method == "statistical" and next(c for c in r.checks if c.name == STACKUP_CHECK).ok
