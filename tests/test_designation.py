@@ -36,6 +36,9 @@ from geomjoint.errors import InputError
     ("1/4-20 x 1 1/4 FHCS", "bolt", "countersunk", None, "1/4-20 UNC", 31.75),
     ("HX-SHCS 0.25-20x0.75x0.75-N", "bolt", "socket", None, "1/4-20 UNC", 19.05),
     ("HDW-207_91290A012_M2x5mm_SHCS_91290A012", "bolt", "socket", None, "M2", 5.0),
+    # ASME B18.3.1M metric socket head cap screws as one CAD library names them (from memory)
+    ("B18.3.1M - 5 x 0.8 x 16 Hex SHCS -- 16NHX", "bolt", "socket", None, "M5", 16.0),
+    ("HNUT 0.2500-20-D-N", "nut", "hex", None, "1/4-20 UNC", None),
     ("M6 button head socket cap screw", "bolt", "button", None, "M6", None),
     ("M10x1.25x40 hex head bolt", "bolt", "hex", None, "M10x1.25", 40.0),
     # ISO 4026:2003 / ISO 4029:2003 set screws, designation "ISO 4029 - M6 x 12 - 45H" (from memory)

@@ -132,6 +132,9 @@ _STANDARD = re.compile(r"(?<![A-Za-z])((?:DIN\s*)?(?:EN\s*)?ISO|DIN(?:\s*EN)?|EN
                        re.I)
 _NUM = r"\d+(?:[.,]\d+)?"
 _METRIC = re.compile(rf"(?<![A-Za-z0-9])M\s?({_NUM})(?:\s*[xX×*]\s*({_NUM}))?(?:\s*[xX×*]\s*({_NUM}))?(?![\d.,])")
+#: the ASME metric fastener standards' form one CAD library names its parts by:
+#: "B18.3.1M - 5 x 0.8 x 16" (ASME B18.3.1M socket head, M5 x 0.8, 16 mm long)
+_ASME_METRIC = re.compile(rf"B18\.[\d.]+M\s*-\s*({_NUM})\s*[xX×]\s*({_NUM})(?:\s*[xX×]\s*({_NUM}))?")
 _INCH_LEN = r"\d+[ -]\d+/\d+|\d+/\d+|\d*\.\d+|\d+"
 _INCH = re.compile(rf"(?<![\w.])(#\s?\d{{1,2}}|\d+/\d+|\d*\.\d+|\d)\s*(?:\"|in)?\s*-\s*(\d{{2,3}})(?![\d/])"
                    rf"(?:\s*(?:UNC|UNF))?(?:\s*[xX×]\s*({_INCH_LEN})\s*(?:\"|in(?:ch)?)?)?")
@@ -155,6 +158,13 @@ def _is_pitch(d: float, value: float) -> bool:
 
 
 def _metric(name: str) -> tuple[str, float, float | None] | None:
+    for m in _ASME_METRIC.finditer(name):
+        d, pitch = float(m.group(1).replace(",", ".")), float(m.group(2).replace(",", "."))
+        try:
+            t = thread(f"M{d:g}x{pitch:g}")
+        except InputError:
+            continue
+        return t.designation, t.d, float(m.group(3).replace(",", ".")) if m.group(3) else None
     for m in _METRIC.finditer(name):
         nums = [float(g.replace(",", ".")) for g in m.groups() if g]
         d, pitch, length = nums[0], None, None
