@@ -154,8 +154,7 @@ def test_scan_document_equals_reading_every_placed_solid(model, monkeypatch):
 
 def _direct(part):
     """What reading the placed solid itself gives (the scan before per-definition readings)."""
-    names = (part.name, part.product, part.instance)
-    return _read(part.solid, part.name, scan_module._label(part), hole_part_kind(*names), part.material_hint)
+    return _read(part.solid, part, scan_module._label(part))
 
 
 def test_a_mirrored_placement_is_read_on_its_own_solid():

@@ -58,8 +58,17 @@ def hole_part_kind(*names: str | None) -> str | None:
         text = re.sub(r"[-.]", " ", text)
         if any(_normal(x).strip() in text for x in _NOT_THESE):
             continue
-        for phrase, kind in _phrases():
-            p = re.sub(r"[-.]", " ", phrase)
-            if re.search(rf"(?<![a-z0-9äöüß]){re.escape(p)}(?![a-z0-9äöüß])", text):
+        for p, pattern, kind in _patterns():
+            if p in text and pattern.search(text):   # the substring test first: most names hold none
                 return kind
     return None
+
+
+@functools.lru_cache(maxsize=1)
+def _patterns() -> tuple[tuple[str, re.Pattern, str], ...]:
+    """Each phrase of :func:`_phrases` (in its order) as matched: separators made spaces, a whole word."""
+    out = []
+    for phrase, kind in _phrases():
+        p = re.sub(r"[-.]", " ", phrase)
+        out.append((p, re.compile(rf"(?<![a-z0-9äöüß]){re.escape(p)}(?![a-z0-9äöüß])"), kind))
+    return tuple(out)

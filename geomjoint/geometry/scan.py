@@ -149,35 +149,40 @@ class _Readings:
         """(holes, hardware record or None, plugs) of a placed part (no holes or plugs for a
         piece of hardware: the scan drops them)."""
         label = _label(part)
-        names = (part.name, getattr(part, "product", None), getattr(part, "instance", None))
-        kind = hole_part_kind(*names)
         placement = Placement.of(part.solid)
         if placement is None:
-            return _read(part.solid, part.name, label, kind, part.material_hint)
+            return _read(part.solid, part, label)
         desig = _designation(label)
         bare = definition(part.solid)
         key = (self._number(bare), _designation_key(desig))
         if key not in self.readings:
-            self.readings[key] = _read(bare, part.name, label, None, None)
+            self.readings[key] = _read(bare, part, label, of_definition=True)
         holes, hw, plugs = self.readings[key]
         if not all(movable(r) for r in ([hw] if hw is not None else plugs)):
-            return _read(part.solid, part.name, label, kind, part.material_hint)
+            return _read(part.solid, part, label)
         if hw is not None:
             return [], moved_hardware(hw, placement, part=part.name, solid=part.solid, hint=_hint_of(desig),
                                       designation=desig), []
+        kind = _hole_part_kind(part)
         return (moved_holes(holes, placement, part.name, part.solid), None,
                 [moved_hardware(p, placement, part=part.name, kind=kind, material_hint=part.material_hint,
                                 solid=part.solid) for p in plugs])
 
 
-def _read(solid, name: str, label: str, kind: str | None, material_hint: str | None) -> tuple[list, object, list]:
-    """Holes, hardware and plugs of a solid read directly (see :meth:`_Readings.of`)."""
+def _hole_part_kind(part) -> str | None:
+    return hole_part_kind(part.name, getattr(part, "product", None), getattr(part, "instance", None))
+
+
+def _read(solid, part, label: str, of_definition: bool = False) -> tuple[list, object, list]:
+    """Holes, hardware and plugs of a solid read directly (see :meth:`_Readings.of`);
+    ``of_definition``: the solid is the part's definition, its plugs get their kind when placed."""
     faces = analyse_faces(solid)
-    part_holes = find_holes(solid, name, faces)
-    hw = recognise(name, faces, part_holes, solid, label=label)
+    part_holes = find_holes(solid, part.name, faces)
+    hw = recognise(part.name, faces, part_holes, solid, label=label)
     if hw is not None:
         return [], hw, []
-    return part_holes, None, find_plugs(name, faces, kind, material_hint, solid)
+    kind, hint = (None, None) if of_definition else (_hole_part_kind(part), part.material_hint)
+    return part_holes, None, find_plugs(part.name, faces, kind, hint, solid)
 
 
 def _scan(model: Model) -> ScanResult:
