@@ -138,3 +138,19 @@ def test_delabella_mesh_of_a_plate_with_holes_matches_the_default_algorithm(bed)
     mesh = trimesh.Trimesh(v, f, process=True)
     assert mesh.is_watertight
     assert mesh.volume == pytest.approx(volume(plate), rel=1e-3)
+
+
+def test_cone_regions_from_the_face_tree_equal_the_face_by_face_search(bed, monkeypatch):
+    """The tree of face boxes (sections.SectionCache.faces_near) only narrows the search: every
+    joint's cone gets the same regions and the same stiffness to the last bit."""
+    from geomjoint.analysis import analyze_job
+    from geomjoint.geometry import sections
+    from geomjoint.job import load_job
+
+    def cones(limit: int) -> dict:
+        monkeypatch.setattr(sections, "_FACES_WITHOUT_INDEX", limit)
+        return {r.id: (r.cone, r.member_stiffness) for r in analyze_job(load_job(bed), workers=1).results}
+
+    with_tree, face_by_face = cones(0), cones(10 ** 9)
+    assert with_tree == face_by_face
+    assert len(with_tree) == 6 and all(cone.stiffness > 0 for cone, _ in with_tree.values())

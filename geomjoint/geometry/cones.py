@@ -50,6 +50,7 @@ from geomjoint.geometry.sections import (
     KIND_CYLINDER,
     KIND_EXTRUSION,
     KIND_PLANE,
+    FaceCatalog,
     PlaneFrame,
     SectionCache,
     as_occ_shape,
@@ -489,6 +490,9 @@ class _LayerSampler:
         reach = cone.reach(za, zb)
         if len(faces.kind) == 0:
             return [(za, zb, True)]
+        # only faces within reach count below: look at those a tree of the faces' boxes gives
+        rows = self.cache.sections.faces_near(self.shape, cone.frame, tuple(cone.centre), reach)
+        faces = FaceCatalog(faces.kind[rows], faces.direction[rows], faces.point[rows], faces.corners[rows])
         rel = faces.corners - cone.p0  # F×8×3
         zc = rel @ cone.n
         zlo, zhi = zc.min(axis=1), zc.max(axis=1)

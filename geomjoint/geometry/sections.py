@@ -49,6 +49,9 @@ from geomjoint.geometry import topology
 #: 13.5 mm hole about 1e-4 relative)
 DEFAULT_DEFLECTION = 5e-4
 
+#: parts with at most this many faces are searched face by face (a tree of their faces costs more)
+_FACES_WITHOUT_INDEX = 64
+
 #: face kinds in a :class:`FaceCatalog`
 KIND_PLANE, KIND_CYLINDER, KIND_EXTRUSION, KIND_OTHER = 0, 1, 2, 3
 
@@ -384,6 +387,7 @@ class SectionCache:
     _sections: dict = field(default_factory=dict)
     _keep: dict = field(default_factory=dict)
     _definitions: dict = field(default_factory=dict)
+    _face_trees: dict = field(default_factory=dict)
 
     def faces(self, solid) -> FaceCatalog:
         shape = as_occ_shape(solid)
@@ -392,6 +396,28 @@ class SectionCache:
             self._keep[key] = shape
             self._faces[key] = face_catalog(shape)
         return self._faces[key]
+
+    def faces_near(self, solid, frame: PlaneFrame, centre: tuple[float, float], reach: float) -> np.ndarray:
+        """Indices of the faces of `solid` (rows of :meth:`faces`) whose bounding sphere may come
+        within `reach` mm of the axis through `centre` (plane coordinates of `frame`).
+
+        A superset of the faces whose bounding-box centre lies within reach + half its diagonal
+        of the axis (what the cone code keeps), found through a tree of the faces' boxes in the
+        plane, so that a joint in a plate with hundreds of holes looks at its own few faces.
+        """
+        catalog = self.faces(solid)
+        count = len(catalog.kind)
+        if count <= _FACES_WITHOUT_INDEX:
+            return np.arange(count)
+        key = (id(as_occ_shape(solid)), frame.key())
+        tree = self._face_trees.get(key)
+        if tree is None:
+            mid = catalog.corners.mean(axis=1)
+            half = 0.5 * np.linalg.norm(catalog.corners[:, 7] - catalog.corners[:, 0], axis=1)
+            cu, cv = mid @ np.asarray(frame.u), mid @ np.asarray(frame.v)
+            tree = self._face_trees[key] = shapely.STRtree(shapely.box(cu - half, cv - half, cu + half, cv + half))
+        x, y = centre
+        return np.sort(tree.query(shapely.box(x - reach, y - reach, x + reach, y + reach)))
 
     def section(self, solid, frame: PlaneFrame, offset: float) -> IndexedSection:
         """The whole-part section at `offset` (cached by shape, direction and offset to 1e-7 mm)."""
