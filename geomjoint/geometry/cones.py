@@ -184,6 +184,11 @@ class ConeCache:
 
     sections: SectionCache = field(default_factory=SectionCache)
     solids: dict = field(default_factory=dict)
+    #: a joint's layer regions and local (windowed, hole-filled) sections, by part, axis and
+    #: heights: the stiffness, its mid-grip and per-layer areas and the markup's cone solids
+    #: all ask for them
+    regions: dict = field(default_factory=dict)
+    locals: dict = field(default_factory=dict)
 
 
 # --------------------------------------------------------------------------------------
@@ -478,16 +483,25 @@ class _LayerSampler:
         self.rh = 0.5 * layer.hole_diameter
         # only neighbours that clamp the same part share its material
         self.planes = [p for p in planes if layer.part in p.parts]
-        self._prepared: dict = {}
         self._edges: dict = {}
         self._blocks: dict = {}
+        # what regions and sections depend on besides their heights: the part, the axis, the hole
+        self._key = (id(self.shape), cone.frame.key(), *(round(float(c), _KEY_DIGITS) for c in cone.p0),
+                     round(self.rh, _KEY_DIGITS))
 
     # -- region decomposition from the face catalogue --------------------------------
     def regions(self, za: float, zb: float) -> list[tuple[float, float, bool]]:
         """Split [za, zb] at perpendicular planar faces; flag pieces that are prismatic."""
         cone = self.cone
-        faces = self.cache.sections.faces(self.shape)
         reach = cone.reach(za, zb)
+        key = (*self._key, round(za, _KEY_DIGITS), round(zb, _KEY_DIGITS), round(reach, _KEY_DIGITS))
+        if key not in self.cache.regions:
+            self.cache.regions[key] = self._regions(za, zb, reach)
+        return list(self.cache.regions[key])
+
+    def _regions(self, za: float, zb: float, reach: float) -> list[tuple[float, float, bool]]:
+        cone = self.cone
+        faces = self.cache.sections.faces(self.shape)
         if len(faces.kind) == 0:
             return [(za, zb, True)]
         # only faces within reach count below: look at those a tree of the faces' boxes gives
@@ -528,14 +542,14 @@ class _LayerSampler:
         """Local section at height z (the cached whole-part one at `prismatic_mid` if given)."""
         cone = self.cone
         if prismatic_mid is not None:
-            key = round(prismatic_mid, _KEY_DIGITS)
-            if key not in self._prepared:
+            key = (*self._key, round(prismatic_mid, _KEY_DIGITS), round(size, _SIZE_KEY_DIGITS))
+            if key not in self.cache.locals:
                 offset = cone.frame.offset_of(cone.point(prismatic_mid))
                 whole = self.cache.sections.section(self.shape, cone.frame, offset)
                 cx, cy = cone.centre
                 windowed = whole.window(cx - size, cy - size, cx + size, cy + size)
-                self._prepared[key] = _localise(windowed, cone, self.rh)
-            return self._prepared[key]
+                self.cache.locals[key] = _localise(windowed, cone, self.rh)
+            return self.cache.locals[key]
         offset = cone.frame.offset_of(cone.point(z))
         cx, cy = cone.centre
         window = (cx - size, cy - size, cx + size, cy + size)
