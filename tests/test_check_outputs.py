@@ -154,3 +154,40 @@ def test_cone_regions_from_the_face_tree_equal_the_face_by_face_search(bed, monk
     with_tree, face_by_face = cones(0), cones(10 ** 9)
     assert with_tree == face_by_face
     assert len(with_tree) == 6 and all(cone.stiffness > 0 for cone, _ in with_tree.values())
+
+
+@pytest.fixture(scope="module")
+def bed16(tmp_path_factory):
+    tmp = tmp_path_factory.mktemp("bed16")
+    model = tmp / "bed16.step"
+    frame(16).export(str(model))
+    job = tmp / "bed16.toml"
+    job.write_text(JOB.format(model=model.as_posix()), encoding="utf-8")
+    return job
+
+
+def test_alike_joints_share_one_cone_integration_and_get_what_their_own_gives(bed16, monkeypatch):
+    """Joints alike in their own frames (same layers, neighbours and local sections: the four
+    inner bolts of a 4 x 4 bed) are integrated once (cones._likeness); each gets what
+    integrating it on its own gives."""
+    from geomjoint.analysis import analyze_job
+    from geomjoint.geometry import cones
+    from geomjoint.job import load_job
+
+    shared = analyze_job(load_job(bed16), workers=1)
+    assert len(shared.results) == 16
+    # corners, edges and the inner four: at most 9 classes of alike joints in a 4 x 4 grid
+    assert 1 <= len(shared.cone_cache.results) <= 9
+    monkeypatch.setattr(cones, "_likeness", lambda *args: None)
+    alone = analyze_job(load_job(bed16), workers=1)
+    assert not alone.cone_cache.results
+    by_id = {r.id: r for r in alone.results}
+    for r in shared.results:
+        a, b = r.cone, by_id[r.id].cone
+        for name in ("stiffness", "ideal_stiffness", "area_fraction_mid_grip", "lost_to_edges",
+                     "lost_to_neighbours"):
+            assert getattr(a, name) == pytest.approx(getattr(b, name), rel=1e-9, abs=1e-12), (r.id, name)
+        assert a.neighbours == b.neighbours
+        assert a.layer_areas == pytest.approx(b.layer_areas, rel=1e-9)
+        assert a.layer_ideal_areas == pytest.approx(b.layer_ideal_areas, rel=1e-9)
+        assert r.member_stiffness == pytest.approx(by_id[r.id].member_stiffness, rel=1e-9)

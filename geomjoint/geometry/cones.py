@@ -34,6 +34,7 @@ Source of the cone model: Budynas & Nisbett, *Shigley's Mechanical Engineering D
 """
 from __future__ import annotations
 
+import dataclasses
 import functools
 import math
 from dataclasses import dataclass, field
@@ -189,6 +190,8 @@ class ConeCache:
     #: all ask for them
     regions: dict = field(default_factory=dict)
     locals: dict = field(default_factory=dict)
+    #: clipped-cone results of joints alike in their own frames (:func:`_likeness`)
+    results: dict = field(default_factory=dict)
 
 
 # --------------------------------------------------------------------------------------
@@ -731,6 +734,70 @@ def clipped_cone_stiffness(joint: ConeJoint, neighbours: Sequence[ConeJoint] = (
     cache = cache or ConeCache()
     cone = _Cone(joint)
     planes = _bisector_planes(cone, neighbours)
+    key = _likeness(cone, planes, cache, gauss_points)
+    names = [layer.part for layer in joint.layers]
+    if key is not None and key in cache.results:
+        result, theirs = cache.results[key]
+        own = dict(zip(theirs, names))        # the alike joint's parts, layer by layer, are ours
+        return dataclasses.replace(
+            result, per_layer=[(own[part], v) for part, v in result.per_layer],
+            prismatic=[(own[part], a, b, flag) for part, a, b, flag in result.prismatic],
+            layer_sections=[(own[part], a, ideal) for part, a, ideal in result.layer_sections])
+    result = _clipped(joint, cone, planes, gauss_points, cache)
+    if key is not None:
+        cache.results[key] = (result, names)
+    return result
+
+
+def _geometry_key(local: _Local) -> tuple:
+    """A local section as numbers: its rings' vertex counts and coordinates (to _KEY_DIGITS)."""
+    rings = []
+    for poly in local.geom.geoms:
+        rings.append((len(poly.exterior.coords), *(len(r.coords) for r in poly.interiors)))
+    coords = np.round(shapely.get_coordinates(local.geom), _KEY_DIGITS) + 0.0    # no -0.0
+    return tuple(rings), coords.tobytes(), round(local.hole_area, _KEY_DIGITS)
+
+
+def _likeness(cone: _Cone, planes: list[_Plane], cache: ConeCache, gauss_points: int) -> tuple | None:
+    """What a joint's clipped-cone result depends on, in the joint's own frame, or None.
+
+    Two joints with the same key (the same layers, cone, neighbour planes and local sections
+    around their axes, to _KEY_DIGITS mm) get the same result: a bed of hundreds of alike
+    bolts integrates a handful of cones.  Only joints whose every region is prismatic (one
+    section holds over it) get a key; the others are integrated each on its own.
+    """
+    joint = cone.joint
+    frame = np.array([cone.u, cone.v, cone.n])
+    # parts by the first layer they make (the names themselves differ between alike joints:
+    # each has its own washers)
+    index: dict[str, int] = {}
+    for k, layer in enumerate(joint.layers):
+        index.setdefault(layer.part, k)
+    key: list = [gauss_points, *(round(x, _KEY_DIGITS) for x in (cone.L, cone.rw, cone.rf, cone.tan)),
+                 joint.tapped]
+    for plane in planes:
+        key.append((tuple(np.round(frame @ (plane.m - cone.p0), _KEY_DIGITS) + 0.0),
+                    tuple(np.round(frame @ plane.w, _KEY_DIGITS) + 0.0),
+                    tuple(sorted(index[p] for p in plane.parts if p in index))))
+    for layer in joint.layers:
+        key.append((index[layer.part], *(round(x, _KEY_DIGITS) for x in (layer.z_start, layer.z_end, layer.E,
+                                                                          layer.hole_diameter))))
+        za, zb = max(layer.z_start, 0.0), min(layer.z_end, cone.L)
+        if zb - za <= _LENGTH_TOL:
+            continue
+        sampler = _LayerSampler(cone, layer, planes, cache)
+        for a, b, prismatic in sampler.regions(za, zb):
+            if not prismatic:
+                return None
+            mid = 0.5 * (a + b)
+            key.append((round(a, _KEY_DIGITS), round(b, _KEY_DIGITS),
+                        _geometry_key(sampler.local_at(mid, mid, _window_size(cone.reach(a, b))))))
+    return tuple(key)
+
+
+def _clipped(joint: ConeJoint, cone: _Cone, planes: list[_Plane], gauss_points: int,
+             cache: ConeCache) -> ConeResult:
+    """:func:`clipped_cone_stiffness` of one joint, integrated."""
     per_layer: dict[int, float] = {}
     samples: list[tuple[float, float, float]] = []
     regions_out: list[tuple[str, float, float, bool]] = []
