@@ -662,7 +662,7 @@ def scan_table(result: ScanResult) -> str:
     """A readable table: one block per joint (id, kind, size, grip, layers, findings)."""
     lines = [f"{result.source}: {len(result.model.parts)} parts, {len(result.joints)} joints"]
     lines += [f"{f.severity:<5} {f.code:<18} {f.message}" for f in result.findings]
-    head = f"{'id':<4} {'kind':<8} {'size':<16} {'hole':>7} {'grip':>8}  layers"
+    head = f"{'id':<4} {'kind':<8} {'size':<16} {'head':<11} {'hole':>7} {'grip':>8}  layers"
     lines += [head, "-" * len(head)]
     for j in result.joints:
         layers = " | ".join(f"{l.part} {l.thickness:.2f}" + ("" if l.role == "member" else f" ({l.role})")
@@ -670,7 +670,8 @@ def scan_table(result: ScanResult) -> str:
         size = j.nominal or "?"
         if j.bolt:
             size += f"x{j.bolt.length:g}"
-        lines.append(f"{j.id:<4} {j.kind:<8} {size:<16} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
+        kind = ("stud" if j.bolt.nut_head else j.bolt.head_kind) if j.bolt else "-"
+        lines.append(f"{j.id:<4} {j.kind:<8} {size:<16} {kind:<11} {j.hole_diameter:>7.2f} {j.grip:>8.3f}  {layers}")
         for f in j.findings:
             lines.append(f"{'':<4} {f.severity:<5} {f.code:<18} {f.message}")
     if result.set_aside:
