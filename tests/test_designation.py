@@ -22,6 +22,8 @@ from geomjoint.errors import InputError
     ("ISO 4762 - M5 x 20 - 12.9", "bolt", "socket", "ISO 4762", "M5", 20.0),
     ("01_01_09-cylinder_screw_M5x25-DIN912", "bolt", "socket", "ISO 4762", "M5", 25.0),
     ("DIN EN ISO 4762 M6x20", "bolt", "socket", "ISO 4762", "M6", 20.0),
+    # DIN 7984 low socket heads have the d_k and k of ISO 1207 cheese heads (from memory)
+    ("DIN 7984 M8x20", "bolt", "cheese", "DIN 7984", "M8", 20.0),
     # ISO 7380-1:2011, ISO 10642:2004 / DIN 7991, ISO 7045 / ISO 1580 / ISO 1207, ISO 4162 / EN 1665
     ("ISO 7380-1 M5x10", "bolt", "button", "ISO 7380", "M5", 10.0),
     ("DIN 7991 M6x16", "bolt", "countersunk", "ISO 10642", "M6", 16.0),

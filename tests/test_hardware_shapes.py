@@ -24,7 +24,7 @@ def built(tmp_path_factory):
     out = {}
     folder = tmp_path_factory.mktemp("hardware")
     for kind in ("hex", "socket", "button", "pan", "cheese", "flange", "countersunk", "square nut",
-                 "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell", "helical thread"):
+                 "flange nut", "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell", "helical thread"):
         path = folder / f"{kind.replace(' ', '_')}.step"
         expect = mc.hardware_model(path, kind)
         out[kind] = (path, expect, scan_model(path))
@@ -36,7 +36,7 @@ def _codes(joint):
 
 
 @pytest.mark.parametrize("kind", ["hex", "socket", "button", "pan", "cheese", "flange", "countersunk",
-                                  "square nut", "lock nut", "shell", "helical thread"])
+                                  "square nut", "flange nut", "lock nut", "shell", "helical thread"])
 def test_each_head_kind_is_read_with_its_size_and_length(built, kind):
     _, expect, scan = built[kind]
     [joint] = scan.joints
@@ -93,12 +93,17 @@ def test_button_pan_and_cheese_by_the_catalogue_tables(built):
     assert widths == pytest.approx({"button": 9.5, "pan": 8.0, "cheese": 8.5})
 
 
-@pytest.mark.parametrize("kind, nut_kind", [("square nut", "square"), ("lock nut", "lock"), ("hex", "hex")])
+@pytest.mark.parametrize("kind, nut_kind", [("square nut", "square"), ("lock nut", "lock"), ("hex", "hex"),
+                                            ("flange nut", "flange")])
 def test_nut_kinds(built, kind, nut_kind):
     nut = built[kind][2].joints[0].nut
     assert nut is not None and nut.kind == nut_kind
     if kind == "square nut":
         assert nut.width == pytest.approx(10.0)        # DIN 557 M6 s = 10 (from memory)
+    if kind == "flange nut":
+        # ISO 4161 M8: the flange d_c 17.9 bears (from memory); the joint's nut face is the flange
+        assert nut.bearing_diameter == pytest.approx(17.9)
+        assert built[kind][2].joints[0].nut_bearing_diameter == pytest.approx(17.9)
 
 
 @pytest.mark.parametrize("kind", ["set screw", "set screw unnamed"])
@@ -259,3 +264,16 @@ def test_a_named_head_kind_the_catalogue_lacks_at_that_size_is_a_catalogue_gap(t
     assert "name-mismatch" not in _codes(joint)
     [gap] = [f for f in joint.findings if f.code == "catalog-gap" and "button" in f.message]
     assert "BHCS" in gap.message and "M2" in gap.message
+
+
+def test_a_low_socket_head_is_read_as_the_cheese_head_it_matches(tmp_path):
+    """DIN 7984 M8: d_k 13, k 5 (from memory), the ISO 1207 cheese head's d_k and k; no mismatch."""
+    path = tmp_path / "low_head.step"
+    a = cq.Assembly(name="low_head")
+    top = mc._plates(a, 9.0, (8.0, 8.0))
+    a.add(mc.socket_screw_as_library(8.0, 25.0, 13.0, 5.0, 6.0), name="DIN 7984 M8x25",
+          loc=cq.Location(cq.Vector(0, 0, top)))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.bolt.head_kind == "cheese" and joint.bolt.head_height == pytest.approx(5.0)
+    assert "name-mismatch" not in _codes(joint)

@@ -836,6 +836,16 @@ def chamfered_hex_nut(bore: float, s: float, m: float):
             .faces(">Z").workplane().hole(bore))
 
 
+def flange_nut(bore: float, s: float, m: float, dc: float, flange: float = 1.0):
+    """An ISO 4161 hexagon nut with flange: a round flange of diameter ``dc`` under the hexagon."""
+    import cadquery as cq
+
+    e = s / math.cos(math.radians(30))
+    body = cq.Workplane("XY").polygon(6, e).extrude(m - flange).translate((0, 0, flange))
+    body = body.union(_revolved([(0, 0), (dc / 2, 0), (dc / 2, 0.4 * flange), (e / 2, flange), (0, flange)]))
+    return body.faces(">Z").workplane().hole(bore)
+
+
 def set_screw(d: float, length: float, key: float, socket: bool = True):
     """An ISO 4026 flat-point set screw: a plain cylinder (thread not drawn), a hexagon socket
     at z = length, chamfered ends."""
@@ -877,7 +887,7 @@ def hardware_model(path: Path, kind: str) -> dict:
     ISO 4032 nut), "socket" (ISO 4762 M8x25 with a chamfered head and socket, tapped),
     "button" (ISO 7380 M5x12), "pan" (ISO 7045 M4x10), "cheese" (ISO 1207 M5x12),
     "flange" (ISO 4162 M8x25, nut), "countersunk" (ISO 10642 M6x20 in a countersink, tapped),
-    "square nut" (ISO 4762 M6x20 with a DIN 557 nut), "lock nut" (ISO 4017 M8x30 with an ISO 7040
+    "square nut" (ISO 4762 M6x20 with a DIN 557 nut), "flange nut" (ISO 4017 M8x30 with an ISO 4161 flange nut), "lock nut" (ISO 4017 M8x30 with an ISO 7040
     nut), "set screw" (ISO 4026 M4x6 in the tapped hole of a hub on a shaft), "set screw unnamed",
     "stud" (DIN 938 M8 into a tapped block, a plate, an ISO 4032 nut), "shell" (a socket screw
     exported as a surface body, closed), "open shell" (the same with its top face missing),
@@ -938,6 +948,12 @@ def hardware_model(path: Path, kind: str) -> dict:
         a.add(socket_screw_as_library(6.0, 20.0, 10.0, 6.0, 5.0), name="ISO 4762 M6x20", loc=cq.Location(cq.Vector(0, 0, top)))
         a.add(square_nut(5.0, 10.0, 5.0), name="square nut M6", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
         expect.update(head="socket", nominal="M6", length=20.0, nut_kind="square")
+    elif kind == "flange nut":
+        # ISO 4161 M8: s 13, m 8, d_c 17.9 (from memory), under an ISO 4017 M8x30
+        top = _plates(a, 9.0, (8.0, 8.0))
+        a.add(hex_bolt_as_library(8.0, 30.0, 13.0, 5.3, 11.8, 0.4), name="ISO 4017 M8x30", loc=cq.Location(cq.Vector(0, 0, top)))
+        a.add(flange_nut(8.0, 13.0, 8.0, 17.9), name="DIN 6923 M8", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+        expect.update(head="hex", nominal="M8", length=30.0, nut_kind="flange", nut_bearing=17.9)
     elif kind == "lock nut":
         # ISO 7040 M8: s 13, h 9.5 (from memory): a nylon-insert nut modelled as one body
         top = _plates(a, 9.0, (8.0, 8.0))
