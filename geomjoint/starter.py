@@ -40,6 +40,9 @@ def starter_text(model_path: Path, scan) -> str:
         'criterion = "goodman"         # goodman | gerber | asme-elliptic | soderberg',
         'member_stiffness = "frustum"  # frustum | exponential | vdi | cone (clipped by the real parts) | fe',
         "reliability = 0.99",
+        'thickness_tolerance = "m"     # ISO 2768-1 f | m | c | v, or "±0.2 mm"; per part in [tolerances]',
+        '# position_tolerance = "0.2 mm"   # hole position tolerance zone (checked when given); per part in [positions]',
+        '# stackup_method = "statistical"  # default: the worst case decides the stack-up limits',
         "",
         "[materials]                   # part name (or glob) -> material; bolts, nuts and washers need none",
     ]

@@ -187,6 +187,7 @@ def test_init_writes_starter_and_never_overwrites(tmp_path, capsys):
     assert "J04" in text
     job = load_job(starter)              # the starter is a valid job as written
     assert job.model == model.resolve()
+    assert job.defaults["thickness_tolerance"] == "m"   # the tolerance keys are shown where they are set
     before = starter.read_bytes()
     assert main(["init", str(model)]) == 2
     assert starter.read_bytes() == before
