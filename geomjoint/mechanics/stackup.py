@@ -268,16 +268,19 @@ def position_result(spec: JointSpec) -> PositionResult | None:
         P = spec.clamped_thickness
         D = max(min(spec.fastener.length - P - spec.gaps, spec.layers[-1].thickness), 0.0) \
             if spec.fastener.length else spec.layers[-1].thickness
-        lean = 1.0 if st.projected or D <= 0 else 1.0 + 2.0 * P / D
+        projected = st.projected or D <= 0
         t_fixed = positions[-1] or 0.0
     rows = []
     for i in clear:
         available = holes[i] - 2.0 * offsets[i] - F
         t = positions[i]
         if spec.tapped:
-            afford = (T.fixed_fastener_tolerance(available + F, F) if st.projected or D <= 0 else
+            afford = (T.fixed_fastener_tolerance(available + F, F) if projected else
                       T.fixed_fastener_tolerance_unprojected(available + F, F, P, D))
-            needed = ((t or 0.0) + t_fixed * lean) if (t is not None or positions[-1] is not None) else None
+            needed = None
+            if t is not None or positions[-1] is not None:   # the clearance both tolerances take, H - F
+                needed = T.fixed_fastener_clearance_needed(F, t or 0.0, t_fixed, None if projected else P,
+                                                           None if projected else D) - F
         else:
             afford = T.floating_fastener_tolerance(available + F, F)
             needed = t
