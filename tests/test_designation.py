@@ -43,6 +43,9 @@ from geomjoint.errors import InputError
     ("HNUT 0.2500-20-D-N", "nut", "hex", None, "1/4-20 UNC", None),
     ("M6 button head socket cap screw", "bolt", "button", None, "M6", None),
     ("M10x1.25x40 hex head bolt", "bolt", "hex", None, "M10x1.25", 40.0),
+    # tapping screws: ISO 7049 (DIN 7981) "ST3.5 x 13" (ISO 1478 sizes, no machine thread; from memory)
+    ("ISO 7049 ST3.5x13", "bolt", "pan", "ISO 7049", None, 13.0),
+    ("DIN 7982 ST4.2x16", "bolt", "countersunk", "ISO 7050", None, 16.0),
     # ISO 4026:2003 / ISO 4029:2003 set screws, designation "ISO 4029 - M6 x 12 - 45H" (from memory)
     ("ISO 4026 M4x6", "set screw", "flat", "ISO 4026", "M4", 6.0),
     ("ISO 4029 - M6 x 12 - 45H", "set screw", "cup", "ISO 4029", "M6", 12.0),

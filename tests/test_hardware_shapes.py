@@ -277,3 +277,13 @@ def test_a_low_socket_head_is_read_as_the_cheese_head_it_matches(tmp_path):
     [joint] = scan_model(path).joints
     assert joint.bolt.head_kind == "cheese" and joint.bolt.head_height == pytest.approx(5.0)
     assert "name-mismatch" not in _codes(joint)
+
+
+@pytest.mark.parametrize("name", ["Part12", "M3x10 standoff"])
+def test_a_male_female_hex_standoff_is_no_bolt(tmp_path, name):
+    """A hex body 10 mm high (3.3 d) on an M3 stud: ISO 4014 hex heads are 0.6-0.7 d high (from
+    memory); the standoff is a part with a tapped hole, not a hex bolt."""
+    body = cq.Workplane("XY").polygon(6, 5.5 / 0.8660254).extrude(10.0).faces(">Z").workplane().hole(2.5, 6.0)
+    standoff = body.union(cq.Workplane("XY").circle(1.5).extrude(-6.0))
+    scan = _single_part(tmp_path, standoff, name)
+    assert not scan.bolts and not scan.nuts

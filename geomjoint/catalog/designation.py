@@ -135,6 +135,8 @@ _METRIC = re.compile(rf"(?<![A-Za-z0-9])M\s?({_NUM})(?:\s*[xX×*]\s*({_NUM}))?(?
 #: the ASME metric fastener standards' form one CAD library names its parts by:
 #: "B18.3.1M - 5 x 0.8 x 16" (ASME B18.3.1M socket head, M5 x 0.8, 16 mm long)
 _ASME_METRIC = re.compile(rf"B18\.[\d.]+M\s*-\s*({_NUM})\s*[xX×]\s*({_NUM})(?:\s*[xX×]\s*({_NUM}))?")
+#: a tapping screw's size (ISO 1478 ST sizes: "ST3.5x13"): no machine thread, a length
+_TAPPING = re.compile(rf"(?<![A-Za-z0-9])ST\s?({_NUM})\s*[xX×*]\s*({_NUM})(?![\d.,])")
 _INCH_LEN = r"\d+[ -]\d+/\d+|\d+/\d+|\d*\.\d+|\d+"
 _INCH = re.compile(rf"(?<![\w.])(#\s?\d{{1,2}}|\d+/\d+|\d*\.\d+|\d)\s*(?:\"|in)?\s*-\s*(\d{{2,3}})(?![\d/])"
                    rf"(?:\s*(?:UNC|UNF))?(?:\s*[xX×]\s*({_INCH_LEN})\s*(?:\"|in(?:ch)?)?)?")
@@ -280,6 +282,10 @@ def parse_designation(name: str | None) -> Designation | None:
         bare = _bare_size(text, std_end, std)
         if bare:
             tdes, d = bare
+    if tdes is None and family == "bolt":
+        tapping = _TAPPING.search(text)
+        if tapping:                # a tapping screw: its length, no catalogue thread
+            length = float(tapping.group(2).replace(",", "."))
     if family in ("nut", "washer"):
         length = None             # a nut's "M12x1.5" or a washer's size has no length
     if std is None and family is None and tdes is None:

@@ -79,6 +79,10 @@ SIZE_TOL = 0.03
 #: lowest of the catalogue's heads; wafer heads go down to about 0.3 d; thinner collars are no heads;
 #: common practice)
 MIN_HEAD_HEIGHT_RATIO = 0.25
+#: hexagon and flange heads are at most this high in shank diameters (ISO 4014 k ~ 0.6-0.7 d,
+#: ISO 4162 flange heads up to 1.08 d at M5; from memory): a taller hexagon on a shank is a
+#: standoff or a spacer, no head
+HEX_MAX_HEIGHT_RATIO = 1.2
 #: included angles of countersunk heads, deg: 90 (ISO 10642, ISO 7046-1, ISO 2009) and 82
 #: (ASME B18.3 flat socket and ASME B18.6.3 flat machine screws), each within CSK_ANGLE_TOL
 COUNTERSUNK_ANGLES = (90.0, 82.0)
@@ -587,6 +591,8 @@ def _headless_or_bolt(part, o: _Outline, shank_secs, solid, desig, hint):
     length = abs(tip - t_bear)
     af = _prism_width(o, [hf for hf in head_faces], 6)
     if af is not None and MIN_HEAD_WIDTH_RATIO * 2 * r_nom <= af <= MAX_HEAD_WIDTH_RATIO * 2 * r_nom:
+        if k > HEX_MAX_HEIGHT_RATIO * 2 * r_nom:
+            return None                  # a male-female hex standoff, a hex spacer on a pin
         corners = af / math.cos(math.radians(30))
         if R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bd = "flange", 2 * (bearing[1] if bearing is not None else R)
