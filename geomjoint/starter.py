@@ -73,6 +73,10 @@ def starter_text(model_path: Path, scan) -> str:
         fails = [f.code for f in j.findings if f.severity == "fail"]
         note = f"; findings: {', '.join(fails)}" if fails else ""
         lines.append(f"#   {j.id}: {j.kind}, {j.nominal or 'size unknown'}{source}, grip {j.grip:.1f} mm{note}")
+    aside = getattr(scan, "set_aside", [])
+    if aside:
+        lines += ["", "# Holes set aside as no joints (a [[fasteners]] rule naming the id and a fastener brings one in):"]
+        lines += [f"#   {a.id}: {a.code}: {a.reason}" for a in aside]
     lines += [
         "",
         "# Fastener overrides by joint id or glob (a modelled bolt is used when there is one):",

@@ -289,3 +289,41 @@ def test_a_thread_forming_screw_in_a_plastic_boss(tmp_path):
     named.write_text(text)
     [j] = scan_model(named).joints
     assert (j.kind, j.thread_method) == ("tapped", "thread-forming")
+
+
+def test_the_starter_job_lists_the_holes_set_aside(housing, tmp_path):
+    path, _ = housing
+    model = tmp_path / path.name
+    model.write_bytes(path.read_bytes())
+    assert main(["init", str(model)]) == 0
+    text = model.with_suffix(".toml").read_text()
+    assert "# Holes set aside" in text
+    assert "#   H01: holds-a-part:" in text and "not-a-bolt-hole" in text
+
+
+def test_a_plate_with_a_slot_under_the_head_is_clamped(tmp_path):
+    path = tmp_path / "fixture.step"
+    facts = mc.quirk_slotted_clamp(path)
+    [j] = scan_model(path).joints
+    assert [(l.part, l.role) for l in j.layers] == [(facts["clamped"], "member"), ("base_steel", "tapped")]
+    assert j.layers[0].open and j.layers[0].thickness == pytest.approx(facts["thickness"])
+    assert j.grip == pytest.approx(facts["thickness"]) and not j.gaps
+    assert "open-hole" in codes(j) and "gap" not in codes(j) and "hole-not-standard" not in codes(j)
+    code, doc = check(tmp_path, path, '"*_steel" = "steel"', extra='[defaults]\ngrade = "8.8"')
+    assert code in (0, 1) and not doc.get("not_analysed") and len(doc["joints"]) == 1
+
+
+def test_a_line_to_line_hole_stands_for_a_medium_clearance_when_judging_alignment(tmp_path):
+    """An M5 screw through a cover hole drawn at 5.0 mm (its nominal), 0.2 mm off the 4.2 mm
+    tapped hole: the drawn hole stands for a real clearance, taken as the ISO 273 medium 5.5 mm
+    (from memory), which passes 0.25 mm; 0.4 mm off it does not."""
+    for offset, fails in ((0.2, False), (0.4, True)):
+        path = tmp_path / f"off{offset:g}.step"
+        a = cq.Assembly(name="offset")
+        a.add(mc.plate([(offset, 0.0)], 6.0, dia=5.0, size=(20.0, 20.0, 3.0)), name="cover")
+        a.add(cq.Workplane("XY").box(20, 20, 6, centered=(True, True, False)).faces(">Z").workplane().hole(4.2, 5.0),
+              name="base")
+        a.add(mc._socket_screw(5.0, 7.0, 8.5, 5.0), name="socket screw M5x7", loc=cq.Location(cq.Vector(0, 0, 9)))
+        mc.write_step(a, path)
+        [j] = scan_model(path).joints
+        assert j.kind == "tapped" and ("misaligned" in codes(j)) == fails, offset

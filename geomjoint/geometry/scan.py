@@ -37,8 +37,10 @@ from geomjoint.geometry.stacks import (
     Plug,
     SetAside,
     find_plugs,
+    add_open_layer,
     find_stacks,
     number,
+    open_hole_layer,
 )
 from geomjoint.geometry.placed import Placement, definition, movable, moved_hardware, moved_holes
 from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
@@ -67,6 +69,8 @@ FINDING_CODES = {
     "thread-in-hole": "info: where the thread of a tapped joint is: a screw in a hole of its tap-drill, minor or "
                       "nominal size, a thread-forming screw in plastic, or an insert (no nut is assumed); warn: the "
                       "screw cannot pass a last hole of no thread size, taken as tapped",
+    "open-hole": "info: a part clamped under a head has no whole hole around the bolt (a slot or notch); "
+                 "its hole is taken as the bolt's diameter",
     "not-a-bolt-hole": "info (model): coaxial holes with no fastener modelled whose bores match no clearance hole "
                        "and no tap drill of any catalogue size (a shaft bore, bearing seat, nozzle or vent): not a joint",
     "holds-a-part": "info (model): coaxial holes with no fastener modelled holding a part that is no fastener "
@@ -209,6 +213,14 @@ def _scan(model: Model) -> ScanResult:
     bolts += studs
     nuts = [n for n in nuts if n.part not in head_nuts]
     joints, aside = find_stacks(holes, bolts, nuts, washers, hints, plugs)
+    # a part clamped under a head with a slot or notch instead of a whole hole
+    hardware_parts = {h.part for h in (*bolts, *nuts, *washers, *headless)}
+    members = [(p.name, p.solid, p.material_hint) for p in model.parts if p.name not in hardware_parts]
+    classifiers: dict = {}
+    for j in joints:
+        layer = open_hole_layer(j, members, classifiers)
+        if layer is not None:
+            add_open_layer(j, layer)
     # the file's unit suggests the fastener system when a size is inferred from holes
     system = {"inch": "inch", "foot": "inch", "mm": "metric", "cm": "metric", "m": "metric"}.get(
         model.file_unit or "")
@@ -229,6 +241,19 @@ def _scan(model: Model) -> ScanResult:
                       washers=washers, hole_count=len(holes), unmatched_hardware=loose,
                       headless=[h for h in headless if h.part not in stud_parts],
                       findings=findings, set_aside=aside, system=system)
+
+
+def _clearance_for_alignment(layer, t, d: float) -> float:
+    """The hole a layer gives the bolt to pass an offset, mm: as modelled, but a clamped hole drawn
+    line to line with the bolt (at its nominal, or open) stands for a real clearance hole, taken
+    as the ISO 273 / ASME B18.2.8 medium one of the size."""
+    line_to_line = layer.open or abs(layer.hole_diameter - d) <= THREAD_MATCH_TOL
+    if t is None or not line_to_line:
+        return layer.hole_diameter
+    try:
+        return max(layer.hole_diameter, catalog.clearance_hole(t, "medium"))
+    except InputError:
+        return layer.hole_diameter
 
 
 def _unfinished_reason(j: Joint) -> str:
@@ -470,10 +495,15 @@ def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
     # misalignment: pairwise offset beyond the sum of the radial clearances
     if d is not None:
         failing = []
+
+        def radial(layer) -> float:
+            if layer.role == "tapped":
+                return 0.0
+            return max(0.0, (_clearance_for_alignment(layer, t, d) - d) / 2)
+
         for i, a in enumerate(j.layers):
             for b in j.layers[i + 1:]:
-                ca = 0.0 if a.role == "tapped" else max(0.0, (a.hole_diameter - d) / 2)
-                cb = 0.0 if b.role == "tapped" else max(0.0, (b.hole_diameter - d) / 2)
+                ca, cb = radial(a), radial(b)
                 off = math.dist(a.position, b.position)
                 if off > ca + cb + LINEAR_TOL:
                     # name a pair of clamped parts rather than a washer when both fail
@@ -508,7 +538,8 @@ def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
         except InputError:
             pass
     for l in j.layers:
-        if l.role == "member" and std and not any(abs(l.hole_diameter - v) <= CLEARANCE_MATCH_TOL for v in std.values()):
+        if l.role == "member" and std and not l.open and \
+                not any(abs(l.hole_diameter - v) <= CLEARANCE_MATCH_TOL for v in std.values()):
             series = ", ".join(f"{k} {v:g}" for k, v in std.items())
             add(Finding("warn", "hole-not-standard",
                         f"{l.part}: hole {l.hole_diameter:.2f} mm is not a standard clearance for {t.designation} ({series})"))

@@ -37,6 +37,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 from scipy.spatial import cKDTree
+from OCP.gp import gp_Pnt
 from OCP.TopoDS import TopoDS_Shape
 
 from geomjoint.catalog.hole_parts import FORMING_KIND, hole_part_kind
@@ -80,6 +81,14 @@ LIGHT_ALLOYS = ("aluminium", "cast aluminium")
 #: a clamped hole wider than this many nominal diameters is no clearance hole of that size (ISO 273
 #: coarse holes are at most 1.25 d, at M1.6; a counterbore is a feature of its own)
 CLEARANCE_MAX_RATIO = 1.5
+#: probes for a part clamped under a head without a whole hole (a slot or notch): this far
+#: outside the shank, at these shares of the head gap and this many angles around the axis
+OPEN_PROBE_OUTSIDE = 0.3            # mm
+OPEN_PROBE_SHARES = (0.1, 0.5, 0.9)
+OPEN_PROBE_ANGLES = 12
+#: a part is clamped in the gap when its material is at least at this many probe angles at every
+#: share (the two sides of a slot, or a notch's three)
+OPEN_PROBE_MIN_HITS = 2
 #: prefix of the ids of stacks set aside (not joints)
 SET_ASIDE_PREFIX = "H"
 
@@ -108,6 +117,7 @@ class Layer:
     position: tuple[float, float] = (0.0, 0.0)  # hole axis in a plane normal to the joint axis, mm
     hole: Hole | None = field(default=None, repr=False, compare=False)
     solid: TopoDS_Shape | None = field(default=None, repr=False, compare=False)
+    open: bool = False         # no whole hole around the bolt (a slot or notch): hole_diameter is the bolt's
 
     @property
     def thickness(self) -> float:
@@ -774,6 +784,51 @@ def number(joints: list[Joint], aside: list[SetAside]) -> None:
     aside.sort(key=lambda a: key(a.joint))
     for k, a in enumerate(aside, 1):
         a.id = a.joint.id = f"{SET_ASIDE_PREFIX}{k:02d}"
+
+
+def open_hole_layer(j: Joint, parts, cache: dict | None = None) -> Layer | None:
+    """A part clamped between a modelled head and the first layer of its stack whose hole around
+    the bolt is not whole (a slot, a notch, a hole cut by the part's edge): the material beside
+    the shank fills the gap under the head.  ``parts``: (name, located solid, material hint) of
+    the parts that are no hardware; ``cache`` keeps each part's point classifier between joints.
+    Returns the layer (its hole taken as the bolt's diameter), or None."""
+    from geomjoint.geometry.holes import _Inside
+
+    if j.bolt is None or not j.layers or j.layers[0].start <= GAP_TOL:
+        return None
+    g = j.layers[0].start
+    e = np.asarray(j.direction, dtype=float)
+    p0 = np.asarray(j.point, dtype=float)
+    u, v = axis_frame(e)
+    r = j.bolt.d / 2 + OPEN_PROBE_OUTSIDE
+    angles = [2 * math.pi * k / OPEN_PROBE_ANGLES for k in range(OPEN_PROBE_ANGLES)]
+    rings = [[p0 + f * g * e + r * (math.cos(a) * u + math.sin(a) * v) for a in angles] for f in OPEN_PROBE_SHARES]
+    in_stack = {l.part for l in j.layers} | {j.bolt.part}
+    cache = {} if cache is None else cache
+    for name, solid, hint in parts:
+        if name in in_stack:
+            continue
+        inside = cache.get(name)
+        if inside is None:
+            inside = cache[name] = _Inside(solid)
+        if inside.box.IsOut(gp_Pnt(*map(float, rings[1][0]))) and inside.box.IsOut(gp_Pnt(*map(float, rings[1][6]))):
+            continue                           # far from this joint
+        if all(sum(inside(q) for q in ring) >= OPEN_PROBE_MIN_HITS for ring in rings):
+            return Layer(name, "member", 0.0, g, j.bolt.d, True, material_hint=hint, solid=solid, open=True)
+    return None
+
+
+def add_open_layer(j: Joint, layer: Layer) -> None:
+    """Put the open-hole layer under the head: the gap it fills and its finding go."""
+    j.layers.insert(0, layer)
+    first = j.layers[1].part
+    j.gaps = [gp for gp in j.gaps if gp.between != (j.bolt.part, first)]
+    j.findings = [f for f in j.findings if not (f.code == "gap" and j.bolt.part in f.message and first in f.message)]
+    j.findings.append(Finding("info", "open-hole", f"{layer.part} is clamped under the head of {j.bolt.part} "
+                                                   f"({layer.thickness:.2f} mm) but has no whole hole around it "
+                                                   f"(a slot or notch): its hole is taken as the bolt's "
+                                                   f"{j.bolt.d:.2f} mm"))
+    j.hole_diameter = min(l.hole_diameter for l in j.layers if l.role == "member")
 
 
 def _per_bolt(group: list[_Item]) -> list[list[_Item]]:

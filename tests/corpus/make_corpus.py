@@ -1154,6 +1154,23 @@ def inch_robot_model(path: Path) -> dict:
     return {"nominal": "#10-32 UNF", "length": 0.5 * inch, "head": "button", "nut": "#10-32 square nut"}
 
 
+def quirk_slotted_clamp(path: Path) -> dict:
+    """A 3 mm clamp plate with a 5.5 mm wide adjusting slot (no whole hole around the screw) held
+    on a 12 mm base by an M5x10 socket screw into the base's 4.2 mm tap drill (d - P), as fixtures
+    are built (invented demo; ISO 4762 M5 dk 8.5, k 5, from memory)."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="fixture")
+    clamp = (cq.Workplane("XY").box(40, 20, 3, centered=(True, True, False)).translate((0, 0, 12))
+             .faces(">Z").workplane().slot2D(16.0, 5.5).cutThruAll())
+    a.add(clamp, name="clamp_plate_steel")
+    a.add(cq.Workplane("XY").box(40, 20, 12, centered=(True, True, False)).faces(">Z").workplane().hole(4.2, 10.0),
+          name="base_steel")
+    a.add(_socket_screw(5.0, 10.0, 8.5, 5.0), name="socket screw M5x10", loc=cq.Location(cq.Vector(0, 0, 15)))
+    write_step(a, path)
+    return {"clamped": "clamp_plate_steel", "thickness": 3.0}
+
+
 def main() -> None:
     cases = step_cases() + job_cases()
     (HERE / "manifest.json").write_text(json.dumps(cases, indent=1) + "\n")
