@@ -287,3 +287,18 @@ def test_a_male_female_hex_standoff_is_no_bolt(tmp_path, name):
     standoff = body.union(cq.Workplane("XY").circle(1.5).extrude(-6.0))
     scan = _single_part(tmp_path, standoff, name)
     assert not scan.bolts and not scan.nuts
+
+
+@pytest.mark.parametrize("af_in, kind", [(0.75, "hex"), (0.875, "heavy hex")])
+def test_inch_hex_and_heavy_hex_heads_by_their_width(tmp_path, af_in, kind):
+    # ASME B18.2.1 1/2 in: hex bolt F = 3/4 in, heavy hex F = 7/8 in, H = 11/32 in (from memory)
+    path = tmp_path / "inch_hex.step"
+    a = cq.Assembly(name="inch_hex")
+    top = mc._plates(a, 14.0, (12.7, 12.7), (60.0, 60.0))
+    a.add(mc.hex_bolt_as_library(12.7, 50.8, af_in * 25.4, 0.344 * 25.4, 0.95 * af_in * 25.4, 0.4),
+          name="1/2-13 x 2 hex bolt", loc=cq.Location(cq.Vector(0, 0, top)))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.bolt.head_kind == kind and joint.nominal == "1/2-13 UNC"
+    assert joint.bolt.length == pytest.approx(50.8)
+    assert "name-mismatch" not in _codes(joint)

@@ -597,7 +597,7 @@ def _headless_or_bolt(part, o: _Outline, shank_secs, solid, desig, hint):
         if R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bd = "flange", 2 * (bearing[1] if bearing is not None else R)
         else:
-            kind, bd = "hex", min(2 * bearing[1], af) if bearing is not None else af
+            kind, bd = _hex_kind(af, t), min(2 * bearing[1], af) if bearing is not None else af
         return Bolt(part, o.ref, direction, 2 * r_nom, length, kind, k, af, bd,
                     o.ref + t_bear * o.d, hint, solid, desig)
     kind = _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top)
@@ -699,6 +699,21 @@ def _prism_width(o: _Outline, head_faces, n_sides: int, height: float | None = N
         if dists[i + n_sides - 1] - dists[i] < 10 * LINEAR_TOL * max(1.0, dists[i] / 10):
             return 2 * float(np.mean(dists[i:i + n_sides]))
     return None
+
+
+def _hex_kind(af: float, t) -> str:
+    """"heavy hex" when the width across flats is nearer the catalogue's heavy hex head of the
+    size than its regular one (ASME B18.2.1 heavy hex F = 1.5 D + 1/8 in against 1.5 D), else "hex"."""
+    from geomjoint import catalog
+    from geomjoint.errors import InputError
+
+    if t is None:
+        return "hex"
+    try:
+        regular, heavy = catalog.head(t, "hex").width, catalog.head(t, "heavy hex").width
+    except InputError:
+        return "hex"
+    return "heavy hex" if abs(af - heavy) < abs(af - regular) else "hex"
 
 
 def _thread_of(d_model: float, desig):
