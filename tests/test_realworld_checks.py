@@ -108,6 +108,25 @@ def test_a_hole_narrower_than_the_bolt_is_still_refused():
         hole_diameter_of({"hole_fit": "medium"}, {"hole_diameter": 4.9}, m5, False, "j.toml: joint J01")
 
 
+# ----------------------------------------------------------------------------- a screw in a notch at a part's edge
+
+def test_a_screw_through_a_notch_never_stops_the_check(tmp_path, capsys):
+    model = tmp_path / "cutter_stack.step"
+    mc.quirk_notched_clamp(model)
+    code, out = _starter_check(model, capsys)
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    # the run ends with every output; the joint is reported, with the reason it was set
+    # aside when the notched blade is not taken as its clamped layer (the holes' rules
+    # decide that; here the run must not stop on it)
+    assert code in (0, 1)
+    assert {"results.json", "report.txt", "report.html"} <= {p.name for p in out.iterdir()}
+    joints = doc["joints"] + doc.get("not_analysed", [])
+    assert len(joints) == 1
+    for j in doc.get("not_analysed", []):
+        assert j["reason"]
+
+
 # ----------------------------------------------------------------------------- the reader's remarks reach the outputs
 
 def test_reader_remarks_reach_results_json_and_both_reports(tmp_path, capsys):

@@ -644,6 +644,25 @@ def quirk_line_to_line(path: Path) -> None:
     path.write_text(text)
 
 
+def quirk_notched_clamp(path: Path) -> None:
+    """A 3 mm blade held on a block by a DIN 912 M5x10 screw that passes a U-notch at the
+    blade's edge (a half-round of 5.5 mm, ISO 273 medium for M5) into a tapped hole (4.2 mm,
+    ISO 261 d - P): the blade has no closed hole around the screw (met in a real export, a
+    shredder's cutter held by screws in notches: the screw's only layer is the tapped block)."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="cutter_stack")
+    block = cq.Workplane("XY").box(40, 40, 12, centered=(True, True, False)).faces(">Z").workplane().hole(4.2, 10.0)
+    a.add(block, name="block")
+    # the blade's edge runs through the screw's axis: the notch is the half of a 5.5 mm hole
+    blade = cq.Workplane("XY").box(30, 40, 3, centered=(False, True, False)).translate((0, 0, 12)).cut(
+        cq.Workplane("XY").circle(2.75).extrude(20).translate((0, 0, 5)))
+    a.add(blade, name="cutter_blade")
+    a.add(_socket_screw(5.0, 10.0, 8.5, 5.0), name="cylinder_screw_M5x10-DIN912",
+          loc=cq.Location(cq.Vector(0, 0, 15)))
+    write_step(a, path)
+
+
 def quirk_unit_spelling(path: Path, style: str) -> None:
     """The bolted pair with its millimetre unit spelled as other writers spell it.
 
