@@ -110,21 +110,18 @@ def test_a_hole_narrower_than_the_bolt_is_still_refused():
 
 # ----------------------------------------------------------------------------- a screw in a notch at a part's edge
 
-def test_a_screw_through_a_notch_never_stops_the_check(tmp_path, capsys):
+def test_a_screw_through_a_notch_clamps_the_notched_blade(tmp_path, capsys):
     model = tmp_path / "cutter_stack.step"
     mc.quirk_notched_clamp(model)
     code, out = _starter_check(model, capsys)
     doc = json.loads((out / "results.json").read_text())
     validate_result(doc)
-    # the run ends with every output; the joint is reported, with the reason it was set
-    # aside when the notched blade is not taken as its clamped layer (the holes' rules
-    # decide that; here the run must not stop on it)
-    assert code in (0, 1)
-    assert {"results.json", "report.txt", "report.html"} <= {p.name for p in out.iterdir()}
-    joints = doc["joints"] + doc.get("not_analysed", [])
-    assert len(joints) == 1
-    for j in doc.get("not_analysed", []):
-        assert j["reason"]
+    assert code in (0, 1) and not doc.get("not_analysed")
+    [joint] = doc["joints"]
+    # the blade (3 mm) is the clamped layer over the tapped block; no false gap under the head
+    assert [l["part"] for l in joint["layers"]][0] == "cutter_blade" and joint["grip"] == pytest.approx(3.0)
+    assert not any(f["code"] == "gap" for f in joint["findings"])
+    assert any(f["code"] == "open-hole" for f in joint["findings"])
 
 
 # ----------------------------------------------------------------------------- the reader's remarks reach the outputs
