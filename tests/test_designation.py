@@ -67,6 +67,8 @@ from geomjoint.errors import InputError
     ("DIN 125 A 13", "washer", "plain", "DIN 125", "M12", None),
     ("DIN 125-1 A 6.4", "washer", "plain", "DIN 125", "M6", None),
     ("DIN 127 M8", "washer", "spring", "DIN 127", "M8", None),
+    # pins and rings by their standards are no fasteners (ISO 2341 clevis pins, ISO 2338 parallel pins)
+    ("ISO 2341 B 8x30", "other", "pin", "ISO 2341", None, None),
     ("washer M6", "washer", "plain", None, "M6", None),
 ])
 def test_designations_as_the_standards_and_libraries_write_them(name, family, kind, standard, thread, length):

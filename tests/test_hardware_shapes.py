@@ -302,3 +302,13 @@ def test_inch_hex_and_heavy_hex_heads_by_their_width(tmp_path, af_in, kind):
     assert joint.bolt.head_kind == kind and joint.nominal == "1/2-13 UNC"
     assert joint.bolt.length == pytest.approx(50.8)
     assert "name-mismatch" not in _codes(joint)
+
+
+@pytest.mark.parametrize("name, bolt", [("clevis pin 8x30", False), ("ISO 2341 B 8x30", False), ("Part31", True),
+                                        ("M8x30 button head screw", True)])
+def test_a_headed_pin_named_so_is_no_screw(tmp_path, name, bolt):
+    """An ISO 2341 clevis pin d 8 (head 14 x 3, from memory) is shaped like an ISO 7380 M8 button
+    head (14 x 4.4): only its name tells; a pin by name (catalog.hole_parts) is no fastener."""
+    pin = mc.button_screw(8.0, 30.0, 14.0, 3.0, 0.0001)
+    scan = _single_part(tmp_path, pin, name)
+    assert bool(scan.bolts) == bolt

@@ -246,6 +246,14 @@ def _designation(name: str | None):
         return None
 
 
+def _named_hole_part(name: str) -> bool:
+    """True when the name calls the part a pin, shaft, bushing, tube or insert (the one word table
+    of what sits in holes, catalog.hole_parts): no fastener of its own."""
+    from geomjoint.catalog.hole_parts import INSERT_KINDS, NON_FASTENER_KINDS, hole_part_kind
+
+    return hole_part_kind(name) in (*NON_FASTENER_KINDS, *INSERT_KINDS)
+
+
 def _hint_of(desig) -> SizeHint | None:
     if desig is None or desig.thread is None:
         return None
@@ -430,6 +438,8 @@ def recognise(part: str, faces: SolidFaces, holes: list[Hole], solid=None,
     desig = _designation(label or part)
     if desig is not None and desig.family == "other":
         return None                       # a bearing ring, a spacer, a lead screw: named as no fastener
+    if (desig is None or desig.family is None) and _named_hole_part(label or part):
+        return None                       # a pin, shaft, bushing, tube or insert by its name (catalog.hole_parts)
     hint = _hint_of(desig)
     through = [h for h in holes if h.through]
     if len(through) == 1 and all(_same_axis(h, through[0]) for h in holes):
