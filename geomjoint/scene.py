@@ -155,6 +155,7 @@ def markup_scene(analysis) -> MarkupScene:
     # sections (the analysis' own, when it kept them) and cone solids shared by the joints
     cone_cache = getattr(analysis, "cone_cache", None) or ConeCache()
     face_tables: dict = {}                   # hole faces of each part, read once
+    axis_shapes: dict = {}                   # one axis marker per size, placed at each joint
     hole_faces: dict[str, dict[int, tuple[float, float, float]]] = {}
     joints: list[JointMarkup] = []
     joint_names: set[str] = set()
@@ -171,7 +172,8 @@ def markup_scene(analysis) -> MarkupScene:
                          factors={k: _finite(v) for k, v in result.factors.items()})
         taken: set[str] = set()
         jm.items += _cone_items(mj, by_id, rgb, taken, jm.notes, cone_cache)
-        jm.items.append(MarkupItem(unique_node_name("axis", taken), "axis", axis_marker(j, result.spec.fastener),
+        jm.items.append(MarkupItem(unique_node_name("axis", taken), "axis",
+                                   axis_marker(j, result.spec.fastener, axis_shapes),
                                    rgb, source="generated"))
         jm.items += _hardware_items(mj, model, hardware_of, rgb, taken, jm.notes)
         for layer in j.layers:

@@ -102,8 +102,25 @@ def test_glb_instances_show_each_piece_as_tessellated_alone(bed):
     for jm in data.joints:
         for item in jm.items:
             kinds.setdefault(item.kind, set()).add(graph.get(f"{jm.id} {item.name}")[1])
-    for kind in ("bolt", "nut", "washer"):
+    for kind in ("bolt", "nut", "washer", "axis"):
         assert 1 <= len(kinds[kind]) <= len(verdicts), kind
+    # the axis markers: one definition placed on each joint's axis, 0.15 d across, past the
+    # head and the nut (markup.AXIS_DIAMETER_RATIO, AXIS_OVERHANG_RATIO)
+    from OCP.Bnd import Bnd_Box
+    from OCP.BRepBndLib import BRepBndLib
+    from OCP.TopLoc import TopLoc_Location
+
+    axes = [(jm, item) for jm in data.joints for item in jm.items if item.kind == "axis"]
+    assert len(axes) == len(data.joints)
+    assert len({hash(item.shape.Located(TopLoc_Location())) for _, item in axes}) == 1
+    points = {j.id: j.point for j in analysis.scan.joints}
+    for jm, item in axes:
+        box = Bnd_Box()
+        BRepBndLib.AddOptimal_s(item.shape, box, False, False)      # tight, without tolerances
+        x0, y0, z0, x1, y1, z1 = box.Get()
+        px, py, _ = points[jm.id]
+        assert ((x0 + x1) / 2, (y0 + y1) / 2) == pytest.approx((px, py), abs=1e-6), jm.id
+        assert x1 - x0 == pytest.approx(0.15 * jm.fastener["d"], rel=1e-3), jm.id
     assert len(exported["meshes"]) < len([n for n in exported["nodes"] if "mesh" in n])
 
 

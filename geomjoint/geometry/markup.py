@@ -388,8 +388,19 @@ def generated_hardware(joint, fastener, notes: list[str]) -> list[GeneratedSolid
     return out
 
 
-def axis_marker(joint, fastener) -> TopoDS_Shape:
-    """A thin cylinder on the bolt axis, past the hardware at both ends."""
+#: digits (mm) of an axis marker's radius and length in the key of its shared definition
+_AXIS_KEY_DIGITS = 9
+
+
+def axis_marker(joint, fastener, shared: dict | None = None) -> TopoDS_Shape:
+    """A thin cylinder on the bolt axis, past the hardware at both ends.
+
+    The cylinder is made once per radius and length, on the z axis, and placed on the joint's
+    axis; ``shared`` (one dict per scene) keeps those definitions, so the STEP and GLB writers
+    hold one marker per size (instances) instead of one per joint.
+    """
+    from OCP.gp import gp_Ax3, gp_Trsf
+
     p = np.asarray(joint.point, float)
     d = np.asarray(joint.direction, float)
     d = d / np.linalg.norm(d)
@@ -400,7 +411,14 @@ def axis_marker(joint, fastener) -> TopoDS_Shape:
     if joint.nut is not None:
         end = max(end, joint.layers[-1].end + joint.nut.height)
     start = p - (head + over) * d
-    return _cylinder(start, d, 0.5 * AXIS_DIAMETER_RATIO * dia, head + over + end + over)
+    radius, length = 0.5 * AXIS_DIAMETER_RATIO * dia, head + over + end + over
+    shared = {} if shared is None else shared
+    key = (round(radius, _AXIS_KEY_DIGITS), round(length, _AXIS_KEY_DIGITS))
+    if key not in shared:
+        shared[key] = _cylinder(np.zeros(3), np.array([0.0, 0.0, 1.0]), radius, length)
+    trsf = gp_Trsf()
+    trsf.SetDisplacement(gp_Ax3(), gp_Ax3(gp_Pnt(*map(float, start)), gp_Dir(*map(float, d))))
+    return shared[key].Located(TopLoc_Location(trsf))
 
 
 # ----------------------------------------------------------------------------- STEP through XCAF
