@@ -7,13 +7,16 @@ What is checked, and how:
   local port, so a page that needed the network would show its gaps;
 - a screenshot (1200 x 2000) is not blank: many distinct colours, and the three verdict
   colours of the summary badges are really painted (the inline CSS was applied);
-- the DOM after scripts ran (``--dump-dom``) holds every joint id and every drawing;
+- the DOM after scripts ran (``--dump-dom``) holds every joint id, no drawing while the sections
+  are closed, and every drawing once "open all" is pressed;
 - the sorting script works: a copy of the page clicks the preload heading and the rows
   come out in ascending preload order;
 - a report of 120 joints: every section is closed when the page opens, "open all" opens
   them, and then every drawing (three per joint) is laid out and painted with its lines and
-  labels (its bounding box and the box of its drawn content are not empty); a link to one
-  joint (the page opened at its #fragment) opens that section alone;
+  labels (its bounding box and the box of its drawn content are not empty), and the SVG text
+  the page's script wrote from the templates and numbers (report/lazy.py) is, drawing by
+  drawing, the SVG the report drew; a link to one joint (the page opened at its #fragment)
+  opens that section alone;
 - a screenshot of an opened joint shows the drawings' own colours (the steel layer fill);
 - no console messages from the page: chromium, run with ``--enable-logging=stderr --v=0``,
   writes each console message and each uncaught exception of a page as an
@@ -36,6 +39,7 @@ import pytest
 from PIL import Image
 
 from geomjoint.report.html import html_report
+from geomjoint.report.lazy import expand
 from geomjoint.report.plots import _MATERIAL_FILLS, VERDICT_COLOURS
 from test_report_html import sample_results
 
@@ -102,9 +106,19 @@ def test_page_text_has_every_joint_and_no_console_messages(report):
     dom = run.stdout
     for r in results:
         assert html.escape(r.id, quote=False) in dom, r.id
-    assert len(re.findall(r"<svg\b", dom)) == 3 * len(results)
+    # closed sections hold no drawing yet: each is drawn as its section opens
+    assert len(re.findall(r"<svg\b", dom)) == 0
     assert "Results are engineering estimates for review by a qualified engineer" in dom
     assert console_lines(run.stderr, page) == []
+    # "open all": every joint's three drawings are put in place
+    opener = '<script>document.querySelector(\'[data-open-all="yes"]\').click();</script></body>'
+    copy = tmp / "report-opened.html"
+    copy.write_text(page.read_text(encoding="utf-8").replace("</body>", opener), encoding="utf-8")
+    run = run_chromium(copy, tmp, "--dump-dom")
+    assert run.returncode == 0, run.stderr[-2000:]
+    assert len(re.findall(r"<svg\b", run.stdout)) == 3 * len(results)
+    assert 'class="drawing"' not in run.stdout
+    assert console_lines(run.stderr, copy) == []
 
 
 def test_screenshot_is_not_blank(report):
@@ -183,6 +197,10 @@ _PROBE = """<script>
     });
   });
   body.setAttribute("data-drawings", JSON.stringify(out));
+  // the SVG text the page's script wrote for each drawing (report/lazy.py), to compare
+  var texts = [];
+  for (var n = 0; n < out.length; n++) { texts.push(window.geomjointDrawing(n)); }
+  body.setAttribute("data-texts", JSON.stringify(texts));
 })();
 </script></body>"""
 
@@ -204,6 +222,11 @@ def test_large_report_opens_closed_and_every_drawing_is_drawn(large):
         assert d["dw"] > 20 and d["dh"] > 20, d          # the lines and shapes have extent
         assert d["shapes"] >= 3 and d["texts"] >= 8, d   # lines or shapes, ticks, labels, title
     assert sorted(per_joint) == sorted(r.id for r in results) and set(per_joint.values()) == {3}
+    # the script wrote every drawing exactly as the report drew it (the SVG of each, in page order)
+    written = json.loads(html.unescape(re.search(r'data-texts="([^"]*)"', dom).group(1)))
+    drawn = re.findall(r"<svg\b.*?</svg>", expand(page.read_text(encoding="utf-8")), flags=re.S)
+    assert len(written) == len(drawn) == 3 * len(results)
+    assert written == drawn
     assert console_lines(run.stderr, probe) == []
 
 

@@ -24,6 +24,7 @@ from html.parser import HTMLParser
 import pytest
 
 from geomjoint.errors import InputError
+from geomjoint.report import lazy
 from geomjoint.report.html import html_report
 from geomjoint.report.json_doc import result_document
 from geomjoint.report.plots import (
@@ -214,7 +215,8 @@ def joint_section(doc: str, index: int) -> str:
 
 
 def svgs(doc: str) -> list[str]:
-    return re.findall(r"<svg\b.*?</svg>", doc, flags=re.S)
+    """The drawings of a page, put back in place (report/lazy.py) as the page's script does."""
+    return re.findall(r"<svg\b.*?</svg>", lazy.expand(doc), flags=re.S)
 
 
 @pytest.fixture(scope="module")
@@ -261,7 +263,8 @@ def test_self_contained_no_outside_resources(doc_si, doc_inch):
         # every URL left is an XML namespace name (never fetched by a browser)
         for m in re.finditer(r"https?://", doc):
             before = doc[max(0, m.start() - 20):m.start()]
-            assert re.search(r'xmlns(:\w+)?="$', before), doc[m.start() - 40:m.start() + 60]
+            # (in the drawings' templates the quote is JSON-escaped)
+            assert re.search(r'xmlns(:\w+)?=\\?"$', before), doc[m.start() - 40:m.start() + 60]
         assert not re.search(r"<link\b|<img\b|<iframe\b|@import|<script\b[^>]*\bsrc=", doc)
         assert "<!DOCTYPE svg" not in doc and "<?xml" not in doc
         assert doc.count("<script>") == 1 and doc.count("<style>") == 1
@@ -273,11 +276,45 @@ def test_each_svg_is_well_formed_and_ids_are_unique(doc_si, results):
     for svg in pictures:
         root = ET.fromstring(svg)
         assert root.tag == "{http://www.w3.org/2000/svg}svg"
-    ids = re.findall(r'\bid="([^"]+)"', doc_si)
+    page = lazy.expand(doc_si)                       # the page with every section opened
+    ids = re.findall(r'\bid="([^"]+)"', page)
     assert len(ids) == len(set(ids))
     # every internal reference points at an id of the page
-    for ref in re.findall(r"url\(#([^)]+)\)", doc_si) + re.findall(r'href="#([^"]+)"', doc_si):
+    for ref in re.findall(r"url\(#([^)]+)\)", page) + re.findall(r'href="#([^"]+)"', page):
         assert ref in ids, ref
+
+
+def test_closed_page_holds_no_drawing_and_opens_to_the_sections_as_written(doc_si, results):
+    """The page sends each joint's drawings as templates and numbers (report/lazy.py): the
+    sections hold empty slots, and putting the drawings back gives the sections exactly as
+    written with the drawings inline."""
+    from geomjoint.report.html import _joint_section
+    from geomjoint.report.plots import report_units
+
+    sections = doc_si[doc_si.find('<section class="joint"'):doc_si.rfind("</section>")]
+    assert "<svg" not in sections
+    assert len(re.findall(r'<span class="drawing" data-drawing="\d+"></span>', sections)) == 3 * len(results)
+    inline = "".join(_joint_section(i, r, report_units("SI")) for i, r in enumerate(results))
+    assert inline in lazy.expand(doc_si)
+    assert '<script type="application/json"' not in lazy.expand(doc_si)
+
+
+def test_drawing_values_come_back_as_written():
+    """Numbers go into the page as JSON numbers only where String(number) writes them back
+    unchanged; others ("-0", "30.0", "1e-05", long ones) stay text."""
+    values = ["0", "-0", "30", "30.0", "-4", "174.5", "0.001", "0.0001", "1e-05", "12.25",
+              "1234567890123456", "007", "0.5 1.5", "M1,2h-4"]
+    svg = ('<svg viewBox="0 0 5 5">' + "".join(f'<rect x="{v}" y="1" width="2" height="3" fill="#000"/>'
+                                                for v in values)
+           + '<text x="1" y="2">a &amp; b</text><g id="k-1"><path d="M0,6L6,0"/></g></svg>')
+    drawings = lazy.Drawings()
+    k = drawings.add(svg)
+    assert lazy.drawing(drawings.templates, drawings.drawings[k]) == svg
+    # one template for all the rectangles: only their values differ
+    assert sum("<rect" in t for t in drawings.templates) == 1
+    page = lazy.compact(f"<p>{svg}</p>", drawings) + lazy.payload(drawings)
+    assert "<svg" not in page.split("<script")[0]
+    assert lazy.expand(page) == f"<p>{svg}</p>"
 
 
 def test_table_numbers_match_the_result_and_results_json(doc_si, results):

@@ -246,7 +246,9 @@ def test_reports_show_the_stackup():
     svg = stackup_svg(results[0], prefix="t-")
     assert svg.startswith("<svg") and "bolt M12x45" in svg and "sum of the stack" in svg
     assert "needed reach 44.95" in svg                # thickest stack 32.4 + nut 10.8 + one pitch 1.75
-    page = html_report(results, title="t")
+    from geomjoint.report.lazy import expand
+
+    page = expand(html_report(results, title="t"))     # the drawings put back in place, as opened
     assert "Stack-up at the tolerance limits" in page and 'aria-label="stack-up chart of A"' in page
     assert "protrusion past the nut" in page
 

@@ -18,7 +18,7 @@ import re
 from dataclasses import asdict
 
 from geomjoint.mechanics.joint import JointResult
-from geomjoint.report import plots
+from geomjoint.report import lazy, plots
 from geomjoint.report.plots import VERDICT_COLOURS, VERDICT_TEXT, ReportUnits, report_units
 from geomjoint.report.json_doc import vdi_numbers
 from geomjoint.report.text import CAUTION, plastic_caution
@@ -187,15 +187,28 @@ section.joint {{ border-bottom: 2px solid var(--rule); padding: .5rem 0; }}
 # Sorting the joints table: a click on a column header sorts by that column, numbers by
 # their data-value (internal units) and text otherwise; a second click reverses.
 # Per-joint sections are closed <details> (a report of hundreds of joints opens fast): a link
-# to a joint opens its section, the toolbar opens or closes them all, printing opens them all.
-_JS = """
+# to a joint opens its section, the toolbar opens or closes them all, printing opens them all;
+# a section's drawings are put in place as it opens (report/lazy.py).
+_JS = lazy.SCRIPT + """
 function openJoint(hash) {
   var target = hash && document.getElementById(decodeURIComponent(hash.slice(1)));
-  if (target && target.classList.contains("joint")) { target.querySelector("details").open = true; }
+  if (target && target.classList.contains("joint")) { draw(target); target.querySelector("details").open = true; }
 }
 function openAll(state) {
-  document.querySelectorAll("section.joint > details").forEach(function (d) { d.open = state; });
+  document.querySelectorAll("section.joint > details").forEach(function (d) {
+    if (state) { draw(d); }
+    d.open = state;
+  });
 }
+// a section opened by its summary (mouse or keyboard) is drawn before it shows
+document.addEventListener("click", function (e) {
+  var summary = e.target.closest && e.target.closest("section.joint > details > summary");
+  if (summary) { draw(summary.parentNode); }
+}, true);
+document.addEventListener("toggle", function (e) {
+  var d = e.target;
+  if (d.open && d.parentNode && d.parentNode.classList && d.parentNode.classList.contains("joint")) { draw(d); }
+}, true);
 window.addEventListener("hashchange", function () { openJoint(location.hash); });
 window.addEventListener("beforeprint", function () { openAll(true); });
 openJoint(location.hash);
@@ -647,7 +660,9 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
                     f'<figcaption>Joints numbered and coloured by verdict.</figcaption></figure></section>')
     unit_note = (f'<p class="src">Units: forces {u.force}, lengths {u.length}, stresses {u.stress}, '
                  f'stiffness {u.stiffness}.</p>')
-    sections = "".join(_joint_section(i, r, u) for i, r in enumerate(results))
+    # the drawings leave the sections: sent once as templates and numbers, drawn on opening
+    drawings = lazy.Drawings()
+    sections = lazy.compact("".join(_joint_section(i, r, u) for i, r in enumerate(results)), drawings)
     toolbar = ('<h2 id="details">Each joint</h2><p class="toolbar">Open a joint for its drawings, numbers and '
                'checks: <button type="button" data-open-all="yes">open all</button>'
                '<button type="button" data-open-all="no">close all</button></p>') if results else ""
@@ -659,4 +674,4 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
             f"{_model_findings(list(findings))}{_summary(results)}{_joints_table(results, u)}{overview}"
             f"{_not_analysed(not_analysed)}{toolbar}{sections}"
             "</main>\n"
-            f"<footer>{caution}</footer>\n<script>{_JS}</script>\n</body></html>\n")
+            f"<footer>{caution}</footer>\n{lazy.payload(drawings)}\n<script>{_JS}</script>\n</body></html>\n")
