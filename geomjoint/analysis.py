@@ -31,10 +31,19 @@ from geomjoint.mechanics.joint import (
     FeRun,
     FitBias,
     JointResult,
+    MethodDeviation,
+    MethodSpread,
     JointSpec,
     StiffnessComparison,
 )
-from geomjoint.mechanics.members import WILEMAN_TAPPED_BIAS
+from geomjoint.mechanics.members import (
+    FRUSTUM_TAPPED_WORST,
+    METHOD_SPREAD_LIMIT,
+    PUBLISHED_MODEL_SPREAD,
+    PUBLISHED_MODEL_SPREAD_SOURCE,
+    VDI_TAPPED_WORST,
+    WILEMAN_TAPPED_BIAS,
+)
 from geomjoint.mechanics import stackup as limits_stackup
 from geomjoint.mechanics.stripping import engagement_of, insert_pullout_check, stripping_check
 from geomjoint.mechanics.vdi import vdi_chain, vdi_checks, vdi_member_stiffness, vdi_stiffness_split
@@ -225,6 +234,73 @@ def fit_bias_finding(bias: FitBias) -> dict:
             "message": bias.message}
 
 
+#: why a method departs from the others on a tapped joint (docs/tapped_stiffness.md, "Agreement")
+SPREAD_REASONS = {
+    "frustum": ("the 30° frusta assume the bearing annulus loads the cap like a wide washer and ignore how "
+                "the tapped part gives way (a narrow annulus on a soft tapped part is its worst case: "
+                f"documented {100 * FRUSTUM_TAPPED_WORST:+.1f} % against the FE for M8 into aluminium)"),
+    "cone": ("the clipped cone is the frustum's 30° cone cut by the parts' outline: it shares the frustum's "
+             "assumptions and adds how much the parts clip it"),
+    "vdi": ("the VDI 2230-1 substitute body's cone angle depends on beta_L and y only, not on the moduli of "
+            "cap and tapped part, while a soft cap on a stiff base spreads its load further "
+            f"(documented {100 * VDI_TAPPED_WORST:+.1f} % against the FE for an aluminium cap on steel)"),
+    "fe": ("the FE models this joint's own outline and its whole tapped part, which no closed form does; it is "
+           "the reference the closed forms are documented against, so the other value is the doubtful one"),
+}
+
+
+def method_spread(spec: JointSpec, result: JointResult, methods: MemberMethods) -> MethodSpread | None:
+    """The tapped joint's member-stiffness methods against its reference, those beyond ±10 % named.
+
+    Methods: the frustum and the VDI 2230-1 body (closed forms, always at hand), the clipped cone
+    and the FE where they were computed for this joint, and the chosen method's own value. The
+    reference is the FE where it ran, else the chosen value (the VDI body when the chosen is the
+    exponential fit). The exponential fit is left to :func:`tapped_fit_bias` (never reported twice).
+    None for a through joint.
+    """
+    if not spec.tapped:
+        return None
+    chosen = result.stiffness_method
+    values = {"frustum": methods.value("frustum"), "vdi": methods.value("vdi")}
+    if methods.cone is not None:
+        values["cone"] = methods.cone.stiffness
+    if methods.fe is not None:
+        values["fe"] = methods.fe.stiffness
+    values[chosen] = result.member_stiffness   # exactly the k_m the joint got
+    values.pop("exponential", None)
+    reference = "fe" if "fe" in values else (chosen if chosen in values else "vdi")
+    k_ref = values[reference]
+    rows = []
+    for method, k in values.items():
+        if method == reference:
+            continue
+        deviation = k / k_ref - 1.0
+        outside = abs(deviation) > METHOD_SPREAD_LIMIT
+        rows.append(MethodDeviation(method, k, deviation, outside, SPREAD_REASONS[method] if outside else ""))
+    named = tuple(row.method for row in rows if row.outside)
+    against_fe, against_tests = PUBLISHED_MODEL_SPREAD
+    message = ""
+    if named:
+        centre = ("the FE" if reference == "fe" else f"this joint's k_m ({reference})" if reference == chosen
+                  else "the VDI 2230-1 body (the chosen exponential fit is named by tapped-fit-bias)")
+        own = " (this joint's k_m)"
+        parts = "; ".join(f"{row.method}{own if row.method == chosen else ''} "
+                          f"{100 * row.deviation:+.1f} %: {row.reason}" for row in rows if row.outside)
+        message = (f"member-stiffness methods of this tapped joint lie more than {100 * METHOD_SPREAD_LIMIT:.0f} % "
+                   f"from {centre}: {parts}. Published spread of member-stiffness models: up to "
+                   f"{100 * against_fe:.1f} % against FE and {100 * against_tests:.1f} % against experiments "
+                   f"({PUBLISHED_MODEL_SPREAD_SOURCE}; none published for tapped joints)"
+                   + ("; prefer fe for this joint" if chosen in named else ""))
+    return MethodSpread(reference, k_ref, chosen, METHOD_SPREAD_LIMIT, tuple(rows), named,
+                        against_fe, against_tests, PUBLISHED_MODEL_SPREAD_SOURCE, message)
+
+
+def method_spread_finding(spread: MethodSpread) -> dict:
+    """The finding of methods that disagree: warn when the joint's own k_m is among them, else info."""
+    return {"severity": "warn" if spread.chosen in spread.outside else "info", "code": "tapped-method-spread",
+            "message": spread.message}
+
+
 # ----------------------------------------------------------------------------- one joint
 
 def _vdi_assess(spec: JointSpec) -> JointResult:
@@ -262,6 +338,9 @@ def assess_joint(spec: JointSpec, methods: MemberMethods | None = None) -> Joint
     result.fit_bias = tapped_fit_bias(spec, result.stiffness_method, methods)
     if result.fit_bias is not None:
         result.findings.append(fit_bias_finding(result.fit_bias))
+    result.method_spread = method_spread(spec, result, methods)
+    if result.method_spread is not None and result.method_spread.outside:
+        result.findings.append(method_spread_finding(result.method_spread))
     result.checks.append(stripping_check(spec))
     if spec.insert is not None:
         result.checks.append(insert_pullout_check(spec, result.bolt_force))

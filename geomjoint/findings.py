@@ -27,6 +27,10 @@ STIFFNESS_FINDING_CODES = {
     "tapped-fit-bias": "warn: a tapped joint's member stiffness is the exponential (Wileman) fit, which reads "
                        "26-47 % high on tapped joints (docs/tapped_stiffness.md); info: the fit is only in the "
                        "side-by-side comparison",
+    "tapped-method-spread": "a tapped joint's member-stiffness methods (frustum, VDI 2230-1 body, clipped cone, FE "
+                            "where it ran) lie more than 10 % from its reference (the FE where it ran, else the "
+                            "chosen value); the message names each with its deviation, the reason and the published "
+                            "spread; warn: the joint's own k_m is among them, info: only other methods",
 }
 
 #: every finding code a scan or a check can give

@@ -233,3 +233,92 @@ def test_a_tapped_comparison_names_the_bias_and_a_through_joint_does_not():
     spec = case_spec(CASES[0], member_stiffness="exponential")
     through = replace(spec, tapped=False, layers=(spec.layers[0],) * 2, far_bearing_diameter=spec.bearing_diameter)
     assert evaluate_joint(through).fit_bias is None
+
+
+# ----------------------------------------------------------------- methods beyond ±10 %, named per joint
+
+def test_the_documented_worst_cases_of_the_closed_forms_are_the_table_of_the_docs():
+    # members.FRUSTUM_TAPPED_WORST / VDI_TAPPED_WORST are quoted in every report that names the
+    # method: the frustum's largest and the VDI body's most negative ratio - 1 of the comparison table
+    from geomjoint.mechanics.members import FRUSTUM_TAPPED_WORST, VDI_TAPPED_WORST
+
+    frustum = [ratios[0] - 1 for ratios in DOCUMENTED_RATIOS.values()]
+    body = [ratios[2] - 1 for ratios in DOCUMENTED_RATIOS.values()]
+    assert FRUSTUM_TAPPED_WORST == pytest.approx(max(frustum), abs=0.001)
+    assert VDI_TAPPED_WORST == pytest.approx(min(body), abs=0.001)
+
+
+def _spread_findings(r):
+    return [f for f in r.findings if f["code"] == "tapped-method-spread"]
+
+
+def test_an_aluminium_cap_on_steel_names_the_vdi_body_in_every_report():
+    from geomjoint.report.text import result_table
+
+    case = CASES[2]   # M12, aluminium 15 on 30 steel: VDI/FE = 0.883 (docs table, row 3)
+    r = evaluate_joint(case_spec(case, compare_stiffness=True))
+    spread = r.method_spread
+    assert r.stiffness_method == "vdi" and spread.reference == "fe" and spread.outside == ("vdi",)
+    row = next(m for m in spread.methods if m.method == "vdi")
+    # the deviation is this joint's own VDI value against its own FE, not a copy of the docs
+    assert row.deviation == pytest.approx(r.member_stiffness / r.fe.stiffness - 1, rel=1e-12)
+    assert row.deviation == pytest.approx(DOCUMENTED_RATIOS[case.label][2] - 1, abs=DRIFT)
+    assert "beta_L and y only" in row.reason
+    # the frustum lies inside (-5.6 %) and the exponential is left to tapped-fit-bias
+    assert {m.method for m in spread.methods} == {"frustum", "vdi"}
+    assert [f["code"] for f in r.findings].count("tapped-fit-bias") == 1
+    finding = _spread_findings(r)
+    assert len(finding) == 1 and finding[0]["severity"] == "warn"   # the joint's own k_m is the one outside
+    assert "vdi (this joint's k_m) -11." in finding[0]["message"] and "14.7 %" in finding[0]["message"]
+    doc = result_document([r], "test")
+    validate_result(doc)
+    record = doc["joints"][0]["stiffness"]["method_spread"]
+    assert record["outside"] == ["vdi"] and record["limit"] == pytest.approx(0.10)
+    assert f"case: caution: {spread.message}" in result_table([r])
+    html = html_report([r], title="t")
+    assert "beyond ±10 % of the FE" in html and "tapped-method-spread" in html and "% from the FE" in html
+
+
+def test_m8_into_aluminium_names_the_frustum_with_or_without_the_fe():
+    case = CASES[4]   # M8 steel 8 on 20 aluminium: frustum/FE = 1.174 (docs table, row 5)
+    with_fe = evaluate_joint(case_spec(case, compare_stiffness=True))
+    assert with_fe.method_spread.reference == "fe" and with_fe.method_spread.outside == ("frustum",)
+    row = next(m for m in with_fe.method_spread.methods if m.method == "frustum")
+    assert row.deviation == pytest.approx(DOCUMENTED_RATIOS[case.label][0] - 1, abs=DRIFT)
+    assert "annulus" in row.reason
+    # the joint's k_m (VDI, +5 % from the FE) is inside: the finding only informs
+    assert [f["severity"] for f in _spread_findings(with_fe)] == ["info"]
+    validate_result(result_document([with_fe], "test"))
+    # the default run has no FE: the frustum is measured against the joint's own k_m (VDI), +11.7 %
+    default = evaluate_joint(case_spec(case))
+    spread = default.method_spread
+    assert spread.reference == "vdi" and spread.outside == ("frustum",)
+    assert spread.methods[0].deviation == pytest.approx(with_fe.comparison.frustum / with_fe.comparison.vdi - 1,
+                                                        rel=1e-12)
+    assert "from this joint's k_m (vdi)" in spread.message
+
+
+def test_steel_caps_name_nothing_and_the_exponential_is_reported_once():
+    for case in (CASES[0], CASES[3]):   # steel 20 on steel, steel 22 on cast iron: all within 7 % of the FE
+        r = evaluate_joint(case_spec(case, compare_stiffness=True))
+        assert r.method_spread.reference == "fe" and r.method_spread.outside == ()
+        assert max(abs(m.deviation) for m in r.method_spread.methods) < 0.10
+        assert _spread_findings(r) == [] and r.method_spread.message == ""
+        # the exponential (+41 % to +47 % here) has its own finding, never a second one
+        assert [f["code"] for f in r.findings] == ["tapped-fit-bias"]
+        validate_result(result_document([r], "test"))
+    # the exponential chosen: the spread is measured around the VDI body, the fit named only once
+    r = evaluate_joint(case_spec(CASES[0], member_stiffness="exponential"))
+    assert r.method_spread.reference == "vdi" and "exponential" not in {m.method for m in r.method_spread.methods}
+    assert [f["code"] for f in r.findings] == ["tapped-fit-bias"]
+
+
+def test_the_fe_chosen_is_the_centre_and_a_through_joint_has_no_spread():
+    case = CASES[2]
+    r = evaluate_joint(case_spec(case, member_stiffness="fe"))
+    assert r.method_spread.reference == "fe" and r.method_spread.outside == ("vdi",)
+    assert r.method_spread.reference_stiffness == pytest.approx(r.member_stiffness, rel=1e-12)
+    assert [f["severity"] for f in _spread_findings(r)] == ["info"]   # the joint's k_m is the FE itself
+    spec = case_spec(CASES[0])
+    through = replace(spec, tapped=False, layers=(spec.layers[0],) * 2, far_bearing_diameter=spec.bearing_diameter)
+    assert evaluate_joint(through).method_spread is None

@@ -254,6 +254,39 @@ class FitBias:
 
 
 @dataclass(frozen=True)
+class MethodDeviation:
+    """One member-stiffness method of a tapped joint against the joint's reference value."""
+
+    method: str                 # frustum | vdi | cone | fe
+    stiffness: float            # k_m by this method, N/mm
+    deviation: float            # stiffness / reference stiffness - 1
+    outside: bool               # |deviation| > the limit
+    reason: str                 # why this method departs (docs/tapped_stiffness.md); "" when inside
+
+
+@dataclass(frozen=True)
+class MethodSpread:
+    """How far a tapped joint's own member-stiffness methods lie from its reference value.
+
+    The reference is the FE where it ran for this joint (the comparison of
+    docs/tapped_stiffness.md measures the closed forms against it), else the joint's chosen
+    method (the VDI 2230-1 body when the chosen is the exponential fit, whose bias has its own
+    record, :class:`FitBias`).  The exponential fit is never listed here.
+    """
+
+    reference: str              # the method at the centre: "fe" | the chosen method | "vdi"
+    reference_stiffness: float  # its k_m, N/mm
+    chosen: str                 # the joint's member-stiffness method
+    limit: float                # the agreement band, fraction (members.METHOD_SPREAD_LIMIT)
+    methods: tuple[MethodDeviation, ...]  # every other method computed for the joint
+    outside: tuple[str, ...]    # the methods beyond the band (may include the chosen one)
+    published_against_fe: float           # largest published |model / FE - 1|, fraction
+    published_against_experiments: float  # largest published |model / test - 1|, fraction
+    published_source: str
+    message: str                # the sentence the reports show ("" when nothing lies outside)
+
+
+@dataclass(frozen=True)
 class Remedy:
     """One suggested change to a failing or marginal joint, re-checked before it is offered."""
 
@@ -371,6 +404,7 @@ class JointResult:
     remedies: list[Remedy] = field(default_factory=list)
     stiffness_split: StiffnessSplit | None = None  # tapped joints: the member/bolt definition used
     fit_bias: FitBias | None = None  # a method of this joint's stiffness known to read high (reports name it)
+    method_spread: MethodSpread | None = None  # tapped joints: the methods beyond ±10 % of the reference
     stackup: StackupResult | None = None  # the stack at its tolerance limits (mechanics.stackup)
 
     @property

@@ -348,7 +348,9 @@ def _numbers(r: JointResult, u: ReportUnits) -> str:
          STIFFNESS_SOURCES.get(r.stiffness_method, r.stiffness_method)
          + (f"; reads high on tapped joints ({100 * r.fit_bias.deviation:+.0f} % against VDI 2230-1 here, "
             "see findings)"
-            if r.fit_bias is not None and r.fit_bias.role == "chosen" else "")),
+            if r.fit_bias is not None and r.fit_bias.role == "chosen" else "")
+         + (f"; {100 * _own_deviation(r):+.0f} % from the FE, beyond ±{100 * r.method_spread.limit:.0f} % "
+            "(see findings)" if _own_deviation(r) is not None else "")),
         *_split_rows(r, u),
         ("joint constant C", _fmt(r.joint_constant, ".4f"), "–", "C = k_b/(k_b + k_m), Shigley 10th ed., Sec. 8-7"),
         ("preload F_i", _fmt(u.f(r.preload)), u.force, _preload_source(r, u)),
@@ -506,6 +508,32 @@ def _geometry(r: JointResult, u: ReportUnits) -> str:
     return "".join(out)
 
 
+def _own_deviation(r: JointResult) -> float | None:
+    """The joint's own k_m against the FE, when the method spread names it (else None)."""
+    spread = r.method_spread
+    if spread is None or spread.chosen not in spread.outside:
+        return None
+    return next(row.deviation for row in spread.methods if row.method == spread.chosen)
+
+
+def _method_spread(r: JointResult) -> str:
+    """The tapped joint's methods beyond ±10 % of its reference: one row each, with the reason."""
+    spread = r.method_spread
+    if spread is None or not spread.outside:
+        return ""
+    centre = "the FE" if spread.reference == "fe" else f"{spread.reference} (the reference here)"
+    rows = "".join(f'<tr class="caution"><th scope="row">{_e(row.method)}'
+                   f'{" (this joint’s k_m)" if row.method == spread.chosen else ""}</th>'
+                   f'<td class="num">{100 * row.deviation:+.1f}</td><td>%</td><td>{_e(row.reason)}</td></tr>'
+                   for row in spread.methods if row.outside)
+    rows += (f'<tr><th scope="row">published spread of member-stiffness models</th>'
+             f'<td class="num">{100 * spread.published_against_fe:.1f} / {100 * spread.published_against_experiments:.1f}</td>'
+             f'<td>%</td><td>against FE / against experiments; {_e(spread.published_source)}; none published for '
+             'tapped joints</td></tr>')
+    return (f'<h3>Member-stiffness methods beyond ±{100 * spread.limit:.0f} % of {_e(centre)} (tapped joint)</h3>'
+            f'<table class="method_spread"><tbody>{rows}</tbody></table>')
+
+
 def _findings(r: JointResult) -> str:
     parts = []
     if r.findings:
@@ -608,7 +636,7 @@ def _joint_section(i: int, r: JointResult, u: ReportUnits) -> str:
             f'<p>Verdict: <b>{_e(r.verdict)}</b>; governing check: {_e(_governing(r))}.</p>'
             f'<div class="figs">{fig_html}</div>'
             f"<h3>Numbers</h3>{_numbers(r, u)}<h3>Checks</h3>{_checks(r)}{_stackup(i, r, u)}"
-            f"{_geometry(r, u)}{_vdi(r, u)}{_findings(r)}</details></section>")
+            f"{_geometry(r, u)}{_method_spread(r)}{_vdi(r, u)}{_findings(r)}</details></section>")
 
 
 def _model_findings(findings: list[dict]) -> str:

@@ -62,6 +62,8 @@ def _stiffness(r: JointResult) -> dict[str, Any]:
         doc["definition"] = stiffness_definition(r.stiffness_split)
     if r.fit_bias is not None:
         doc["fit_bias"] = _plain(asdict(r.fit_bias))
+    if r.method_spread is not None:
+        doc["method_spread"] = _plain(asdict(r.method_spread))
     return doc
 
 

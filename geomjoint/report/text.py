@@ -98,6 +98,8 @@ def result_table(results: list[JointResult], units: str = "SI", excluded: list[s
             lines.append(f"  {r.id}: remedy: {remedy.change} -> {remedy.result}")
         if r.fit_bias is not None:
             lines.append(f"  {r.id}: caution: {r.fit_bias.message}")
+        if r.method_spread is not None and r.method_spread.outside:
+            lines.append(f"  {r.id}: caution: {r.method_spread.message}")
     for u in not_analysed:
         lines.append(f"  {u.id}: FAIL {u.message}")
     n_fail = sum(1 for r in results if not r.ok) + len(not_analysed)
