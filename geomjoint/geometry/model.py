@@ -280,6 +280,9 @@ class _Collector:
 #: the faces of a surface body are sewn with this tolerance, mm: above the gaps CAD writers
 #: leave between the faces of one body (1e-6 to 1e-3 mm), far below any feature of a part
 SEWING_TOL = 1e-2
+#: surface bodies with more faces than this are not sewn (sewing grows faster than the face
+#: count; a fastener or a bracket has tens to hundreds): they are reported as not read
+MAX_SURFACE_BODY_FACES = 5000
 
 
 def solids_of_surface_body(shape: TopoDS_Shape) -> tuple[list[TopoDS_Shape], bool]:
@@ -295,6 +298,8 @@ def solids_of_surface_body(shape: TopoDS_Shape) -> tuple[list[TopoDS_Shape], boo
     faces = list(topology.faces(shape))
     if not faces:
         return [], False
+    if len(faces) > MAX_SURFACE_BODY_FACES:
+        return [], True
     sewing = BRepBuilderAPI_Sewing(SEWING_TOL)
     for f in faces:
         sewing.Add(f)
