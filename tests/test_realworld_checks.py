@@ -124,6 +124,22 @@ def test_a_screw_through_a_notch_clamps_the_notched_blade(tmp_path, capsys):
     assert any(f["code"] == "open-hole" for f in joint["findings"])
 
 
+# ----------------------------------------------------------------------------- a screw into a part drawn without its hole
+
+def test_a_screw_into_a_part_drawn_without_its_hole_never_stops_the_check(tmp_path, capsys):
+    model = tmp_path / "motor_cap.step"
+    mc.quirk_screw_into_undrilled_part(model)
+    code, out = _starter_check(model, capsys)
+    doc = json.loads((out / "results.json").read_text())
+    validate_result(doc)
+    # every output is written and the one joint is reported: checked, or set aside with its
+    # reason (which part holds the thread when none is drawn is the joint rules' to say)
+    assert code in (0, 1)
+    assert {"results.json", "report.txt", "report.html"} <= {p.name for p in out.iterdir()}
+    reported = doc["joints"] + doc.get("not_analysed", [])
+    assert len(reported) == 1 and all(u["reason"] for u in doc.get("not_analysed", []))
+
+
 # ----------------------------------------------------------------------------- the reader's remarks reach the outputs
 
 def test_reader_remarks_reach_results_json_and_both_reports(tmp_path, capsys):

@@ -663,6 +663,22 @@ def quirk_notched_clamp(path: Path) -> None:
     write_step(a, path)
 
 
+def quirk_screw_into_undrilled_part(path: Path) -> None:
+    """A 5 mm end cap on a motor body held by a DIN 912 M4x10 screw: the cap's hole is drawn
+    line to line (4.0 mm), the motor, a bought part drawn as a plain solid, has no hole at all:
+    the screw's last 5 mm overlap its material (met in a real export: the cap was taken as the
+    tapped part and the joint set aside, "a tapped joint needs a clamped layer")."""
+    import cadquery as cq
+
+    a = cq.Assembly(name="motor_cap")
+    a.add(cq.Workplane("XY").circle(20.0).extrude(30.0), name="motor_body")
+    cap = cq.Workplane("XY").circle(20.0).extrude(5.0).faces(">Z").workplane().pushPoints([(12.0, 0.0)]).hole(4.0)
+    a.add(cap.translate((0, 0, 30.0)), name="end_cap")
+    a.add(_socket_screw(4.0, 10.0, 7.0, 4.0), name="cylinder_screw_M4x10-DIN912",
+          loc=cq.Location(cq.Vector(12.0, 0, 35.0)))
+    write_step(a, path)
+
+
 def quirk_unit_spelling(path: Path, style: str) -> None:
     """The bolted pair with its millimetre unit spelled as other writers spell it.
 
