@@ -81,6 +81,22 @@ def test_the_split_moves_shigley_compliance_and_adds_none(case):
     assert member + tapped == pytest.approx(1 / whole, rel=1e-12)
 
 
+def test_the_cap_screw_frusta_reproduce_a_handbook_worked_example():
+    # J. Brown, Marks' Calculations for Machine Design (2005), Sec. 8, Example 5 (SI column, Fig. 8.6):
+    # M16 cap screw, D = 1.5 d = 24 mm, alpha = 30 deg, 3 mm steel washer + 16 mm steel cover on
+    # 20 mm cast iron (E 207 / 110 GPa), h = d/2 = 8 mm (Eq. 8.63); step 10: k_members = 3.03e9 N/m,
+    # step 11: k_cap screw = 1.20e9 N/m (A_T E / L_T, L_T = 27 mm), C = 0.28.  The handbook's
+    # k_members is the whole frusta over l' (our member + tapped part); it rounds each frustum to
+    # three digits, hence 1 %.  A check of the formula, not evidence on which method is right.
+    member, tapped = tapped_frustum_compliances([(3.0, 207000.0), (16.0, 207000.0)], (20.0, 110000.0),
+                                                24.0, 16.0, 27.0)
+    k_members = 1 / (member + tapped)
+    assert k_members == pytest.approx(3.03e6, rel=0.01)
+    k_cap = 157.0 * 207000.0 / 27.0
+    assert k_cap == pytest.approx(1.20e6, rel=0.005)
+    assert k_cap / (k_cap + k_members) == pytest.approx(0.28, abs=0.01)
+
+
 # ----------------------------------------------------------------- against the FE
 
 @pytest.fixture(scope="module")
