@@ -327,3 +327,16 @@ def test_a_line_to_line_hole_stands_for_a_medium_clearance_when_judging_alignmen
         mc.write_step(a, path)
         [j] = scan_model(path).joints
         assert j.kind == "tapped" and ("misaligned" in codes(j)) == fails, offset
+
+
+def test_a_screw_with_nothing_clamped_under_its_head_says_so(tmp_path):
+    path = tmp_path / "bare.step"
+    # an M4 socket screw (ISO 4762 dk 7, k 4, from memory) in the M4 tap drill 3.3 (d - P) of a block, its head on it
+    a = cq.Assembly(name="bare")
+    a.add(cq.Workplane("XY").box(20, 20, 10, centered=(True, True, False)).faces(">Z").workplane().hole(3.3, 8.0),
+          name="end cap")
+    a.add(mc._socket_screw(4.0, 6.0, 7.0, 4.0), name="socket screw M4x6", loc=cq.Location(cq.Vector(0, 0, 10)))
+    mc.write_step(a, path)
+    [j] = scan_model(path).joints
+    [warning] = [f for f in j.findings if f.code == "thread-in-hole" and f.severity == "warn"]
+    assert "nothing is clamped" in warning.message and "end cap" in warning.message

@@ -68,7 +68,8 @@ FINDING_CODES = {
     "reader-remark": "info (model): the STEP reader's remarks that leave the geometry as it is, by the file's #ids",
     "thread-in-hole": "info: where the thread of a tapped joint is: a screw in a hole of its tap-drill, minor or "
                       "nominal size, a thread-forming screw in plastic, or an insert (no nut is assumed); warn: the "
-                      "screw cannot pass a last hole of no thread size, taken as tapped",
+                      "screw cannot pass a last hole of no thread size, taken as tapped, or nothing is clamped above "
+                      "the part holding the thread",
     "open-hole": "info: a part clamped under a head has no whole hole around the bolt (a slot or notch); "
                  "its hole is taken as the bolt's diameter",
     "not-a-bolt-hole": "info (model): coaxial holes with no fastener modelled whose bores match no clearance hole "
@@ -221,6 +222,11 @@ def _scan(model: Model) -> ScanResult:
         layer = open_hole_layer(j, members, classifiers)
         if layer is not None:
             add_open_layer(j, layer)
+        elif j.tapped and j.bolt is not None and len(j.layers) == 1:
+            j.findings.append(Finding("warn", "thread-in-hole",
+                                      f"nothing is clamped between the head of {j.bolt.part} and {j.layers[0].part}, "
+                                      f"which holds its thread: the part the screw holds is not in the model, or has "
+                                      f"no hole the scan can see"))
     # the file's unit suggests the fastener system when a size is inferred from holes
     system = {"inch": "inch", "foot": "inch", "mm": "metric", "cm": "metric", "m": "metric"}.get(
         model.file_unit or "")

@@ -528,7 +528,7 @@ def build_joint(d: np.ndarray, comp: list[_Item]) -> Joint | None:
     findings: list[Finding] = []
     if threaded_at is not None:
         findings.append(_thread_finding(layers[-1], bolt, thread_method, threaded_bore, insert, beyond))
-    elif odd_bore:
+    if threaded_at is None and odd_bore:
         findings.append(Finding("warn", "thread-in-hole",
                                 f"{bolt.part} ({bolt.d:.2f} mm) cannot pass the {layers[-1].hole_diameter:.2f} mm hole of "
                                 f"{layers[-1].part}, which is no tap-drill, minor or nominal diameter of its thread: "
