@@ -507,8 +507,10 @@ def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
                 return 0.0
             return max(0.0, (_clearance_for_alignment(layer, t, d) - d) / 2)
 
-        for i, a in enumerate(j.layers):
-            for b in j.layers[i + 1:]:
+        # a washer centres itself on the bolt: only the parts' holes must line up
+        fixed = [l for l in j.layers if l.role != "washer"]
+        for i, a in enumerate(fixed):
+            for b in fixed[i + 1:]:
                 ca, cb = radial(a), radial(b)
                 off = math.dist(a.position, b.position)
                 if off > ca + cb + LINEAR_TOL:
