@@ -312,3 +312,20 @@ def test_a_headed_pin_named_so_is_no_screw(tmp_path, name, bolt):
     pin = mc.button_screw(8.0, 30.0, 14.0, 3.0, 0.0001)
     scan = _single_part(tmp_path, pin, name)
     assert bool(scan.bolts) == bolt
+
+
+def test_a_stud_with_a_nut_at_each_end_is_a_through_joint(tmp_path):
+    """DIN 976 M10 threaded rod through two 12 mm plates, an ISO 4032 M10 nut (m 8.4) on each side."""
+    path = tmp_path / "rod.step"
+    a = cq.Assembly(name="rod")
+    top = mc._plates(a, 11.0, (12.0, 12.0))
+    a.add(mc.stud(10.0, 44.0), name="threaded rod DIN 976 M10", loc=cq.Location(cq.Vector(0, 0, -10.0)))
+    a.add(mc.chamfered_hex_nut(10.0, 16.0, 8.4), name="ISO 4032 M10 upper", loc=cq.Location(cq.Vector(0, 0, top)))
+    a.add(mc.chamfered_hex_nut(10.0, 16.0, 8.4), name="ISO 4032 M10 lower",
+          loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.kind == "through" and joint.nominal == "M10"
+    assert {joint.bolt.nut_head, joint.nut.part} == {"ISO 4032 M10 upper", "ISO 4032 M10 lower"}
+    assert joint.grip == pytest.approx(24.0)
+    assert not {"gap", "bolt-short"} & set(_codes(joint)), joint.findings
