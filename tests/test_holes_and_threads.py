@@ -357,3 +357,16 @@ def test_a_washer_off_the_axis_does_not_make_the_holes_misaligned(tmp_path):
     [j] = scan_model(path).joints
     assert [l.role for l in j.layers] == ["washer", "member", "tapped"]
     assert "misaligned" not in codes(j)
+
+
+def test_a_screw_into_a_part_drawn_without_its_hole_is_tapped_into_that_part(tmp_path):
+    # the end cap's 4.0 mm hole is the M4 nominal drawn line to line; the motor body has no hole
+    path = tmp_path / "motor_cap.step"
+    mc.quirk_screw_into_undrilled_part(path)
+    [j] = scan_model(path).joints
+    assert [(l.part, l.role) for l in j.layers] == [("end_cap", "member"), ("motor_body", "tapped")]
+    assert j.layers[-1].thickness == pytest.approx(5.0, abs=0.3) and j.grip == pytest.approx(5.0)
+    [warning] = [f for f in j.findings if f.code == "thread-in-hole"]
+    assert warning.severity == "warn" and "no hole drawn" in warning.message
+    code, doc = check(tmp_path, path, '"*" = "steel"', extra='[defaults]\ngrade = "8.8"\npreload = "50%"')
+    assert code in (0, 1) and not doc.get("not_analysed") and len(doc["joints"]) == 1

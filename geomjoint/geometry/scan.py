@@ -38,9 +38,11 @@ from geomjoint.geometry.stacks import (
     SetAside,
     find_plugs,
     add_open_layer,
+    add_undrilled_layer,
     find_stacks,
     number,
     open_hole_layer,
+    undrilled_thread_layer,
 )
 from geomjoint.geometry.placed import Placement, definition, movable, moved_hardware, moved_holes
 from geomjoint.mechanics.bolt import MIN_PROTRUSION_PITCHES, SIZING_PROTRUSION_PITCHES, minimum_engagement, required_length
@@ -222,6 +224,9 @@ def _scan(model: Model) -> ScanResult:
         layer = open_hole_layer(j, members, classifiers)
         if layer is not None:
             add_open_layer(j, layer)
+        undrilled = undrilled_thread_layer(j, members, classifiers)
+        if undrilled is not None:
+            add_undrilled_layer(j, undrilled)
         elif j.tapped and j.bolt is not None and len(j.layers) == 1:
             j.findings.append(Finding("warn", "thread-in-hole",
                                       f"nothing is clamped between the head of {j.bolt.part} and {j.layers[0].part}, "

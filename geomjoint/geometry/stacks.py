@@ -89,6 +89,11 @@ OPEN_PROBE_ANGLES = 12
 #: a part is clamped in the gap when its material is at least at this many probe angles at every
 #: share (the two sides of a slot, or a notch's three)
 OPEN_PROBE_MIN_HITS = 2
+#: a screw running on past its stack into a part with no hole drawn there is threaded into it
+#: when it overlaps the part's material by at least this share of its diameter (less is a
+#: modelling slip, not a thread); probed at this many points along the overlap
+UNDRILLED_MIN_DEPTH_RATIO = 0.5
+UNDRILLED_PROBES = 20
 #: prefix of the ids of stacks set aside (not joints)
 SET_ASIDE_PREFIX = "H"
 
@@ -816,6 +821,65 @@ def open_hole_layer(j: Joint, parts, cache: dict | None = None) -> Layer | None:
         if all(sum(inside(q) for q in ring) >= OPEN_PROBE_MIN_HITS for ring in rings):
             return Layer(name, "member", 0.0, g, j.bolt.d, True, material_hint=hint, solid=solid, open=True)
     return None
+
+
+def undrilled_thread_layer(j: Joint, parts, cache: dict | None = None) -> Layer | None:
+    """The part a modelled screw runs into past the end of its stack where that part has no hole
+    drawn (a bought part drawn as a plain solid): the screw's thread is in it.  Only where the
+    stack has no thread of its own (no nut, no tapped layer, or one taken as tapped only for a
+    bore at the screw's nominal diameter, which may be a clearance drawn line to line).
+    ``parts``: (name, located solid, material hint) of the parts that are no hardware.  Returns
+    the tapped layer (no hole: ``open``, its bore the screw's diameter), or None."""
+    from geomjoint.geometry.holes import _Inside
+
+    b = j.bolt
+    if b is None or j.nut is not None or not j.layers:
+        return None
+    last = j.layers[-1]
+    if last.role == "tapped" and not (j.threaded_bore == "nominal" and len(j.layers) >= 1):
+        return None
+    if last.role == "washer":
+        return None
+    s0, tip = last.end, b.length
+    if tip - s0 < UNDRILLED_MIN_DEPTH_RATIO * b.d:
+        return None
+    e = np.asarray(j.direction, dtype=float)
+    p0 = np.asarray(j.point, dtype=float)
+    steps = [s0 + (tip - s0) * (k + 0.5) / UNDRILLED_PROBES for k in range(UNDRILLED_PROBES)]
+    in_stack = {l.part for l in j.layers} | {b.part}
+    cache = {} if cache is None else cache
+    for name, solid, hint in parts:
+        if name in in_stack:
+            continue
+        inside = cache.get(name)
+        if inside is None:
+            inside = cache[name] = _Inside(solid)
+        hits = [s for s in steps if inside(p0 + s * e)]
+        if not hits or hits[0] > steps[1] + LINEAR_TOL:
+            continue                           # not where the stack ends
+        start = s0
+        end = min(max(hits) + (tip - s0) / (2 * UNDRILLED_PROBES), tip)
+        if end - start < UNDRILLED_MIN_DEPTH_RATIO * b.d:
+            continue
+        return Layer(name, "tapped", start, end, b.d, False, material_hint=hint, solid=solid, open=True)
+    return None
+
+
+def add_undrilled_layer(j: Joint, layer: Layer) -> None:
+    """Make the part with no hole drawn the joint's tapped layer (a nominal bore before it is clamped)."""
+    last = j.layers[-1]
+    if last.role == "tapped":
+        last.role = "member"                   # a clearance drawn line to line, now clamped
+    j.findings = [f for f in j.findings if f.code != "thread-in-hole"]
+    j.layers.append(layer)
+    j.kind, j.thread_method, j.threaded_bore = "tapped", "tapped", "not drawn"
+    j.grip, j.tapped_depth = layer.start, layer.thickness
+    j.hole_diameter = min(l.hole_diameter for l in j.layers if l.role == "member") if any(
+        l.role == "member" for l in j.layers) else layer.hole_diameter
+    j.findings.append(Finding("warn", "thread-in-hole",
+                              f"{j.bolt.part} runs {layer.thickness:.2f} mm into {layer.part}, which has no hole "
+                              f"drawn there: taken as tapped into it (a bought part drawn without its tapped "
+                              f"hole?); check the model"))
 
 
 def add_open_layer(j: Joint, layer: Layer) -> None:
