@@ -329,3 +329,16 @@ def test_a_stud_with_a_nut_at_each_end_is_a_through_joint(tmp_path):
     assert {joint.bolt.nut_head, joint.nut.part} == {"ISO 4032 M10 upper", "ISO 4032 M10 lower"}
     assert joint.grip == pytest.approx(24.0)
     assert not {"gap", "bolt-short"} & set(_codes(joint)), joint.findings
+
+
+def test_a_knurled_socket_head_is_a_socket_head(tmp_path):
+    """ISO 4762 M5 (d_k 8.5, k 5, socket 4; from memory) with a knurled side: no cylinder on the
+    head, the outline stands at full radius over the whole height, the top is flat."""
+    path = tmp_path / "knurled.step"
+    a = cq.Assembly(name="knurled")
+    top = mc._plates(a, 5.5, (5.0, 5.0), (30.0, 30.0))
+    a.add(mc.knurled_socket_screw(5.0, 16.0, 8.5, 5.0, 4.0), name="Part4", loc=cq.Location(cq.Vector(0, 0, top)))
+    a.add(mc.chamfered_hex_nut(5.0, 8.0, 4.7), name="Part5", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.bolt.head_kind == "socket" and joint.nominal == "M5" and joint.bolt.length == pytest.approx(16.0)

@@ -42,6 +42,7 @@ from OCP.TopoDS import TopoDS_Shape
 from geomjoint.geometry import topology
 from geomjoint.geometry.holes import (
     ANGLE_TOL,
+    axis_frame,
     LINEAR_TOL,
     MIN_WRAP,
     Hole,
@@ -112,6 +113,10 @@ PRISM_CORNER_TOL = 1.02
 #: is a socket or cheese head (ISO 4762, ISO 1207); a lower side or a domed top is a button
 #: or pan head (ISO 7380, ISO 7045, ISO 1580) (common practice of how the heads are drawn)
 FLAT_HEAD_SIDE_SHARE = 0.5
+#: a head's side "stands" where its outline reaches this share of the head radius; the outline
+#: is read in SIDE_BINS slices of the head height
+SIDE_RADIUS_SHARE = 0.97
+SIDE_BINS = 20
 #: a flat top covers at least this share of the head radius (a socket's rim; a dome's flat is smaller)
 FLAT_TOP_SHARE = 0.5
 #: two round-head kinds whose catalogue misfit differs by less than this are a tie, which the
@@ -690,7 +695,7 @@ def _prism_width(o: _Outline, head_faces, n_sides: int, height: float | None = N
 
     With ``height``, each flat must run over PRISM_MIN_HEIGHT_SHARE of it (knurls, lettering and
     small flats of an insert are no prism)."""
-    dists = []
+    flats = []
     for f, ft, fr in head_faces:
         if f.kind != "plane" or abs(float(np.dot(f.normal, o.d))) > ANGLE_TOL * 10:
             continue
@@ -701,13 +706,22 @@ def _prism_width(o: _Outline, head_faces, n_sides: int, height: float | None = N
         dist = float(np.dot(rel, f.normal))
         if dist <= 0:                     # faces the axis: a socket's flat, not the head's
             continue
-        dists.append(dist)
-    if len(dists) < n_sides:
+        flats.append((dist, f.normal))
+    if len(flats) < n_sides:
         return None
-    dists.sort()
-    for i in range(len(dists) - n_sides + 1):
-        if dists[i + n_sides - 1] - dists[i] < 10 * LINEAR_TOL * max(1.0, dists[i] / 10):
-            return 2 * float(np.mean(dists[i:i + n_sides]))
+    flats.sort(key=lambda x: x[0])
+    u, v = axis_frame(o.d)
+    for i in range(len(flats) - n_sides + 1):
+        d0 = flats[i][0]
+        same = [n for dist, n in flats if abs(dist - d0) < 10 * LINEAR_TOL * max(1.0, d0 / 10)]
+        if len(same) < n_sides:
+            continue
+        # the flats' directions: exactly n_sides of them, evenly spaced (a knurl has many more)
+        angles = sorted({round(math.degrees(math.atan2(float(n @ v), float(n @ u))) % 360.0, 1) % 360.0 for n in same})
+        step = 360.0 / n_sides
+        if len(angles) == n_sides and all(abs((b - a) - step) < 0.5 for a, b in zip(angles, angles[1:])):
+            return 2 * d0
+        return None
     return None
 
 
@@ -753,6 +767,7 @@ def _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top) -> str |
     for f, ft, fr in head_faces:
         if f.kind == "cylinder" and f.outward and o.coaxial(f) and abs(float(fr.max()) - R) < 0.02 * R:
             side = max(side, float(np.ptp(ft)))
+    side = max(side, _side_from_outline(o, top, k, R, towards_tip))
     flat_top = False
     for f, ft, fr in head_faces:
         if (f.kind == "plane" and abs(abs(float(np.dot(f.normal, o.d))) - 1) < 1e-6
@@ -786,6 +801,24 @@ def _round_kind(o, head_faces, R, k, r_nom, t, desig, towards_tip, top) -> str |
     if k >= SOCKET_MIN_HEIGHT_RATIO * 2 * r_nom:
         return "socket"
     return "cheese" if flat else "button"
+
+
+def _side_from_outline(o: _Outline, top: float, k: float, R: float, towards_tip) -> float:
+    """Height over which a head's outline stays at its full radius (within SIDE_RADIUS_SHARE),
+    from the outline's points: a knurled side is no cylinder but stands as high as one."""
+    if k <= 0:
+        return 0.0
+    depth = towards_tip(o.t)
+    sel = (depth >= 0) & (depth <= k)
+    if not np.any(sel):
+        return 0.0
+    idx = np.clip((depth[sel] / k * SIDE_BINS).astype(int), 0, SIDE_BINS - 1)
+    rmax = np.full(SIDE_BINS, np.nan)
+    np.fmax.at(rmax, idx, o.r[sel])
+    seen = np.isfinite(rmax)
+    if seen.sum() < SIDE_BINS // 2:
+        return 0.0                        # too few points to tell (a smooth side of few edges)
+    return float(k * np.sum(rmax[seen] >= SIDE_RADIUS_SHARE * R) / seen.sum())
 
 
 def _headless(part, o: _Outline, a0, a1, r_nom, solid, desig, hint):

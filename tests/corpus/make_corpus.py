@@ -797,6 +797,20 @@ def threaded_socket_screw(d: float, pitch: float, length: float, dk: float, k: f
     return head.union(shank)
 
 
+def knurled_socket_screw(d: float, length: float, dk: float, k: float, key: float, ridges: int = 36):
+    """An ISO 4762 socket screw with a knurled head, as one catalogue's models are: the head's side
+    a ring of V ridges (planes, no cylinder), a flat top with a hexagon socket."""
+    import cadquery as cq
+
+    pts = []
+    for i in range(2 * ridges):
+        r = dk / 2 if i % 2 == 0 else dk / 2 - 0.15
+        a = math.pi * i / ridges
+        pts.append((r * math.cos(a), r * math.sin(a)))
+    head = cq.Workplane("XY").polyline(pts).close().extrude(k).cut(_hex_socket(key, 0.6 * k, k))
+    return head.union(cq.Workplane("XY").circle(d / 2).extrude(-length))
+
+
 def button_screw(d: float, length: float, dk: float, k: float, key: float):
     """An ISO 7380-1 button head screw: a low dome over a short rim, a hexagon socket."""
     import cadquery as cq
