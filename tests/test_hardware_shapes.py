@@ -342,3 +342,17 @@ def test_a_knurled_socket_head_is_a_socket_head(tmp_path):
     mc.write_step(a, path)
     [joint] = scan_model(path).joints
     assert joint.bolt.head_kind == "socket" and joint.nominal == "M5" and joint.bolt.length == pytest.approx(16.0)
+
+
+def test_a_nylon_insert_nut_with_its_collar_is_a_lock_nut_bearing_on_its_hexagon(tmp_path):
+    """ISO 7040 M8: s 13, h 9.5 (from memory), drawn with the insert's collar on top; unnamed."""
+    path = tmp_path / "nyloc.step"
+    a = cq.Assembly(name="nyloc")
+    top = mc._plates(a, 9.0, (8.0, 8.0))
+    a.add(mc.hex_bolt_as_library(8.0, 30.0, 13.0, 5.3, 11.8, 0.4), name="Part1", loc=cq.Location(cq.Vector(0, 0, top)))
+    a.add(mc.nylon_insert_nut(8.0, 13.0, 9.5), name="Part2", loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.nut.kind == "lock" and joint.nut.height == pytest.approx(9.5)
+    assert joint.nut.bearing_diameter == pytest.approx(0.95 * 13.0)   # the chamfered hexagon's face
+    assert not {"gap", "overlap"} & set(_codes(joint))

@@ -886,8 +886,8 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
     if (af and MIN_HEAD_WIDTH_RATIO * h.diameter <= af <= MAX_HEAD_WIDTH_RATIO * h.diameter
             and height <= NUT_MAX_HEIGHT_RATIO * h.diameter):
         corners = af * HEX_CORNER_FACTOR
-        # the bearing face: the end face as far as it reaches (a chamfered nut's circle, a
-        # washer face), at most the flats
+        # the bearing face: the wider end face as far as it reaches (a chamfered nut's circle),
+        # at most the flats
         bearing = min(af, 2 * end_r) if end_r > h.diameter / 2 else af
         if kind == "hex" and R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bearing = "flange", 2 * R
@@ -934,8 +934,9 @@ def _rectangle_width(o: _Outline, hf, height: float) -> float | None:
 
 
 def _end_face_radius(o: _Outline, hf, a0: float, a1: float) -> float:
-    """How far out the smaller of a nut's two end faces reaches (planes normal to the axis at
-    either end), mm; 0 when an end has no such face."""
+    """How far out the wider of a nut's two end faces reaches (planes normal to the axis at
+    either end), mm; 0 when an end has no such face.  The wider end bears: a nylon-insert nut's
+    collar never does."""
     reach = {}
     for f, ft, fr in hf:
         if f.kind != "plane" or abs(abs(float(np.dot(f.normal, o.d))) - 1) > 1e-6 or np.ptp(ft) > 10 * LINEAR_TOL:
@@ -943,7 +944,7 @@ def _end_face_radius(o: _Outline, hf, a0: float, a1: float) -> float:
         for end in (a0, a1):
             if abs(float(ft.mean()) - end) < 10 * LINEAR_TOL:
                 reach[end] = max(reach.get(end, 0.0), float(fr.max()))
-    return min(reach.values()) if len(reach) == 2 else 0.0
+    return max(reach.values()) if len(reach) == 2 else 0.0
 
 
 def _thread_by_bore(bore: float):

@@ -895,6 +895,16 @@ def flange_nut(bore: float, s: float, m: float, dc: float, flange: float = 1.0):
     return body.faces(">Z").workplane().hole(bore)
 
 
+def nylon_insert_nut(bore: float, s: float, h: float, collar: float = 0.25):
+    """An ISO 7040 nut as libraries draw it in one body: the chamfered hexagon, and on top the
+    round collar (0.9 s across) that holds the nylon ring, ``collar`` of the height ``h``."""
+    import cadquery as cq
+
+    hexagon = chamfered_hex_nut(bore, s, (1 - collar) * h)
+    ring = cq.Workplane("XY").circle(0.45 * s).extrude(collar * h).translate((0, 0, (1 - collar) * h))
+    return hexagon.union(ring.faces(">Z").workplane().hole(bore))
+
+
 def set_screw(d: float, length: float, key: float, socket: bool = True):
     """An ISO 4026 flat-point set screw: a plain cylinder (thread not drawn), a hexagon socket
     at z = length, chamfered ends."""
