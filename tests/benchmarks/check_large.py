@@ -18,12 +18,14 @@ temporary folder, and for each N runs, alternating, ``--repeat`` times:
 and prints the medians: the scan alone, the analysis (which scans the file itself), each
 output's time and size, the whole check, the check/import ratio, the cost per joint and its
 growth from the previous N (1.00 = linear), and the peak resident memory of the process.
-The ratio is measured in one run, alternating, so a busy machine slows both sides alike.
+The ratio is measured in one run, alternating, so a busy machine slows both sides alike; the
+load average before and after each N is printed beside the figures.
 """
 from __future__ import annotations
 
 import argparse
 import math
+import os
 import resource
 import statistics
 import tempfile
@@ -136,6 +138,7 @@ def main() -> None:
 
     rows = []
     for n in args.counts:
+        load_before = os.getloadavg()[0]
         with tempfile.TemporaryDirectory() as tmp:
             path = Path(tmp) / f"frame{n}.step"
             frame(n).export(str(path))
@@ -158,7 +161,8 @@ def main() -> None:
                          {k: med(v) for k, v in stages.items()}, sizes, path.stat().st_size))
         peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
         n, imp, xcaf, scan_s, check, st, sz, input_size = rows[-1]
-        print(f"\n== {n} joints (median of {args.repeat}, workers {args.workers}; input STEP {input_size / 1e6:.2f} MB)")
+        print(f"\n== {n} joints (median of {args.repeat}, workers {args.workers}; input STEP {input_size / 1e6:.2f} MB; "
+              f"load average {load_before:.1f} before, {os.getloadavg()[0]:.1f} after, {os.cpu_count()} cores)")
         print(f"  import (cadquery + tessellate) {imp:8.2f} s")
         print(f"  xcaf import + mesh             {xcaf:8.2f} s")
         print(f"  scan                           {scan_s:8.2f} s")
