@@ -20,6 +20,30 @@ output's time and size, the whole check, the check/import ratio, the cost per jo
 growth from the previous N (1.00 = linear), and the peak resident memory of the process.
 The ratio is measured in one run, alternating, so a busy machine slows both sides alike; the
 load average before and after each N is printed beside the figures.
+
+Measured 2026-12-02 on the shared 2-core machine, load average 4.6-5.3 throughout (other
+engineers' test runs: every figure is slower than on an idle machine, the reference import
+most of all), medians of 3, ``--workers 1`` (seconds; sizes in MB):
+
+    joints                        100      200      400
+    import (cadquery + mesh)     3.83    11.91    25.73
+    xcaf import + mesh           2.08     9.67    20.56
+    scan                         1.01     2.73     5.18
+    analysis (with the scan)     2.29     5.75     9.64
+    results.json             0.07/0.91 0.15/1.83 0.26/3.67
+    report.txt               0.01/0.01 0.01/0.02 0.01/0.05
+    report.html              1.00/1.52 1.86/3.02 4.21/6.04   (overview meshing included)
+    scene (cone solids)          0.37     0.89     1.40
+    step                     0.38/1.19 0.97/2.33 2.03/4.61   (input 1.36 / 2.64 / 5.20)
+    glb                      0.38/0.84 1.13/1.61 1.59/3.16
+    whole check, written         4.67    11.21    19.88
+    check / import               1.22     0.94     0.77
+    ms per joint (growth)        46.7  56.0 (1.20)  49.7 (0.89)
+
+Before issue 13's last round (same machine, load 2.8, 200 joints, one run): import 4.87 s,
+check 18.53 s, ratio 3.80 (report.html 7.3 s, most of it Watson meshing of the plates for
+the overview; analysis 7.7 s).  The reference import grows faster than linearly (OCCT's
+default Watson triangulation of a plate face with N holes), the check about linearly.
 """
 from __future__ import annotations
 

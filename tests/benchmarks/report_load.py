@@ -9,6 +9,19 @@ For each N prints: html_report seconds, the page size (and per joint), and the m
   DOMContentLoaded   ms from navigation start until the document is parsed
   load               ms until the load event (the page as it first shows: sections closed)
   open all           ms to open every joint's section and lay out every drawing
+                     (the drawings are written by the page's script as sections open)
+
+Measured 2026-12-02 (shared 2-core machine, load average 4.2-5.0; medians of 3 at 400):
+
+    joints  size MB  kB/joint  DOMContentLoaded ms  load ms  open all ms
+      100     1.05     10.5          229              229        1024
+      400     4.19     10.5          480              542        3033
+    before (drawings inline in every closed section, load 4.2, one run):
+      100     1.53     15.3          275              289         544
+      400     6.10     15.3          844              948        1870
+
+The machine bed of check_large.py (clipped-cone tables and the stack-up chart per joint)
+makes 15.7 kB a joint: 9.1 kB of tables and text, 5.2 kB of drawing data (four drawings).
 """
 from __future__ import annotations
 
