@@ -170,3 +170,17 @@ def test_a_mirrored_placement_is_read_on_its_own_solid():
     turn = gp_Trsf()
     turn.SetRotation(gp_Ax2(gp_Pnt(0, 0, 0), gp_Dir(0, 0, 1)).Axis(), math.pi / 3)
     assert Placement.of(solid.Moved(TopLoc_Location(turn))) is not None
+
+
+def test_placements_named_otherwise_are_recognised_by_their_own_names(model):
+    """Placements of one definition under names that say otherwise (a plain name, and one that
+    calls it a pin): recognition reads the name too, so they are read apart (the pin is no fastener)."""
+    bolt = next(p for p in model.parts if p.name.startswith("bolt"))
+    other = next(p for p in model.parts if p.name.startswith("bolt") and p is not bolt)
+    as_bolt = dataclasses.replace(bolt, name="block_x", product="block_x", instance=None)
+    as_pin = dataclasses.replace(other, name="locating pin_y", product="locating pin_y", instance=None)
+    readings = _Readings()
+    assert type(readings.of(as_bolt)[1]).__name__ == "Bolt"
+    assert readings.of(as_pin)[1] is None
+    for part in (as_bolt, as_pin):   # (neither name has a designation: only the word "pin" differs)
+        _same(_direct(part), readings.of(part), part.name)

@@ -161,7 +161,8 @@ class _Readings:
             return _read(part.solid, part, label)
         desig = _designation(label)
         bare = definition(part.solid)
-        key = (self._number(bare), _designation_key(desig))
+        # what recognition reads of the name: its designation and the hole-part kind it says
+        key = (self._number(bare), _designation_key(desig), hole_part_kind(label))
         if key not in self.readings:
             self.readings[key] = _read(bare, part, label, of_definition=True)
         holes, hw, plugs = self.readings[key]
