@@ -693,7 +693,10 @@ def html_report(results: list[JointResult], *, title: str, units: str = "SI",
     sections = lazy.compact("".join(_joint_section(i, r, u) for i, r in enumerate(results)), drawings)
     toolbar = ('<h2 id="details">Each joint</h2><p class="toolbar">Open a joint for its drawings, numbers and '
                'checks: <button type="button" data-open-all="yes">open all</button>'
-               '<button type="button" data-open-all="no">close all</button></p>') if results else ""
+               '<button type="button" data-open-all="no">close all</button></p>'
+               '<noscript><p class="src">The drawings are drawn by the page\'s script: with scripts off the '
+               'sections show their numbers and checks only (results.json has every number).</p></noscript>'
+               ) if results else ""
     return ("<!DOCTYPE html>\n"
             f'<html lang="en"><head><meta charset="utf-8">'
             f'<meta name="viewport" content="width=device-width, initial-scale=1">'
