@@ -370,3 +370,28 @@ def test_a_screw_into_a_part_drawn_without_its_hole_is_tapped_into_that_part(tmp
     assert warning.severity == "warn" and "no hole drawn" in warning.message
     code, doc = check(tmp_path, path, '"*" = "steel"', extra='[defaults]\ngrade = "8.8"\npreload = "50%"')
     assert code in (0, 1) and not doc.get("not_analysed") and len(doc["joints"]) == 1
+
+
+def test_a_wide_bore_near_a_screw_pattern_leaves_one_joint_per_screw(tmp_path):
+    """Four M3 socket screws on a 20 mm pitch circle through a 3 mm cover (3.4 mm holes, ISO 273
+    medium) into 2.5 mm tap drills (d - P) of a 6 mm flange; a hub 4 mm below has a 40 mm bore
+    whose circle takes in all four in projection (invented demo)."""
+    import math
+
+    path = tmp_path / "pattern.step"
+    pts = [(10.0 * math.cos(k * math.pi / 2), 10.0 * math.sin(k * math.pi / 2)) for k in range(4)]
+    a = cq.Assembly(name="pattern")
+    a.add(cq.Workplane("XY").box(40, 40, 3, centered=(True, True, False)).translate((0, 0, 6))
+          .faces(">Z").workplane().pushPoints(pts).hole(3.4), name="cover")
+    a.add(cq.Workplane("XY").box(40, 40, 6, centered=(True, True, False))
+          .faces(">Z").workplane().pushPoints(pts).hole(2.5, 5.0), name="flange")
+    a.add(cq.Workplane("XY").box(60, 60, 5, centered=(True, True, False)).translate((0, 0, -9))
+          .faces(">Z").workplane().hole(40.0), name="hub")
+    for i, (x, y) in enumerate(pts, 1):
+        a.add(mc._socket_screw(3.0, 6.0, *mc.M3_SOCKET), name=f"socket screw M3x6 {i}", loc=cq.Location(cq.Vector(x, y, 9)))
+    mc.write_step(a, path)
+    joints = scan_model(path).joints
+    assert len(joints) == 4
+    for j in joints:
+        assert [(l.part, l.role) for l in j.layers] == [("cover", "member"), ("flange", "tapped")], j.id
+        assert not [f for f in j.findings if f.severity == "fail"]

@@ -55,8 +55,10 @@ from geomjoint.geometry.holes import (
 
 #: axes within this angle count as parallel for grouping, rad (0.5 deg)
 STACK_ANGLE_TOL = math.radians(0.5)
-#: layers closer than this along the axis are in contact, mm
-GAP_TOL = 1e-3
+#: layers closer than this along the axis are in contact, mm (exports round coordinates and
+#: tessellate fits to micrometres: a 2 um "gap" under a head is noise; no designer draws one
+#: below 0.01 mm)
+GAP_TOL = 0.01
 #: a bore matches a tap drill or nominal diameter within this, mm (the catalog's default)
 THREAD_MATCH_TOL = 0.05
 #: holes larger than this are bores, not fastener holes, mm (ISO 273 coarse for M64 is 70 mm)
@@ -897,10 +899,11 @@ def add_open_layer(j: Joint, layer: Layer) -> None:
 
 def _per_bolt(group: list[_Item]) -> list[list[_Item]]:
     """One group per modelled bolt: screws from both ends of one bore (a shaft tapped at each
-    end) are two joints.  Each keeps the holes (build_joint bounds them by its bolt) and the
-    nuts on its own shank."""
+    end) are two joints, and a pattern of screws whose holes a wide bore links is one joint per
+    screw.  Each keeps the holes, washers and nuts its shank passes (their circles overlap its
+    own in projection; build_joint bounds them along the axis) and the nuts on its own length."""
     bolts = [it for it in group if it.kind == "bolt"]
-    if len(bolts) < 2:
+    if not bolts:
         return [group]
     out = []
     for b in bolts:
@@ -911,6 +914,8 @@ def _per_bolt(group: list[_Item]) -> list[list[_Item]]:
         for it in group:
             if it.kind == "bolt":
                 continue
+            if it.kind != "plug" and _axis_offset(it, b) >= it.radius + b.radius - LINEAR_TOL:
+                continue                       # a hole beside this shank, linked by a wider one
             if it.kind == "nut":
                 a, c = sorted(float(np.dot(it.ref + t * it.direction, e)) for t in (it.t0, it.t1))
                 if c <= s_bear + GAP_TOL or a >= s_bear + bolt.length - GAP_TOL:
