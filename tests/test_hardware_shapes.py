@@ -356,3 +356,19 @@ def test_a_nylon_insert_nut_with_its_collar_is_a_lock_nut_bearing_on_its_hexagon
     assert joint.nut.kind == "lock" and joint.nut.height == pytest.approx(9.5)
     assert joint.nut.bearing_diameter == pytest.approx(0.95 * 13.0)   # the chamfered hexagon's face
     assert not {"gap", "overlap"} & set(_codes(joint))
+
+
+def test_a_small_lock_nut_with_its_bore_at_the_minor_diameter(tmp_path):
+    """ISO 7040 M3: s 5.5, h 4 (from memory), the bore drawn at D1 = 2.459 mm (ISO 724): 1.6 bores
+    high but 1.33 d, a lock nut."""
+    from geomjoint import catalog
+
+    path = tmp_path / "m3_nyloc.step"
+    a = cq.Assembly(name="m3")
+    top = mc._plates(a, 3.4, (3.0, 3.0), (20.0, 20.0))
+    a.add(mc.socket_screw_as_library(3.0, 12.0, 5.5, 3.0, 2.5), name="DIN 912 M3x12", loc=cq.Location(cq.Vector(0, 0, top)))
+    a.add(mc.chamfered_hex_nut(catalog.thread("M3").D1, 5.5, 4.0), name="Part9",
+          loc=cq.Location(cq.Vector(0, 0, 0), cq.Vector(1, 0, 0), 180))
+    mc.write_step(a, path)
+    [joint] = scan_model(path).joints
+    assert joint.nut is not None and joint.nut.kind == "lock" and joint.nominal == "M3"

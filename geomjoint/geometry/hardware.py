@@ -883,8 +883,12 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
     else:
         af = _hex_width(faces, h.ref, h.direction)
         kind = "hex"
+    # a bore drawn at the thread's minor diameter: the nut's proportions are to the nominal (the
+    # name's thread, else the largest thread the bore can be: 2.46 mm is M2.5 or M3's D1)
+    t_bore = _nut_thread(h.diameter, desig) if af else None
+    d_ref = max(h.diameter, t_bore.d) if t_bore is not None else h.diameter
     if (af and MIN_HEAD_WIDTH_RATIO * h.diameter <= af <= MAX_HEAD_WIDTH_RATIO * h.diameter
-            and height <= NUT_MAX_HEIGHT_RATIO * h.diameter):
+            and height <= NUT_MAX_HEIGHT_RATIO * d_ref):
         corners = af * HEX_CORNER_FACTOR
         # the bearing face: the wider end face as far as it reaches (a chamfered nut's circle),
         # at most the flats
@@ -892,9 +896,8 @@ def _nut_or_washer(part, faces: SolidFaces, h: Hole, solid, desig, hint) -> Nut 
         if kind == "hex" and R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bearing = "flange", 2 * R
         elif kind == "hex":
-            t = _thread_of(h.diameter, desig) or _thread_by_bore(h.diameter)
             named_lock = desig is not None and desig.family == "nut" and desig.kind == "lock"
-            if named_lock or (t is not None and height > LOCK_NUT_MIN_HEIGHT_RATIO * t.d):
+            if named_lock or (t_bore is not None and height > LOCK_NUT_MIN_HEIGHT_RATIO * t_bore.d):
                 kind = "lock"
         return Nut(part, h.ref, h.direction, h.diameter, af, height, a0, a1, bearing, hint, solid, kind, desig)
     named_washer = desig is not None and desig.family == "washer"
@@ -945,6 +948,24 @@ def _end_face_radius(o: _Outline, hf, a0: float, a1: float) -> float:
             if abs(float(ft.mean()) - end) < 10 * LINEAR_TOL:
                 reach[end] = max(reach.get(end, 0.0), float(fr.max()))
     return max(reach.values()) if len(reach) == 2 else 0.0
+
+
+def _nut_thread(bore: float, desig):
+    """The thread a nut's bore is: the name's where the bore fits it, else the largest coarse
+    thread whose nominal, minor diameter or tap drill the bore is."""
+    from geomjoint import catalog
+    from geomjoint.errors import InputError
+
+    if desig is not None and desig.thread:
+        try:
+            t = catalog.thread(desig.thread)
+        except InputError:
+            t = None
+        if t is not None and (thread_fits_diameter(t, bore) or abs(catalog.tap_drill(t) - bore) <= SIZE_TOL * t.d):
+            return t
+    fits = [t for t, how in catalog.nominal_from_hole(bore)
+            if how in ("nominal", "tap drill") and t.series in ("coarse", "UNC")]
+    return max(fits, key=lambda t: t.d) if fits else None
 
 
 def _thread_by_bore(bore: float):
