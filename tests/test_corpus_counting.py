@@ -167,3 +167,10 @@ def test_manifest_entries_are_complete():
         assert {"repo", "commit", "path", "local", "sha256", "licence", "cad_system", "units"} <= set(e)
         for name, reason in e.get("not_fasteners", {}).items():
             assert name and len(reason) > 10            # every exception says why
+
+
+def test_a_gap_is_false_only_where_the_faces_touch_and_the_gap_is_more_than_noise():
+    assert rc.gap_contradicted(7.5, 0.0)          # a head read over its own height (issue 15 item 8)
+    assert rc.gap_contradicted(3.0, 0.004)        # faces a few um apart, a 3 mm gap reported
+    assert not rc.gap_contradicted(0.0025, 0.0025)   # what the model has, if idle
+    assert not rc.gap_contradicted(1.0, 0.8)      # faces that do stand apart

@@ -380,7 +380,7 @@ def _false_claims(scan, row: dict) -> None:
             if a == b or a not in solids or b not in solids:
                 continue         # two faces of one part (a U-bracket's legs) may well stand apart
             span = gap_span(j, a, b, g.size)
-            if span is not None and _distance_near_axis(solids[a], solids[b], j, span) <= TOUCH_TOL:
+            if span is not None and gap_contradicted(g.size, _distance_near_axis(solids[a], solids[b], j, span)):
                 # a head drawn into the gap (its bearing face read too high) is the recogniser's;
                 # a head on a part whose recess the stack took for a gap is the stack's
                 misread = j.bolt is not None and a == j.bolt.part and \
@@ -426,6 +426,18 @@ def gap_span(joint, a: str, b: str, size: float) -> tuple[float, float] | None:
     if joint.nut is not None and b == joint.nut.part and layers and layers[-1].part == a:
         return layers[-1].end, layers[-1].end + size
     return None
+
+
+def gap_contradicted(reported: float, measured: float) -> bool:
+    """A gap the scan reports is false when the two solids touch across it (within TOUCH_TOL)
+    and the gap is more than twice what they are apart: a 2.5 um gap reported between faces
+    2.5 um apart is true, if idle; 7.5 mm reported between a head and the washer it sits on
+    is false.
+
+    >>> gap_contradicted(7.5, 0.0), gap_contradicted(0.0025, 0.0025), gap_contradicted(0.5, 0.4)
+    (True, False, False)
+    """
+    return measured <= TOUCH_TOL and measured < reported / 2
 
 
 def _distance_near_axis(a, b, joint, span: tuple[float, float]) -> float:
