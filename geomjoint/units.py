@@ -94,6 +94,24 @@ def parse_quantity(value, kind: str, *, where: str, allow_bare: bool = False) ->
         if allow_bare:
             return float(text)
         raise InputError(f"{value!r} has no unit, e.g. \"{text} {INTERNAL[kind]}\"", where=where)
+    known = _known_value(text, kind)
+    if known is not None:
+        return known
+    return _unit_value(value, text, kind, where)     # raises the error that names the key
+
+
+@functools.lru_cache(maxsize=4096)
+def _known_value(text: str, kind: str) -> float | None:
+    """A quantity text already read (a job repeats "30 deg" for every joint; pint takes ~1 ms
+    a parse), or None when it does not read (the caller then raises the error)."""
+    try:
+        return _unit_value(text, text, kind, where="")
+    except InputError:
+        return None
+
+
+def _unit_value(value, text: str, kind: str, where: str) -> float:
+    """``text`` (a number with a unit) in the internal unit of ``kind``."""
     ureg = registry()
     try:
         q = ureg.Quantity(text.replace("·", "*"))

@@ -53,3 +53,17 @@ def test_percent():
 def test_convert_round_trip():
     assert convert(25.4, "length", "in") == pytest.approx(1.0)
     assert convert(1000.0, "torque", "N*m") == pytest.approx(1.0)
+
+
+def test_repeated_quantities_read_alike_and_bad_ones_always_name_their_key():
+    # a text read once is remembered (jobs repeat "30 deg" per joint); a bad one is never
+    # remembered as good and each time names its own key
+    from geomjoint.errors import InputError
+    from geomjoint.units import parse_quantity
+
+    assert parse_quantity("30 deg", "angle", where="a") == parse_quantity(" 30 deg", "angle", where="b") == 30.0
+    assert parse_quantity("1 in", "length", where="a") == 25.4       # ISO 31-1 / NIST: 1 in = 25.4 mm exactly
+    for where in ("job.toml: J01.cone_angle", "job.toml: J02.cone_angle"):
+        with pytest.raises(InputError) as exc:
+            parse_quantity("30 furlongs", "angle", where=where)
+        assert where in str(exc.value)
