@@ -278,3 +278,48 @@ def test_a_shank_in_its_thread_does_not_touch_across_a_gap():
         .hole(4.2).translate((0, 0, 3.0)).val().wrapped
     joint = NS(point=(0.0, 0.0, 0.0), direction=(0.0, 0.0, 1.0), hole_diameter=4.2, bolt=NS(d=5.0))
     assert rc._distance_near_axis(screw, block, joint, (0.0, 3.0)) == pytest.approx(3.0, abs=1e-6)
+
+
+# ----------------------------------------------------------------------------- faces written as B-splines
+
+def test_holes_and_faces_written_as_b_splines_are_read_as_drawn(tmp_path):
+    from geomjoint.geometry.scan import scan_model
+
+    model = tmp_path / "bspline_pair.step"
+    mc.quirk_bspline_faces(model)
+    text = model.read_text()
+    assert "B_SPLINE_SURFACE" in text
+    joints = scan_model(model).joints
+    # the two M10x30 joints of the pair through the two 10 mm plates (ISO 273 medium 11 mm)
+    assert len(joints) == 2
+    for j in joints:
+        assert j.nominal == "M10" and j.grip == pytest.approx(20.0) and j.hole_diameter == pytest.approx(11.0)
+
+
+def test_analytic_faces_keeps_the_solid_and_its_holes():
+    import cadquery as cq
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_NurbsConvert
+    from OCP.BRepCheck import BRepCheck_Analyzer
+    from OCP.BRepGProp import BRepGProp
+    from OCP.GProp import GProp_GProps
+
+    from geomjoint.geometry.holes import analyse_faces, find_holes
+    from geomjoint.geometry.model import analytic_faces
+
+    plate = cq.Workplane("XY").box(40, 30, 10).faces(">Z").workplane().pushPoints([(-10, 0), (10, 0)]).hole(11.0).val()
+    nurbs = BRepBuilderAPI_NurbsConvert(plate.wrapped, True).Shape()
+    assert find_holes(nurbs, "plate", analyse_faces(nurbs)) == []          # no cylinder to find a hole on
+    read = analytic_faces(nurbs)
+    assert BRepCheck_Analyzer(read).IsValid()
+
+    def volume(shape):
+        props = GProp_GProps()
+        BRepGProp.VolumeProperties_s(shape, props)
+        return props.Mass()
+
+    # 40 x 30 x 10 less two 11 mm holes: the same solid (to the accuracy of the volume
+    # integration over the edges, still B-spline curves)
+    assert volume(read) == pytest.approx(40 * 30 * 10 - 2 * 3.141592653589793 * 5.5 ** 2 * 10, rel=1e-3)
+    holes = find_holes(read, "plate", analyse_faces(read))
+    assert sorted(round(h.diameter, 6) for h in holes) == [11.0, 11.0] and all(h.through for h in holes)
+    assert analytic_faces(plate.wrapped) is plate.wrapped                   # nothing to do: the same shape

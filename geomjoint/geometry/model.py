@@ -345,8 +345,71 @@ def _instance_names_win(raw: list[_Raw]) -> None:
             r.name = r.instance
 
 
+#: a B-spline face is taken for the plane, cylinder or cone it fits within this, mm
+ANALYTIC_FIT_TOL = 1e-5
+
+
+def analytic_faces(solid: TopoDS_Shape) -> TopoDS_Shape:
+    """The solid with each B-spline face that is a plane, cylinder or cone (within
+    ANALYTIC_FIT_TOL) rebuilt on that surface; the solid itself when none is.
+
+    Some writers export every curved face as a B-spline (Open CASCADE 6.1's AP214 writes
+    the bolt holes of its sample assembly so; Rhino writes planes so): holes, heads and
+    bearing faces are read from cylinders, cones and planes, so such a face is read as the
+    surface it is.  Faces that fit none (threads, fillets, free forms) are left as drawn.
+    """
+    from OCP.BRep import BRep_Tool
+    from OCP.BRepAdaptor import BRepAdaptor_Surface
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace
+    from OCP.BRepTools import BRepTools, BRepTools_ReShape
+    from OCP.GeomAbs import GeomAbs_BSplineSurface, GeomAbs_BezierSurface, GeomAbs_Cone, GeomAbs_Cylinder, GeomAbs_Plane
+    from OCP.GeomAdaptor import GeomAdaptor_Surface
+    from OCP.GeomConvert import GeomConvert_SurfToAnaSurf
+    from OCP.ShapeFix import ShapeFix_Face, ShapeFix_Shape
+
+    reshape = BRepTools_ReShape()
+    changed = False
+    for face in topology.faces(solid):
+        if BRepAdaptor_Surface(face, False).GetType() not in (GeomAbs_BSplineSurface, GeomAbs_BezierSurface):
+            continue
+        surface = GeomConvert_SurfToAnaSurf(BRep_Tool.Surface_s(face)).ConvertToAnalytical(ANALYTIC_FIT_TOL)
+        if surface is None or GeomAdaptor_Surface(surface).GetType() not in (GeomAbs_Plane, GeomAbs_Cylinder, GeomAbs_Cone):
+            continue
+        outer = BRepTools.OuterWire_s(face)
+        made = BRepBuilderAPI_MakeFace(surface, outer, True)
+        if not made.IsDone():
+            continue
+        for wire in topology.wires(face):    # the holes of a planar face stay holes
+            if not wire.IsSame(outer):
+                made.Add(wire)
+        fix = ShapeFix_Face(made.Face())
+        fix.Perform()                        # the wire's curves on the new surface
+        reshape.Replace(face, fix.Face())
+        changed = True
+    if not changed:
+        return solid
+    fixed = ShapeFix_Shape(reshape.Apply(solid))
+    fixed.Perform()                          # faces oriented with the solid's material
+    return fixed.Shape()
+
+
+def _analytic(raw: list[_Raw]) -> None:
+    """Each part's B-spline planes, cylinders and cones read as such (analytic_faces), once
+    per shape: the placements of one definition share the result."""
+    done: list[tuple[TopoDS_Shape, TopoDS_Shape]] = []
+    for r in raw:
+        base = r.solid.Located(TopLoc_Location())
+        twin = next((new for old, new in done if old.IsPartner(base)), None)
+        if twin is None:
+            twin = analytic_faces(base)
+            done.append((base, twin))
+        if twin is not base:
+            r.solid = twin.Located(r.solid.Location())
+
+
 def _unique_parts(raw: list[_Raw]) -> list[Part]:
     _instance_names_win(raw)
+    _analytic(raw)
     seen: dict[str, int] = {}
     parts = []
     for r in raw:

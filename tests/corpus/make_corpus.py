@@ -679,6 +679,22 @@ def quirk_screw_into_undrilled_part(path: Path) -> None:
     write_step(a, path)
 
 
+def quirk_bspline_faces(path: Path) -> None:
+    """The bolted plate pair (``bolted_pair_assembly``) with every face of the two plates
+    written as a B-spline surface, holes and flat faces alike (met in real exports: Open
+    CASCADE 6.1's AP214 writes the holes of its sample assembly so, Rhino its planes)."""
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_NurbsConvert
+
+    import cadquery as cq
+
+    a = bolted_pair_assembly()
+    for name in ("upper_plate", "lower_plate"):
+        child = a.objects[name]
+        shape = child.obj.val() if hasattr(child.obj, "val") else child.obj
+        child.obj = cq.Workplane("XY").add(cq.Shape.cast(BRepBuilderAPI_NurbsConvert(shape.wrapped, True).Shape()))
+    write_step(a, path)
+
+
 def quirk_unit_spelling(path: Path, style: str) -> None:
     """The bolted pair with its millimetre unit spelled as other writers spell it.
 
