@@ -24,7 +24,7 @@ def built(tmp_path_factory):
     out = {}
     folder = tmp_path_factory.mktemp("hardware")
     for kind in ("hex", "socket", "button", "pan", "cheese", "flange", "countersunk", "square nut",
-                 "flange nut", "lock nut", "set screw", "set screw unnamed", "stud", "shell", "open shell", "helical thread"):
+                 "flange nut", "lock nut", "set screw", "set screw unnamed", "stud", "stud unnamed", "shell", "open shell", "helical thread"):
         path = folder / f"{kind.replace(' ', '_')}.step"
         expect = mc.hardware_model(path, kind)
         out[kind] = (path, expect, scan_model(path))
@@ -118,8 +118,9 @@ def test_a_set_screw_is_hardware_not_a_joint(built, kind):
                                 "nominal": "M4" if kind == "set screw" else None}]
 
 
-def test_a_stud_with_a_nut_is_a_tapped_joint_headed_by_the_nut(built):
-    _, expect, scan = built["stud"]
+@pytest.mark.parametrize("kind", ["stud", "stud unnamed"])
+def test_a_stud_with_a_nut_is_a_tapped_joint_headed_by_the_nut(built, kind):
+    _, expect, scan = built[kind]
     [joint] = scan.joints
     assert joint.kind == "tapped" and joint.nominal == "M8"
     assert joint.bolt.nut_head == expect["nut"] and joint.nut is None

@@ -1039,3 +1039,21 @@ def stud_bolts(headless: list[Headless], nuts: list[Nut]) -> tuple[list[Bolt], s
                           nut_head=n.part))
         used.add(n.part)
     return bolts, used
+
+
+def rod_of_plug(plug, plugs: list) -> Headless | None:
+    """A part that is one plain cylinder of a thread's nominal diameter (its only plug, no name
+    that calls it a pin or shaft, its outline within SHANK_STEP_RATIO of the cylinder) as a stud
+    candidate: :func:`stud_bolts` makes it a stud where a nut sits on it."""
+    if plug.kind is not None or plug.solid is None:
+        return None
+    if sum(1 for p in plugs if p.part == plug.part) != 1:
+        return None
+    t = thread_for_diameter(plug.diameter)
+    if t is None:
+        return None
+    o = _Outline.of(_faces_of(plug.solid), plug.ref, plug.direction)
+    if len(o.r) == 0 or float(o.r.max()) > SHANK_STEP_RATIO * plug.diameter / 2:
+        return None
+    return Headless(plug.part, "stud", plug.ref, plug.direction, plug.diameter, float(o.t.min()), float(o.t.max()),
+                    SizeHint(t.designation, t.d, None), plug.solid, None)

@@ -23,6 +23,7 @@ from geomjoint.geometry.hardware import (
     _designation,   # the one parse of a product name recognition uses
     _hint_of,
     recognise,
+    rod_of_plug,
     stud_bolts,
     thread_fits_diameter,
     thread_for_diameter,
@@ -212,10 +213,15 @@ def _scan(model: Model) -> ScanResult:
         else:
             holes.extend(part_holes)
             plugs.extend(part_plugs)
-    # a stud with a nut on it is a bolt whose head is the nut
-    studs, head_nuts = stud_bolts(headless, nuts)
+    # a stud with a nut on it is a bolt whose head is the nut; an unnamed plain rod of a thread's
+    # size with a nut on it is a stud too (without the nut it may be a pin: it stays a plug)
+    holed = {h.part for h in holes}
+    rods = [r for r in (rod_of_plug(p, plugs) for p in plugs if p.part not in holed) if r is not None]
+    studs, head_nuts = stud_bolts(headless + rods, nuts)
     bolts += studs
     nuts = [n for n in nuts if n.part not in head_nuts]
+    stud_rods = {b.part for b in studs}
+    plugs = [p for p in plugs if p.part not in stud_rods]
     joints, aside = find_stacks(holes, bolts, nuts, washers, hints, plugs)
     # a part clamped under a head with a slot or notch instead of a whole hole
     hardware_parts = {h.part for h in (*bolts, *nuts, *washers, *headless)}

@@ -964,7 +964,7 @@ def hardware_model(path: Path, kind: str) -> dict:
     "flange" (ISO 4162 M8x25, nut), "countersunk" (ISO 10642 M6x20 in a countersink, tapped),
     "square nut" (ISO 4762 M6x20 with a DIN 557 nut), "flange nut" (ISO 4017 M8x30 with an ISO 4161 flange nut), "lock nut" (ISO 4017 M8x30 with an ISO 7040
     nut), "set screw" (ISO 4026 M4x6 in the tapped hole of a hub on a shaft), "set screw unnamed",
-    "stud" (DIN 938 M8 into a tapped block, a plate, an ISO 4032 nut), "shell" (a socket screw
+    "stud" (DIN 938 M8 into a tapped block, a plate, an ISO 4032 nut; "stud unnamed": the rod unnamed), "shell" (a socket screw
     exported as a surface body, closed), "open shell" (the same with its top face missing),
     "helical thread" (an unnamed ISO 4762 M6x12 with its thread drawn, into a tapped block).
     """
@@ -1045,13 +1045,13 @@ def hardware_model(path: Path, kind: str) -> dict:
         a.add(set_screw(4.0, 6.0, 2.0), name=name,
               loc=cq.Location(cq.Vector(0, 5.0, 8.0), cq.Vector(1, 0, 0), -90))
         expect.update(part=name, joints=0, nominal="M4", length=6.0)
-    elif kind == "stud":
+    elif kind in ("stud", "stud unnamed"):
         # DIN 938 M8x32 into a block tapped 15 deep (tap drill 6.8), a 10 mm plate, an ISO 4032 M8 nut (m 6.8)
         a.add(cq.Workplane("XY").box(40, 40, 20, centered=(True, True, False)).faces(">Z").workplane().hole(6.8, 15.0),
               name="block")
         a.add(cq.Workplane("XY").box(40, 40, 10, centered=(True, True, False)).faces(">Z").workplane().hole(9.0)
               .translate((0, 0, 20)), name="clamp_plate")
-        a.add(stud(8.0, 32.0), name="stud DIN 938 M8x32", loc=cq.Location(cq.Vector(0, 0, 8.0)))
+        a.add(stud(8.0, 32.0), name="stud DIN 938 M8x32" if kind == "stud" else "Part3", loc=cq.Location(cq.Vector(0, 0, 8.0)))
         a.add(chamfered_hex_nut(8.0, 13.0, 6.8), name="ISO 4032 M8", loc=cq.Location(cq.Vector(0, 0, 30.0)))
         # the nut bears at z = 30; the stud ends at z = 8, 22 mm below it
         expect.update(nominal="M8", length=22.0, joint_kind="tapped", nut="ISO 4032 M8", grip=10.0)
