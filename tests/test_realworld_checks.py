@@ -323,3 +323,18 @@ def test_analytic_faces_keeps_the_solid_and_its_holes():
     holes = find_holes(read, "plate", analyse_faces(read))
     assert sorted(round(h.diameter, 6) for h in holes) == [11.0, 11.0] and all(h.through for h in holes)
     assert analytic_faces(plate.wrapped) is plate.wrapped                   # nothing to do: the same shape
+
+
+def test_a_nut_heading_a_stud_counts_as_a_recognised_nut():
+    from types import SimpleNamespace as NS
+
+    # a threaded rod (no fastener name) with a nut at each end: the scan makes the rod a stud
+    # headed by one nut, and keeps the other as the nut of the joint
+    parts = [NS(name="rod", product="rod"), NS(name="nut", product="nut"), NS(name="nut#2", product="nut")]
+    stud = NS(part="rod", nut_head="nut", d=10.0, length=170.0, head_kind="hex")
+    scan = NS(model=NS(parts=parts), bolts=[stud], nuts=[NS(part="nut#2")], washers=[], joints=[])
+    row = {"fasteners": 0, "recognised": 0, "stated": 0, "stated_ok": 0, "shape_only": 0,
+           "missed": [], "wrong": [], "false_claims": [], "shape_only_parts": []}
+    rc._count_hardware(scan, row)
+    assert (row["fasteners"], row["recognised"], row["missed"]) == (2, 2, [])
+    assert row["shape_only_parts"] == [{"part": "rod", "kind": "bolt"}]      # listed for review

@@ -322,6 +322,8 @@ def _count_hardware(scan, row: dict, not_fasteners: dict[str, str] | None = None
 
     found = {**{b.part: ("bolt", b) for b in scan.bolts}, **{n.part: ("nut", n) for n in scan.nuts},
              **{w.part: ("washer", w) for w in scan.washers}}
+    # a nut that heads a stud is recognised as the nut it is (the scan keeps it on the stud)
+    found.update({b.nut_head: ("nut", b) for b in scan.bolts if getattr(b, "nut_head", None)})
     nominal = {j.bolt.part: j.nominal for j in scan.joints if j.bolt}
     for part in scan.model.parts:
         label = label_of(part.product, part.name)
