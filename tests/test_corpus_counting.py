@@ -174,3 +174,10 @@ def test_a_gap_is_false_only_where_the_faces_touch_and_the_gap_is_more_than_nois
     assert rc.gap_contradicted(3.0, 0.004)        # faces a few um apart, a 3 mm gap reported
     assert not rc.gap_contradicted(0.0025, 0.0025)   # what the model has, if idle
     assert not rc.gap_contradicted(1.0, 0.8)      # faces that do stand apart
+
+
+def test_the_corpus_has_two_machine_scale_models_from_different_cad_systems():
+    # issue 15: at least two machine-scale models (steel or aluminium, M8 and larger) from
+    # different CAD systems
+    machines = [e for e in json.loads(rc.MANIFEST.read_text()) if e.get("machine_scale")]
+    assert len(machines) >= 2 and len({e["cad_system"].split()[0] for e in machines}) >= 2
