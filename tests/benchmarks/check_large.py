@@ -40,6 +40,10 @@ most of all), medians of 3, ``--workers 1`` (seconds; sizes in MB):
     check / import               1.22     0.94     0.77
     ms per joint (growth)        46.7  56.0 (1.20)  49.7 (0.89)
 
+On the quiet machine at the end of the day (load 1.4, 200 joints, medians of 3, workers 1):
+import 4.11 s, xcaf 2.44, scan 1.00, analysis 2.20, report.html 0.75, scene 0.31, step 0.35,
+glb 0.41, whole check 4.00 s: check / import 0.97, 20.0 ms a joint.
+
 Before issue 13's last round (same machine, load 2.8, 200 joints, one run): import 4.87 s,
 check 18.53 s, ratio 3.80 (report.html 7.3 s, most of it Watson meshing of the plates for
 the overview; analysis 7.7 s).  The reference import grows faster than linearly (OCCT's
