@@ -44,6 +44,21 @@ On the quiet machine at the end of the day (load 1.4, 200 joints, medians of 3, 
 import 4.11 s, xcaf 2.44, scan 1.00, analysis 2.20, report.html 0.75, scene 0.31, step 0.35,
 glb 0.41, whole check 4.00 s: check / import 0.97, 20.0 ms a joint.
 
+Measured again 2026-12-02 16:05-16:12 UTC on the same machine idle (load average 0.1-1.5),
+medians of 3, ``--workers 1``, with the stack-up and hardware work of that day on main:
+
+    joints                        100      200      400
+    import (cadquery + mesh)     1.63     4.34    11.24
+    xcaf import + mesh           0.84     2.32     6.24
+    scan                         0.45     1.02     2.61
+    analysis (with the scan)     1.02     2.11     4.80
+    report.html              0.35/1.52 0.62/3.02 1.74/6.04
+    step                     0.17/1.19 0.37/2.33 0.93/4.61
+    glb                      0.16/0.84 0.28/1.61 0.69/3.16
+    whole check, written         1.98     3.90     8.97
+    check / import               1.21     0.90     0.80
+    ms per joint (growth)        19.8  19.5 (0.99)  22.4 (1.15)
+
 Before issue 13's last round (same machine, load 2.8, 200 joints, one run): import 4.87 s,
 check 18.53 s, ratio 3.80 (report.html 7.3 s, most of it Watson meshing of the plates for
 the overview; analysis 7.7 s).  The reference import grows faster than linearly (OCCT's
