@@ -793,14 +793,29 @@ def number(joints: list[Joint], aside: list[SetAside]) -> None:
         a.id = a.joint.id = f"{SET_ASIDE_PREFIX}{k:02d}"
 
 
+def _parts_outside_stack(j: Joint, parts, cache: dict | None):
+    """(name, located solid, material hint, point classifier) of each part of ``parts`` that is
+    neither a layer of the joint nor its bolt; a part's classifier is built once and kept in
+    ``cache`` between joints (building it is the costly step)."""
+    from geomjoint.geometry.holes import _Inside
+
+    in_stack = {l.part for l in j.layers} | {j.bolt.part}
+    cache = {} if cache is None else cache
+    for name, solid, hint in parts:
+        if name in in_stack:
+            continue
+        inside = cache.get(name)
+        if inside is None:
+            inside = cache[name] = _Inside(solid)
+        yield name, solid, hint, inside
+
+
 def open_hole_layer(j: Joint, parts, cache: dict | None = None) -> Layer | None:
     """A part clamped between a modelled head and the first layer of its stack whose hole around
     the bolt is not whole (a slot, a notch, a hole cut by the part's edge): the material beside
     the shank fills the gap under the head.  ``parts``: (name, located solid, material hint) of
     the parts that are no hardware; ``cache`` keeps each part's point classifier between joints.
     Returns the layer (its hole taken as the bolt's diameter), or None."""
-    from geomjoint.geometry.holes import _Inside
-
     if j.bolt is None or not j.layers or j.layers[0].start <= GAP_TOL:
         return None
     g = j.layers[0].start
@@ -810,14 +825,7 @@ def open_hole_layer(j: Joint, parts, cache: dict | None = None) -> Layer | None:
     r = j.bolt.d / 2 + OPEN_PROBE_OUTSIDE
     angles = [2 * math.pi * k / OPEN_PROBE_ANGLES for k in range(OPEN_PROBE_ANGLES)]
     rings = [[p0 + f * g * e + r * (math.cos(a) * u + math.sin(a) * v) for a in angles] for f in OPEN_PROBE_SHARES]
-    in_stack = {l.part for l in j.layers} | {j.bolt.part}
-    cache = {} if cache is None else cache
-    for name, solid, hint in parts:
-        if name in in_stack:
-            continue
-        inside = cache.get(name)
-        if inside is None:
-            inside = cache[name] = _Inside(solid)
+    for name, solid, hint, inside in _parts_outside_stack(j, parts, cache):
         if inside.box.IsOut(gp_Pnt(*map(float, rings[1][0]))) and inside.box.IsOut(gp_Pnt(*map(float, rings[1][6]))):
             continue                           # far from this joint
         if all(sum(inside(q) for q in ring) >= OPEN_PROBE_MIN_HITS for ring in rings):
@@ -832,8 +840,6 @@ def undrilled_thread_layer(j: Joint, parts, cache: dict | None = None) -> Layer 
     bore at the screw's nominal diameter, which may be a clearance drawn line to line).
     ``parts``: (name, located solid, material hint) of the parts that are no hardware.  Returns
     the tapped layer (no hole: ``open``, its bore the screw's diameter), or None."""
-    from geomjoint.geometry.holes import _Inside
-
     b = j.bolt
     if b is None or j.nut is not None or not j.layers:
         return None
@@ -848,14 +854,7 @@ def undrilled_thread_layer(j: Joint, parts, cache: dict | None = None) -> Layer 
     e = np.asarray(j.direction, dtype=float)
     p0 = np.asarray(j.point, dtype=float)
     steps = [s0 + (tip - s0) * (k + 0.5) / UNDRILLED_PROBES for k in range(UNDRILLED_PROBES)]
-    in_stack = {l.part for l in j.layers} | {b.part}
-    cache = {} if cache is None else cache
-    for name, solid, hint in parts:
-        if name in in_stack:
-            continue
-        inside = cache.get(name)
-        if inside is None:
-            inside = cache[name] = _Inside(solid)
+    for name, solid, hint, inside in _parts_outside_stack(j, parts, cache):
         hits = [s for s in steps if inside(p0 + s * e)]
         if not hits or hits[0] > steps[1] + LINEAR_TOL:
             continue                           # not where the stack ends
