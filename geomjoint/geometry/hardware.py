@@ -608,7 +608,7 @@ def _headless_or_bolt(part, o: _Outline, shank_secs, solid, desig, hint):
     if af is not None and MIN_HEAD_WIDTH_RATIO * 2 * r_nom <= af <= MAX_HEAD_WIDTH_RATIO * 2 * r_nom:
         if k > HEX_MAX_HEIGHT_RATIO * 2 * r_nom:
             return None                  # a male-female hex standoff, a hex spacer on a pin
-        corners = af / math.cos(math.radians(30))
+        corners = af * HEX_CORNER_FACTOR
         if R > FLANGE_OVER_CORNERS * corners / 2:
             kind, bd = "flange", 2 * (bearing[1] if bearing is not None else R)
         else:

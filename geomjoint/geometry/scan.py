@@ -15,6 +15,7 @@ from typing import Any
 from geomjoint import catalog
 from geomjoint.errors import InputError
 from geomjoint.geometry.hardware import (
+    HEX_CORNER_FACTOR,
     SIZE_TOL,
     Bolt,
     Headless,
@@ -571,12 +572,12 @@ def add_findings(j: Joint, system: str | None = None, thread=None) -> None:
             need, what = j.washers[0].outer, f"washer {j.washers[0].part}"
         elif j.bolt is not None:
             w = j.bolt.head_width
-            need = w / math.cos(math.radians(30)) if j.bolt.head_kind == "hex" else w
+            need = w * HEX_CORNER_FACTOR if j.bolt.head_kind == "hex" else w
             what = f"head of {j.bolt.part}"
         else:
             try:
                 hd = catalog.head(t, kind)
-                need = hd.width / math.cos(math.radians(30)) if kind == "hex" else hd.width
+                need = hd.width * HEX_CORNER_FACTOR if kind == "hex" else hd.width
                 what = f"{kind} head of {t.designation} ({hd.source.split(';')[0]})"
             except InputError as exc:
                 add(Finding("warn", "catalog-gap", f"{exc}: the seat of {seat_layer.part} is not checked"))
