@@ -156,6 +156,8 @@ def names_other_part(name: str) -> bool:
     return any(w in NOT_FASTENER_WORDS for w in _words(name))
 
 
+# The runner reads names with a small parser of its own, not geomjoint's catalog.designation:
+# the instrument must not share the code it measures.
 def _inch(text: str) -> float:
     text = text.strip().replace("-", " ")
     total = 0.0
